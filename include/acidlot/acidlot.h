@@ -1,0 +1,20 @@
+/* acidlot: titratable acidity QC library, the whole public interface.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_ACIDLOT_H
+#define ACIDLOT_ACIDLOT_H
+
+#include "acidlot/alloc.h"
+#include "acidlot/assay.h"
+#include "acidlot/chem.h"
+#include "acidlot/csvread.h"
+#include "acidlot/number.h"
+#include "acidlot/outfile.h"
+#include "acidlot/report.h"
+#include "acidlot/spec.h"
+#include "acidlot/stats.h"
+#include "acidlot/status.h"
+#include "acidlot/ta.h"
+#include "acidlot/table.h"
+#include "acidlot/units.h"
+
+#endif

@@ -1,0 +1,25 @@
+/* acidlot: the one place every allocation of the library goes through.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_ALLOC_H
+#define ACIDLOT_ALLOC_H
+
+#include <stddef.h>
+
+/* Like malloc/realloc/free; al_malloc(0) returns a unique pointer. They
+ * return NULL on failure and never abort. */
+void *al_malloc(size_t size);
+void *al_calloc(size_t count, size_t size);
+void *al_realloc(void *ptr, size_t size);
+void al_free(void *ptr);
+
+/* Copy of the first len bytes of s, NUL-terminated; NULL on failure. */
+char *al_strndup(const char *s, size_t len);
+char *al_strdup(const char *s);
+
+/* Fault injection for tests: the n-th allocation from now (1-based) and
+ * every one after it fail; 0 switches injection off. al_alloc_count()
+ * tells how many allocations were asked for since the last reset. */
+void al_alloc_fail_at(unsigned long n);
+unsigned long al_alloc_count(void);
+
+#endif

@@ -1,0 +1,122 @@
+/* acidlot: the assay run: titration rows in, one result per lot sample.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Data path: CSV rows -> per-row titratable acidity -> replicate groups
+ * (product + lot + sample) -> statistics -> decision against the spec.
+ * Rows stream through; memory grows with the number of groups. */
+#ifndef ACIDLOT_ASSAY_H
+#define ACIDLOT_ASSAY_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+#include "acidlot/chem.h"
+#include "acidlot/csvread.h"
+#include "acidlot/spec.h"
+#include "acidlot/stats.h"
+#include "acidlot/units.h"
+
+typedef struct al_assay_options {
+	const al_catalogue *catalogue; /* required */
+	const al_spec_table *specs;    /* may be NULL */
+	const al_acid *default_acid;   /* when neither spec nor row names one;
+					  NULL means citric */
+	int has_unit;                  /* unit for groups whose spec names none */
+	al_unit unit;                  /* (else the sample's own basis:
+					  g/100g by mass, g/100mL by volume) */
+	int has_blank;
+	double blank_ml;               /* when a row has no blank_ml */
+	int has_titrant;
+	double titrant_mol_l;          /* when a row has no titrant_mol_l */
+	int has_density;
+	double density_g_ml;           /* when a row has no density_g_ml */
+	int has_endpoint;
+	double endpoint_ph;            /* when a row has no endpoint_ph */
+	double confidence;             /* of the interval; 0.95 when 0 */
+	al_csv_options csv;
+} al_assay_options;
+
+/* Flags on a titration row and on a group (a group carries the union of
+ * its rows' flags plus its own). */
+enum {
+	AL_FLAG_SINGLE = 1u << 0,       /* n = 1: no spread can be computed */
+	AL_FLAG_FEW = 1u << 1,          /* n below the spec's min_n */
+	AL_FLAG_RSD = 1u << 2,          /* RSD above the spec's max_rsd_pct */
+	AL_FLAG_BELOW_MIN = 1u << 3,    /* mean below the spec's min */
+	AL_FLAG_ABOVE_MAX = 1u << 4,    /* mean above the spec's max */
+	AL_FLAG_ENDPOINT_LOW = 1u << 5, /* endpoint pH titrates < 99 % of the
+					   protons the factor assumes */
+	AL_FLAG_ACID_IGNORED = 1u << 6, /* a row named another acid than the
+					   specification; the spec's is used */
+	AL_FLAG_DENSITY = 1u << 7       /* converted mass <-> volume basis */
+};
+
+/* One titration that went into a result, as handed to the row callback.
+ * Strings are valid only during the call. */
+typedef struct al_replicate {
+	const char *file;
+	unsigned long line;
+	const char *product, *lot, *sample, *replicate;
+	double meq;     /* milliequivalents titrated in the portion */
+	double value;   /* titratable acidity in unit, as acid */
+	al_unit unit;
+	const al_acid *acid;
+	unsigned flags; /* AL_FLAG_ bits of this row */
+	double endpoint_ph_needed; /* when AL_FLAG_ENDPOINT_LOW */
+} al_replicate;
+
+typedef al_status (*al_replicate_fn)(void *ud, const al_replicate *rep);
+
+/* One result: a product + lot + sample and its replicates. */
+typedef struct al_group_result {
+	const char *product, *lot, *sample;
+	const al_acid *acid;
+	al_unit unit;
+	const al_spec *spec;  /* NULL: no specification for the product */
+	al_summary stats;
+	al_verdict verdict;
+	unsigned flags;       /* AL_FLAG_ bits */
+	double endpoint_ph;   /* lowest endpoint pH among its rows, if flagged */
+	double endpoint_ph_needed;
+	const double *values; /* the n replicate values, in input order */
+} al_group_result;
+
+typedef struct al_assay_counts {
+	unsigned long rows_read; /* data rows, blank lines not counted */
+	unsigned long rows_used;
+	unsigned long rows_bad;  /* rows with at least one error */
+	unsigned long groups;
+	unsigned long by_verdict[AL_VERDICT_COUNT];
+} al_assay_counts;
+
+typedef struct al_assay al_assay;
+
+/* A new run; options are copied (the catalogue and specs they point to
+ * must outlive the run). NULL with *status set on failure. */
+al_assay *al_assay_new(const al_assay_options *opt, al_status *status);
+void al_assay_free(al_assay *run);
+
+/* Reads one titration file. Every row is used or reported: problems go
+ * to the run's diagnostics with file, line and column. on_row (may be
+ * NULL) sees each row used. Returns AL_OK when the file could be read
+ * to its end even if rows were bad (see al_assay_counts), else AL_ESYNTAX,
+ * AL_EINPUT (a header problem), AL_EIO, AL_ENOMEM or what on_row
+ * returned. */
+al_status al_assay_read(al_assay *run, FILE *in, const char *name,
+			al_replicate_fn on_row, void *ud);
+
+/* Computes statistics and verdicts for every group; call once, after the
+ * last al_assay_read. */
+al_status al_assay_finish(al_assay *run);
+
+size_t al_assay_group_count(const al_assay *run);
+/* i-th result in order of first appearance; valid after finish. */
+const al_group_result *al_assay_result(const al_assay *run, size_t i);
+al_assay_counts al_assay_get_counts(const al_assay *run);
+al_diags *al_assay_diags(al_assay *run);
+
+/* Writes the names of the flags set in `flags` as "a;b;c" into buf. */
+void al_flags_format(unsigned flags, double endpoint_needed, char *buf,
+		     size_t cap);
+
+#endif

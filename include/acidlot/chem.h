@@ -1,0 +1,68 @@
+/* acidlot: atomic weights, formula masses, the acid catalogue and the
+ * protons an endpoint titrates.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_CHEM_H
+#define ACIDLOT_CHEM_H
+
+#include <stddef.h>
+
+#include "acidlot/status.h"
+
+#define AL_MAX_PKA 4
+
+typedef struct al_element {
+	char symbol[4];
+	char *name;
+	double atomic_weight; /* g/mol, conventional or abridged value */
+	char *source;
+} al_element;
+
+typedef struct al_acid {
+	char *name;     /* catalogue key, e.g. "citric-monohydrate" */
+	char *aliases;  /* '|'-separated other names, may be "" */
+	char *formula;  /* e.g. "C6H8O7.H2O" */
+	double molar_mass; /* g/mol, computed from formula and atomic weights */
+	int protons;       /* titratable protons the factor assumes */
+	double pka[AL_MAX_PKA];
+	int n_pka;
+	double g_per_meq;  /* molar_mass / protons / 1000 */
+	char *notes;
+	char *source;
+} al_acid;
+
+/* The reference tables built into the binary: atomic weights and acids.
+ * Opaque; made by al_catalogue_new, released by al_catalogue_free. */
+typedef struct al_catalogue al_catalogue;
+
+/* Parses the built-in tables. On failure returns NULL and sets *status
+ * (AL_ENOMEM, or AL_EINPUT when a table is inconsistent, with the detail
+ * added to diags when diags is not NULL). */
+al_catalogue *al_catalogue_new(al_status *status, al_diags *diags);
+void al_catalogue_free(al_catalogue *cat);
+
+size_t al_catalogue_acid_count(const al_catalogue *cat);
+const al_acid *al_catalogue_acid(const al_catalogue *cat, size_t i);
+/* Finds an acid by key or alias, ignoring case, blanks, '_' vs '-' and a
+ * trailing " acid". NULL when unknown. */
+const al_acid *al_catalogue_find(const al_catalogue *cat, const char *name);
+const al_element *al_catalogue_element(const al_catalogue *cat,
+				       const char *symbol);
+
+/* Molar mass of a formula such as "C6H8O7", "C2H2O4.2H2O", "Ca(OH)2",
+ * "KHC8H4O4" (hydrate dot may be '.', '*' or U+00B7). Returns AL_EINPUT
+ * for a malformed formula and AL_ENOTFOUND for an element not in the
+ * table, with a short reason in why (may be NULL). */
+al_status al_formula_mass(const al_catalogue *cat, const char *formula,
+			  double *molar_mass, const char **why);
+
+/* Mean number of protons removed from the fully protonated acid at the
+ * given pH: sum over i of i * alpha_i, the species fractions from the
+ * pKa values (ideal solution, activity effects ignored). */
+double al_protons_titrated(const double *pka, int n_pka, double ph);
+
+/* The lowest pH (0..14) at which at least `fraction` of `protons` are
+ * titrated; returns AL_EDOMAIN when even pH 14 does not reach it. */
+al_status al_endpoint_ph_needed(const double *pka, int n_pka, int protons,
+				double fraction, double *ph);
+
+#endif

@@ -1,0 +1,59 @@
+/* acidlot: streaming CSV reader over libcsv, with physical line numbers.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_CSVREAD_H
+#define ACIDLOT_CSVREAD_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+#include "acidlot/status.h"
+
+typedef struct al_csv_options {
+	char delimiter;   /* ',' when 0 */
+	size_t max_field; /* bytes; AL_CSV_MAX_FIELD when 0 */
+} al_csv_options;
+
+#define AL_CSV_MAX_FIELD 4096
+
+/* One record. fields[i] is NUL-terminated and lens[i] its length; both
+ * are valid only during the callback. line is the physical line (1-based)
+ * on which the record starts. */
+typedef struct al_csv_row {
+	size_t nfields;
+	const char *const *fields;
+	const size_t *lens;
+	unsigned long line;
+} al_csv_row;
+
+/* Called for every record that has at least one field. Blank lines are
+ * skipped (their line numbers still count). Return AL_OK to go on; any
+ * other status stops the reader, which then returns that status. */
+typedef al_status (*al_csv_row_fn)(void *ud, const al_csv_row *row);
+
+/* Reads a source: returns bytes put in buf (0 at the end) and sets
+ * *failed on a read error. */
+typedef size_t (*al_read_fn)(void *ctx, void *buf, size_t cap, int *failed);
+
+/* Reads all records from a source, calling row_fn for each. A UTF-8
+ * byte-order mark at the start is skipped. Syntax errors (strict RFC 4180
+ * quoting, an unterminated quote, a field over max_field bytes, a NUL
+ * byte) are added to diags with `name` and the line, and give
+ * AL_ESYNTAX; a read error AL_EIO; AL_ENOMEM when memory runs out. */
+al_status al_csv_read(const al_csv_options *opt, al_read_fn read_fn,
+		      void *read_ctx, const char *name, al_csv_row_fn row_fn,
+		      void *ud, al_diags *diags);
+al_status al_csv_read_file(const al_csv_options *opt, FILE *in,
+			   const char *name, al_csv_row_fn row_fn, void *ud,
+			   al_diags *diags);
+al_status al_csv_read_mem(const al_csv_options *opt, const char *data,
+			  size_t len, const char *name, al_csv_row_fn row_fn,
+			  void *ud, al_diags *diags);
+
+/* Trims blanks (space, tab) from both ends of s[0..*len): returns the new
+ * start and updates *len. */
+const char *al_trim(const char *s, size_t *len);
+
+/* Case-insensitive ASCII comparison of s[0..len) with the C string word. */
+int al_word_eq(const char *s, size_t len, const char *word);
+
+#endif

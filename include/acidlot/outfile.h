@@ -1,0 +1,26 @@
+/* acidlot: output files that appear whole or not at all.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_OUTFILE_H
+#define ACIDLOT_OUTFILE_H
+
+#include <stdio.h>
+
+#include "acidlot/status.h"
+
+/* An output being written: to a temporary file in the target's directory,
+ * renamed over the target by al_outfile_commit, removed by
+ * al_outfile_abort. The path "-" writes to standard output. */
+typedef struct al_outfile al_outfile;
+
+/* NULL with *status (AL_EIO, AL_ENOMEM) on failure; errno is kept. */
+al_outfile *al_outfile_open(const char *path, al_status *status);
+FILE *al_outfile_stream(al_outfile *f);
+const char *al_outfile_path(const al_outfile *f);
+/* Flushes, checks every write, closes and renames; AL_EIO on any failure,
+ * in which case the temporary file is removed and the target untouched.
+ * Frees f in every case. */
+al_status al_outfile_commit(al_outfile *f);
+/* Discards everything written; frees f. Accepts NULL. */
+void al_outfile_abort(al_outfile *f);
+
+#endif

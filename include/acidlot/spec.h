@@ -1,0 +1,68 @@
+/* acidlot: specification limits per product, and the decision.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_SPEC_H
+#define ACIDLOT_SPEC_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+#include "acidlot/chem.h"
+#include "acidlot/csvread.h"
+#include "acidlot/stats.h"
+#include "acidlot/units.h"
+
+typedef struct al_spec {
+	char *product;
+	const al_acid *acid; /* NULL: not named by the specification */
+	int has_unit;
+	al_unit unit;
+	int has_min, has_max;
+	double min, max;     /* in unit, as the acid */
+	int has_max_rsd;
+	double max_rsd_pct;
+	size_t min_n;        /* 2 when not given */
+	unsigned long line;  /* where it stands in its file */
+} al_spec;
+
+/* Opaque table of specifications; al_spec_table_free accepts NULL. */
+typedef struct al_spec_table al_spec_table;
+
+/* Reads a specification CSV: columns product (required, unique), acid,
+ * unit, min, max (at least one of the two per row), max_rsd_pct, min_n.
+ * Problems go to diags with file, line and column; the result is then
+ * NULL with *status AL_EINPUT (or AL_ESYNTAX, AL_EIO, AL_ENOMEM). */
+al_spec_table *al_spec_table_read(const al_catalogue *cat,
+				  const al_csv_options *csv, FILE *in,
+				  const char *name, al_status *status,
+				  al_diags *diags);
+void al_spec_table_free(al_spec_table *table);
+size_t al_spec_count(const al_spec_table *table);
+const al_spec *al_spec_at(const al_spec_table *table, size_t i);
+/* The specification of a product (exact, case-sensitive match), or NULL. */
+const al_spec *al_spec_find(const al_spec_table *table, const char *product);
+
+typedef enum al_verdict {
+	AL_VERDICT_PASS = 0,
+	AL_VERDICT_FAIL,
+	AL_VERDICT_RETEST,
+	AL_VERDICT_NO_SPEC,
+	AL_VERDICT_COUNT
+} al_verdict;
+
+const char *al_verdict_name(al_verdict v);
+
+/* Why a verdict came out as it did (bits, see al_judge). */
+enum {
+	AL_WHY_FEW = 1u << 0,       /* n below min_n */
+	AL_WHY_RSD = 1u << 1,       /* RSD above max_rsd_pct */
+	AL_WHY_BELOW_MIN = 1u << 2, /* mean below the minimum */
+	AL_WHY_ABOVE_MAX = 1u << 3  /* mean above the maximum */
+};
+
+/* Simple acceptance (ILAC G8:09/2019 s.4.2.1): retest when n < min_n or
+ * RSD > max_rsd_pct, else pass when min <= mean <= max, else fail;
+ * no-spec without a specification. *why gets the AL_WHY_ bits. The mean
+ * is compared at full precision, before any rounding for the report. */
+al_verdict al_judge(const al_spec *spec, const al_summary *s, unsigned *why);
+
+#endif

@@ -1,0 +1,79 @@
+/* acidlot: allocation wrappers with a fault-injection switch for tests.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include "acidlot/alloc.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+static unsigned long alloc_calls;
+static unsigned long alloc_fail_from; /* 0 = never fail */
+
+static int
+should_fail(void)
+{
+	alloc_calls++;
+	return alloc_fail_from != 0 && alloc_calls >= alloc_fail_from;
+}
+
+void
+al_alloc_fail_at(unsigned long n)
+{
+	alloc_calls = 0;
+	alloc_fail_from = n;
+}
+
+unsigned long
+al_alloc_count(void)
+{
+	return alloc_calls;
+}
+
+void *
+al_malloc(size_t size)
+{
+	if (should_fail())
+		return NULL;
+	return malloc(size ? size : 1);
+}
+
+void *
+al_calloc(size_t count, size_t size)
+{
+	if (should_fail())
+		return NULL;
+	if (count == 0 || size == 0)
+		return calloc(1, 1);
+	return calloc(count, size);
+}
+
+void *
+al_realloc(void *ptr, size_t size)
+{
+	if (should_fail())
+		return NULL;
+	return realloc(ptr, size ? size : 1);
+}
+
+void
+al_free(void *ptr)
+{
+	free(ptr);
+}
+
+char *
+al_strndup(const char *s, size_t len)
+{
+	char *copy = al_malloc(len + 1);
+
+	if (copy == NULL)
+		return NULL;
+	memcpy(copy, s, len);
+	copy[len] = '\0';
+	return copy;
+}
+
+char *
+al_strdup(const char *s)
+{
+	return al_strndup(s, strlen(s));
+}

@@ -1,0 +1,759 @@
+/* acidlot: the assay run, from titration rows to judged results.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include "acidlot/assay.h"
+
+#include <math.h>
+#include <stdint.h>
+#include <string.h>
+
+#include "acidlot/alloc.h"
+#include "acidlot/table.h"
+#include "acidlot/ta.h"
+
+/* The endpoint must titrate at least this share of the protons that the
+ * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
+#define ENDPOINT_SHARE 0.99
+
+enum {
+	C_SAMPLE, C_TITRANT, C_MASS, C_VOLUME, C_PRODUCT, C_LOT, C_REPLICATE,
+	C_BLANK, C_CONC, C_MADE_UP, C_ALIQUOT, C_ACID, C_DENSITY, C_ENDPOINT,
+	C_COUNT
+};
+static const char *const cols[C_COUNT] = {
+	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
+	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
+	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
+	"endpoint_ph"};
+
+struct group {
+	size_t key;     /* offset in the arena: product \0 lot \0 sample \0 */
+	size_t lot_off, sample_off;
+	const al_acid *acid;
+	al_unit unit;
+	const al_spec *spec;
+	double *values;
+	uint32_t n, cap;
+	unsigned flags;
+	double min_endpoint;
+	unsigned long first_line;
+	char *first_file; /* shared string, owned by run->files */
+};
+
+struct al_assay {
+	al_assay_options opt;
+	al_diags diags;
+	al_assay_counts counts;
+
+	char *arena;
+	size_t arena_len, arena_cap;
+	struct group *groups;
+	size_t n_groups, groups_cap;
+	uint32_t *slots; /* hash: group index + 1, 0 = empty */
+	size_t n_slots;
+
+	char **files;
+	size_t n_files;
+
+	al_group_result *results;
+	char *scratch; /* the current row's text cells, NUL-terminated */
+	size_t scratch_cap;
+
+	/* per-file state */
+	const char *file;
+	int header_done, header_ok;
+	size_t header_fields;
+	int col[C_COUNT];
+	al_replicate_fn on_row;
+	void *ud;
+};
+
+al_assay *
+al_assay_new(const al_assay_options *opt, al_status *status)
+{
+	al_assay *run = al_calloc(1, sizeof *run);
+
+	if (run == NULL) {
+		*status = AL_ENOMEM;
+		return NULL;
+	}
+	run->opt = *opt;
+	if (run->opt.default_acid == NULL)
+		run->opt.default_acid =
+			al_catalogue_find(opt->catalogue, "citric");
+	if (run->opt.confidence == 0)
+		run->opt.confidence = 0.95;
+	*status = AL_OK;
+	return run;
+}
+
+void
+al_assay_free(al_assay *run)
+{
+	if (run == NULL)
+		return;
+	for (size_t i = 0; i < run->n_groups; i++)
+		al_free(run->groups[i].values);
+	for (size_t i = 0; i < run->n_files; i++)
+		al_free(run->files[i]);
+	al_free(run->files);
+	al_free(run->groups);
+	al_free(run->slots);
+	al_free(run->arena);
+	al_free(run->results);
+	al_free(run->scratch);
+	al_diags_clear(&run->diags);
+	al_free(run);
+}
+
+al_diags *
+al_assay_diags(al_assay *run)
+{
+	return &run->diags;
+}
+
+al_assay_counts
+al_assay_get_counts(const al_assay *run)
+{
+	return run->counts;
+}
+
+size_t
+al_assay_group_count(const al_assay *run)
+{
+	return run->n_groups;
+}
+
+const al_group_result *
+al_assay_result(const al_assay *run, size_t i)
+{
+	return run->results && i < run->n_groups ? &run->results[i] : NULL;
+}
+
+/* FNV-1a, 64 bit */
+static uint64_t
+hash_bytes(uint64_t h, const char *s, size_t len)
+{
+	for (size_t i = 0; i < len; i++) {
+		h ^= (unsigned char)s[i];
+		h *= 1099511628211ULL;
+	}
+	return h;
+}
+
+static uint64_t
+key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
+	 size_t sl)
+{
+	uint64_t h = 14695981039346656037ULL;
+
+	h = hash_bytes(h, p, pl);
+	h = hash_bytes(h, "", 1);
+	h = hash_bytes(h, l, ll);
+	h = hash_bytes(h, "", 1);
+	return hash_bytes(h, s, sl);
+}
+
+static int
+group_is(const al_assay *run, const struct group *g, const char *p,
+	 size_t pl, const char *l, size_t ll, const char *s, size_t sl)
+{
+	const char *k = run->arena + g->key;
+
+	return g->lot_off == pl + 1 && g->sample_off == pl + ll + 2 &&
+	       memcmp(k, p, pl) == 0 && memcmp(k + pl + 1, l, ll) == 0 &&
+	       memcmp(k + g->sample_off, s, sl) == 0 &&
+	       k[g->sample_off + sl] == '\0';
+}
+
+static al_status
+rehash(al_assay *run)
+{
+	size_t n = run->n_slots ? 2 * run->n_slots : 1024;
+	uint32_t *slots = al_calloc(n, sizeof *slots);
+
+	if (slots == NULL)
+		return AL_ENOMEM;
+	for (size_t i = 0; i < run->n_groups; i++) {
+		const struct group *g = &run->groups[i];
+		const char *k = run->arena + g->key;
+		uint64_t h = key_hash(k, g->lot_off - 1, k + g->lot_off,
+				      g->sample_off - g->lot_off - 1,
+				      k + g->sample_off,
+				      strlen(k + g->sample_off));
+		size_t j = (size_t)h & (n - 1);
+
+		while (slots[j])
+			j = (j + 1) & (n - 1);
+		slots[j] = (uint32_t)(i + 1);
+	}
+	al_free(run->slots);
+	run->slots = slots;
+	run->n_slots = n;
+	return AL_OK;
+}
+
+/* Finds the group of a key, or creates it; *created tells which. */
+static al_status
+find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
+	   const char *s, size_t sl, struct group **out, int *created)
+{
+	uint64_t h;
+	size_t j, need;
+	struct group *g;
+
+	*created = 0;
+	if (run->n_slots == 0 || 2 * (run->n_groups + 1) > run->n_slots) {
+		if (run->n_groups >= UINT32_MAX / 2)
+			return AL_ENOMEM;
+		if (rehash(run) != AL_OK)
+			return AL_ENOMEM;
+	}
+	h = key_hash(p, pl, l, ll, s, sl);
+	for (j = (size_t)h & (run->n_slots - 1); run->slots[j];
+	     j = (j + 1) & (run->n_slots - 1)) {
+		g = &run->groups[run->slots[j] - 1];
+		if (group_is(run, g, p, pl, l, ll, s, sl)) {
+			*out = g;
+			return AL_OK;
+		}
+	}
+	need = pl + ll + sl + 3;
+	if (run->arena_len + need > run->arena_cap) {
+		size_t n = run->arena_cap ? run->arena_cap : 64 * 1024;
+		char *grown;
+
+		while (n < run->arena_len + need)
+			n *= 2;
+		grown = al_realloc(run->arena, n);
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->arena = grown;
+		run->arena_cap = n;
+	}
+	if (run->n_groups == run->groups_cap) {
+		size_t n = run->groups_cap ? 2 * run->groups_cap : 256;
+		struct group *grown = al_realloc(run->groups, n * sizeof *grown);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->groups = grown;
+		run->groups_cap = n;
+	}
+	g = &run->groups[run->n_groups];
+	memset(g, 0, sizeof *g);
+	g->key = run->arena_len;
+	g->lot_off = pl + 1;
+	g->sample_off = pl + ll + 2;
+	memcpy(run->arena + run->arena_len, p, pl);
+	run->arena[run->arena_len + pl] = '\0';
+	memcpy(run->arena + run->arena_len + pl + 1, l, ll);
+	run->arena[run->arena_len + pl + 1 + ll] = '\0';
+	memcpy(run->arena + run->arena_len + pl + ll + 2, s, sl);
+	run->arena[run->arena_len + pl + ll + 2 + sl] = '\0';
+	run->arena_len += need;
+	run->slots[j] = (uint32_t)(run->n_groups + 1);
+	run->n_groups++;
+	*out = g;
+	*created = 1;
+	return AL_OK;
+}
+
+static al_status
+push_value(struct group *g, double v)
+{
+	if (g->n == g->cap) {
+		uint32_t n = g->cap ? 2 * g->cap : 4;
+		double *grown = al_realloc(g->values, n * sizeof *grown);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		g->values = grown;
+		g->cap = n;
+	}
+	g->values[g->n++] = v;
+	return AL_OK;
+}
+
+/* Adds an error for the current row. */
+#define ROW_ERR(run, line, column, ...)                                       \
+	al_diags_add(&(run)->diags, AL_SEV_ERROR, (run)->file, (line), (column), \
+		     __VA_ARGS__)
+
+static al_status
+check_header(al_assay *run, const al_csv_row *row)
+{
+	int ok = 1;
+	char have[512];
+	size_t hl = 0;
+
+	run->header_done = 1;
+	run->header_fields = row->nfields;
+	if (al_header_map(row, cols, C_COUNT, run->col, run->file,
+			  &run->diags) != AL_OK)
+		ok = 0;
+	have[0] = '\0';
+	for (size_t i = 0; i < row->nfields && hl < sizeof have; i++) {
+		int w = snprintf(have + hl, sizeof have - hl, "%s%s",
+				 i ? ", " : "", row->fields[i]);
+		if (w > 0)
+			hl += (size_t)w;
+	}
+	if (run->col[C_SAMPLE] < 0 || run->col[C_TITRANT] < 0) {
+		ROW_ERR(run, row->line, NULL,
+			"missing required column '%s' (the file has: %s)",
+			run->col[C_SAMPLE] < 0 ? "sample" : "titrant_ml", have);
+		ok = 0;
+	}
+	if (run->col[C_MASS] < 0 && run->col[C_VOLUME] < 0) {
+		ROW_ERR(run, row->line, NULL,
+			"needs a 'mass_g' or a 'volume_ml' column (the file "
+			"has: %s)",
+			have);
+		ok = 0;
+	}
+	if ((run->col[C_MADE_UP] < 0) != (run->col[C_ALIQUOT] < 0)) {
+		ROW_ERR(run, row->line, NULL,
+			"'made_up_ml' and 'aliquot_ml' go together: the file "
+			"has only '%s'",
+			run->col[C_MADE_UP] < 0 ? "aliquot_ml" : "made_up_ml");
+		ok = 0;
+	}
+	if (run->col[C_CONC] < 0 && !run->opt.has_titrant) {
+		ROW_ERR(run, row->line, NULL,
+			"no titrant concentration: add a 'titrant_mol_l' "
+			"column or give --titrant-mol-l");
+		ok = 0;
+	}
+	run->header_ok = ok;
+	return run->diags.out_of_memory ? AL_ENOMEM : (ok ? AL_OK : AL_EINPUT);
+}
+
+static int
+row_is_empty(const al_csv_row *row)
+{
+	for (size_t i = 0; i < row->nfields; i++) {
+		size_t len = row->lens[i];
+
+		al_trim(row->fields[i], &len);
+		if (len)
+			return 0;
+	}
+	return 1;
+}
+
+/* A numeric cell, or the option's default. Returns 1 set, 0 absent,
+ * -1 bad (already reported). */
+static int
+number_or_default(al_assay *run, const al_csv_row *row, int k, int has_def,
+		  double def, double *v)
+{
+	int got = al_cell_number(row, run->col[k], cols[k], '.', run->file,
+				 &run->diags, v);
+
+	if (got == 0 && has_def) {
+		*v = def;
+		return 1;
+	}
+	return got;
+}
+
+static const char *
+ta_column(al_ta_field f, al_basis basis)
+{
+	switch (f) {
+	case AL_TF_TITRANT:
+		return "titrant_ml";
+	case AL_TF_BLANK:
+		return "blank_ml";
+	case AL_TF_CONC:
+		return "titrant_mol_l";
+	case AL_TF_MADE_UP:
+		return "made_up_ml";
+	case AL_TF_ALIQUOT:
+		return "aliquot_ml";
+	case AL_TF_AMOUNT:
+		return basis == AL_BASIS_MASS ? "mass_g" : "volume_ml";
+	}
+	return NULL;
+}
+
+/* Copies the text cells of a row, trimmed, into the run's scratch buffer
+ * as C strings: product, lot, sample, replicate, acid. */
+static al_status
+text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
+	   size_t lens[5])
+{
+	static const int which[5] = {C_PRODUCT, C_LOT, C_SAMPLE, C_REPLICATE,
+				     C_ACID};
+	const char *src[5];
+	size_t need = 0, pos = 0;
+
+	for (int i = 0; i < 5; i++) {
+		src[i] = al_cell(row, run->col[which[i]], &lens[i]);
+		need += lens[i] + 1;
+	}
+	if (need > run->scratch_cap) {
+		char *grown = al_realloc(run->scratch, need);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->scratch = grown;
+		run->scratch_cap = need;
+	}
+	for (int i = 0; i < 5; i++) {
+		memcpy(run->scratch + pos, src[i], lens[i]);
+		run->scratch[pos + lens[i]] = '\0';
+		out[i] = run->scratch + pos;
+		pos += lens[i] + 1;
+	}
+	return AL_OK;
+}
+
+static al_status
+data_row(al_assay *run, const al_csv_row *row)
+{
+	unsigned long line = row->line;
+	unsigned long errs = run->diags.errors;
+	al_titration t;
+	al_replicate rep;
+	const char *text[5];
+	size_t tl[5];
+	const char *product, *lot, *sample, *replicate, *acid_name;
+	const al_spec *spec = NULL;
+	const al_acid *acid = NULL, *row_acid = NULL;
+	al_unit unit;
+	double mass = 0, volume = 0, density = 0, endpoint = 0, value;
+	int got_mass, got_volume, got_density, got_endpoint, got;
+	unsigned flags = 0;
+	double needed = 0;
+	struct group *g;
+	int created;
+	al_status st;
+
+	if (row->nfields != run->header_fields) {
+		ROW_ERR(run, line, NULL, "%zu fields where the header has %zu",
+			row->nfields, run->header_fields);
+		run->counts.rows_read++;
+		run->counts.rows_bad++;
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (row_is_empty(row))
+		return AL_OK; /* a spreadsheet's empty line: like a blank line */
+	run->counts.rows_read++;
+	memset(&t, 0, sizeof t);
+	if (text_cells(run, row, text, tl) != AL_OK)
+		return AL_ENOMEM;
+	product = text[0];
+	lot = text[1];
+	sample = text[2];
+	replicate = text[3];
+	acid_name = text[4];
+
+	if (tl[2] == 0)
+		ROW_ERR(run, line, "sample", "is empty: every row needs a "
+					    "sample identifier");
+	got = al_cell_number(row, run->col[C_TITRANT], "titrant_ml", '.',
+			     run->file, &run->diags, &t.titrant_ml);
+	if (got == 0)
+		ROW_ERR(run, line, "titrant_ml", "is empty");
+	got_mass = al_cell_number(row, run->col[C_MASS], "mass_g", '.',
+				  run->file, &run->diags, &mass);
+	got_volume = al_cell_number(row, run->col[C_VOLUME], "volume_ml", '.',
+				    run->file, &run->diags, &volume);
+	if (got_mass == 1 && got_volume == 1)
+		ROW_ERR(run, line, NULL, "both mass_g and volume_ml are given: "
+					 "a row takes exactly one");
+	else if (got_mass == 0 && got_volume == 0)
+		ROW_ERR(run, line, NULL, "neither mass_g nor volume_ml is given: "
+					 "a row needs exactly one");
+	t.basis = got_volume == 1 ? AL_BASIS_VOLUME : AL_BASIS_MASS;
+	t.amount = got_volume == 1 ? volume : mass;
+	got = number_or_default(run, row, C_BLANK, run->opt.has_blank,
+				run->opt.blank_ml, &t.blank_ml);
+	if (got == 0)
+		t.blank_ml = 0;
+	got = number_or_default(run, row, C_CONC, run->opt.has_titrant,
+				run->opt.titrant_mol_l, &t.titrant_mol_l);
+	if (got == 0) {
+		ROW_ERR(run, line, "titrant_mol_l",
+			"is empty and no --titrant-mol-l was given");
+		t.titrant_mol_l = 1; /* keep checking the rest of the row */
+	}
+	if (run->col[C_MADE_UP] >= 0) {
+		int a = al_cell_number(row, run->col[C_MADE_UP], "made_up_ml",
+				       '.', run->file, &run->diags,
+				       &t.made_up_ml);
+		int b = al_cell_number(row, run->col[C_ALIQUOT], "aliquot_ml",
+				       '.', run->file, &run->diags,
+				       &t.aliquot_ml);
+		if ((a == 1) != (b == 1) && a >= 0 && b >= 0)
+			ROW_ERR(run, line, a == 1 ? "aliquot_ml" : "made_up_ml",
+				"is empty: made_up_ml and aliquot_ml go "
+				"together");
+	}
+	got_density = number_or_default(run, row, C_DENSITY,
+					 run->opt.has_density,
+					 run->opt.density_g_ml, &density);
+	if (got_density == 1 && !(density > 0))
+		ROW_ERR(run, line, "density_g_ml", "density must be above 0");
+	got_endpoint = number_or_default(run, row, C_ENDPOINT,
+					 run->opt.has_endpoint,
+					 run->opt.endpoint_ph, &endpoint);
+	if (got_endpoint == 1 && !(endpoint >= 0 && endpoint <= 14))
+		ROW_ERR(run, line, "endpoint_ph",
+			"endpoint pH %g is outside 0 to 14", endpoint);
+
+	if (run->diags.errors == errs) {
+		al_ta_problem probs[8];
+		size_t np = al_ta_check(&t, probs, 8);
+
+		for (size_t i = 0; i < np && i < 8; i++)
+			ROW_ERR(run, line, ta_column(probs[i].field, t.basis),
+				"%s", probs[i].message);
+	}
+
+	/* The acid: the specification's, else the row's, else the default. */
+	spec = al_spec_find(run->opt.specs, product);
+	if (tl[4] > 0) {
+		row_acid = al_catalogue_find(run->opt.catalogue, acid_name);
+		if (row_acid == NULL)
+			ROW_ERR(run, line, "acid",
+				"'%s' is not in the acid catalogue (see "
+				"'acidlot acids')",
+				acid_name);
+	}
+	if (spec && spec->acid) {
+		acid = spec->acid;
+		if (row_acid && row_acid != acid)
+			flags |= AL_FLAG_ACID_IGNORED;
+	} else
+		acid = row_acid ? row_acid : run->opt.default_acid;
+
+	if (spec && spec->has_unit)
+		unit = spec->unit;
+	else if (run->opt.has_unit)
+		unit = run->opt.unit;
+	else
+		unit = t.basis == AL_BASIS_MASS ? AL_UNIT_G_100G
+						: AL_UNIT_G_100ML;
+
+	if (run->diags.out_of_memory)
+		return AL_ENOMEM;
+	if (run->diags.errors != errs || acid == NULL) {
+		run->counts.rows_bad++;
+		return AL_OK;
+	}
+
+	st = find_group(run, product, tl[0], lot, tl[1], sample, tl[2], &g,
+			&created);
+	if (st != AL_OK)
+		return st;
+	if (created) {
+		g->acid = acid;
+		g->unit = unit;
+		g->spec = spec;
+		g->first_line = line;
+		g->first_file = run->files[run->n_files - 1];
+		g->min_endpoint = HUGE_VAL;
+	} else if (g->acid != acid) {
+		ROW_ERR(run, line, "acid",
+			"'%s' differs from '%s' of the same product, lot and "
+			"sample first seen at %s:%lu; one result cannot mix "
+			"acids",
+			acid->name, g->acid->name, g->first_file, g->first_line);
+		run->counts.rows_bad++;
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	unit = g->unit;
+	if (al_unit_basis(unit) != t.basis) {
+		if (got_density != 1) {
+			ROW_ERR(run, line,
+				t.basis == AL_BASIS_MASS ? "mass_g" : "volume_ml",
+				"the result is reported in %s but this sample "
+				"was taken by %s: give density_g_ml or "
+				"--density-g-ml",
+				al_unit_name(unit),
+				t.basis == AL_BASIS_MASS ? "mass" : "volume");
+			run->counts.rows_bad++;
+			return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+		}
+		flags |= AL_FLAG_DENSITY;
+	}
+	if (al_ta_value(&t, acid->g_per_meq, unit, density, &value) != AL_OK) {
+		ROW_ERR(run, line, NULL, "cannot express the result in %s",
+			al_unit_name(unit));
+		run->counts.rows_bad++;
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (got_endpoint == 1 && acid->n_pka > 0) {
+		double titrated =
+			al_protons_titrated(acid->pka, acid->n_pka, endpoint);
+
+		if (titrated < ENDPOINT_SHARE * acid->protons) {
+			flags |= AL_FLAG_ENDPOINT_LOW;
+			if (endpoint < g->min_endpoint)
+				g->min_endpoint = endpoint;
+			if (al_endpoint_ph_needed(acid->pka, acid->n_pka,
+						  acid->protons, ENDPOINT_SHARE,
+						  &needed) != AL_OK)
+				needed = 14;
+		}
+	}
+	st = push_value(g, value);
+	if (st != AL_OK)
+		return st;
+	g->flags |= flags;
+	run->counts.rows_used++;
+
+	if (run->on_row) {
+		memset(&rep, 0, sizeof rep);
+		rep.file = run->file;
+		rep.line = line;
+		rep.product = product;
+		rep.lot = lot;
+		rep.sample = sample;
+		rep.replicate = replicate;
+		rep.meq = al_ta_meq(&t);
+		rep.value = value;
+		rep.unit = unit;
+		rep.acid = acid;
+		rep.flags = flags;
+		rep.endpoint_ph_needed = needed;
+		return run->on_row(run->ud, &rep);
+	}
+	return AL_OK;
+}
+
+static al_status
+on_csv_row(void *ud, const al_csv_row *row)
+{
+	al_assay *run = ud;
+
+	if (!run->header_done)
+		return check_header(run, row) == AL_ENOMEM ? AL_ENOMEM : AL_OK;
+	if (!run->header_ok)
+		return AL_OK;
+	return data_row(run, row);
+}
+
+al_status
+al_assay_read(al_assay *run, FILE *in, const char *name,
+	      al_replicate_fn on_row, void *ud)
+{
+	char **files;
+	al_status st;
+
+	files = al_realloc(run->files, (run->n_files + 1) * sizeof *files);
+	if (files == NULL)
+		return AL_ENOMEM;
+	run->files = files;
+	run->files[run->n_files] = al_strdup(name);
+	if (run->files[run->n_files] == NULL)
+		return AL_ENOMEM;
+	run->n_files++;
+	run->file = run->files[run->n_files - 1];
+	run->header_done = run->header_ok = 0;
+	run->on_row = on_row;
+	run->ud = ud;
+	st = al_csv_read_file(&run->opt.csv, in, run->file, on_csv_row, run,
+			      &run->diags);
+	if (st == AL_OK && run->diags.out_of_memory)
+		st = AL_ENOMEM;
+	if (st == AL_OK && !run->header_done) {
+		ROW_ERR(run, 0, NULL, "the file is empty (no header row)");
+		st = run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
+	} else if (st == AL_OK && !run->header_ok)
+		st = AL_EINPUT;
+	return st;
+}
+
+al_status
+al_assay_finish(al_assay *run)
+{
+	run->results = al_calloc(run->n_groups ? run->n_groups : 1,
+				 sizeof *run->results);
+	if (run->results == NULL)
+		return AL_ENOMEM;
+	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
+	run->counts.groups = run->n_groups;
+	for (size_t i = 0; i < run->n_groups; i++) {
+		struct group *g = &run->groups[i];
+		al_group_result *r = &run->results[i];
+		const char *k = run->arena + g->key;
+		unsigned why;
+
+		r->product = k;
+		r->lot = k + g->lot_off;
+		r->sample = k + g->sample_off;
+		r->acid = g->acid;
+		r->unit = g->unit;
+		r->spec = g->spec;
+		r->values = g->values;
+		al_stats_summarise(g->values, g->n, run->opt.confidence,
+				   &r->stats);
+		r->verdict = al_judge(g->spec, &r->stats, &why);
+		r->flags = g->flags;
+		if (g->n == 1)
+			r->flags |= AL_FLAG_SINGLE;
+		if (why & AL_WHY_FEW)
+			r->flags |= AL_FLAG_FEW;
+		if (why & AL_WHY_RSD)
+			r->flags |= AL_FLAG_RSD;
+		if (why & AL_WHY_BELOW_MIN)
+			r->flags |= AL_FLAG_BELOW_MIN;
+		if (why & AL_WHY_ABOVE_MAX)
+			r->flags |= AL_FLAG_ABOVE_MAX;
+		if (g->flags & AL_FLAG_ENDPOINT_LOW) {
+			r->endpoint_ph = g->min_endpoint;
+			if (al_endpoint_ph_needed(g->acid->pka, g->acid->n_pka,
+						  g->acid->protons,
+						  ENDPOINT_SHARE,
+						  &r->endpoint_ph_needed) !=
+			    AL_OK)
+				r->endpoint_ph_needed = 14;
+		}
+		run->counts.by_verdict[r->verdict]++;
+	}
+	return AL_OK;
+}
+
+void
+al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
+{
+	static const struct {
+		unsigned bit;
+		const char *name;
+	} names[] = {
+		{AL_FLAG_SINGLE, "single-replicate"},
+		{AL_FLAG_FEW, "too-few-replicates"},
+		{AL_FLAG_RSD, "rsd-over-limit"},
+		{AL_FLAG_BELOW_MIN, "below-min"},
+		{AL_FLAG_ABOVE_MAX, "above-max"},
+		{AL_FLAG_ENDPOINT_LOW, "endpoint-low"},
+		{AL_FLAG_ACID_IGNORED, "row-acid-ignored"},
+		{AL_FLAG_DENSITY, "density-converted"},
+	};
+	size_t len = 0;
+
+	if (cap == 0)
+		return;
+	buf[0] = '\0';
+	for (size_t i = 0; i < sizeof names / sizeof names[0]; i++) {
+		int w;
+
+		if (!(flags & names[i].bit))
+			continue;
+		if (names[i].bit == AL_FLAG_ENDPOINT_LOW)
+			/* round the pH that suffices up to 0.1 */
+			w = snprintf(buf + len, cap - len,
+				     "%sendpoint-low(needs pH>=%.1f)",
+				     len ? ";" : "",
+				     ceil(endpoint_needed * 10 - 1e-9) / 10);
+		else
+			w = snprintf(buf + len, cap - len, "%s%s",
+				     len ? ";" : "", names[i].name);
+		if (w < 0 || (size_t)w >= cap - len)
+			break;
+		len += (size_t)w;
+	}
+}

@@ -1,0 +1,175 @@
+/* acidlot command line: the convert command.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <getopt.h>
+#include <math.h>
+#include <string.h>
+
+#include "cli.h"
+
+static void
+usage(FILE *out)
+{
+	fputs("Usage: " PROG " convert VALUE UNIT --acid NAME [--to-acid NAME]\n"
+	      "                       [--to-unit UNIT] [--density-g-ml D]\n"
+	      "Re-expresses a titratable acidity as another acid or in another\n"
+	      "unit. The amount of acid in meq is kept: value / factor of the\n"
+	      "first acid x factor of the second (OIV: meq/L x 0.075 = g/L\n"
+	      "tartaric, x 0.049 = g/L sulfuric).\n"
+	      "\n"
+	      "      --acid NAME        acid VALUE is expressed as (needed\n"
+	      "                         unless UNIT is meq/100g or meq/L)\n"
+	      "      --to-acid NAME     acid to express it as (default --acid)\n"
+	      "      --to-unit UNIT     unit to write (default UNIT)\n"
+	      "      --density-g-ml D   sample density, to go between a per-mass\n"
+	      "                         and a per-volume unit\n"
+	      "      --decimals N       fixed decimals (default 10 significant\n"
+	      "                         digits)\n"
+	      "  -h, --help             this help\n"
+	      "Units: g/100g g/kg g/100mL g/L meq/100g meq/L\n",
+	      out);
+}
+
+enum { OPT_ACID = 256, OPT_TO_ACID, OPT_TO_UNIT, OPT_DENSITY, OPT_DECIMALS };
+
+static const al_acid *
+acid_arg(const al_catalogue *cat, const char *option, const char *name)
+{
+	const al_acid *a = al_catalogue_find(cat, name);
+
+	if (a == NULL) {
+		cli_usage_error("convert", "%s: unknown acid '%s'", option, name);
+		cli_list_acids(cat);
+	}
+	return a;
+}
+
+int
+cmd_convert(int argc, char **argv)
+{
+	static const struct option options[] = {
+		{"acid", required_argument, NULL, OPT_ACID},
+		{"to-acid", required_argument, NULL, OPT_TO_ACID},
+		{"to-unit", required_argument, NULL, OPT_TO_UNIT},
+		{"density-g-ml", required_argument, NULL, OPT_DENSITY},
+		{"decimals", required_argument, NULL, OPT_DECIMALS},
+		{"help", no_argument, NULL, 'h'},
+		{NULL, 0, NULL, 0},
+	};
+	const char *acid_name = NULL, *to_acid_name = NULL, *to_unit_name = NULL;
+	const al_acid *acid = NULL, *to_acid = NULL;
+	double value, density = 0, meq_per, out, dec = -1;
+	al_unit unit, to_unit;
+	al_catalogue *cat = NULL;
+	char num[64];
+	int c, rc = EXIT_TROUBLE;
+
+	optind = 1;
+	opterr = 0;
+	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
+		switch (c) {
+		case OPT_ACID:
+			acid_name = optarg;
+			break;
+		case OPT_TO_ACID:
+			to_acid_name = optarg;
+			break;
+		case OPT_TO_UNIT:
+			to_unit_name = optarg;
+			break;
+		case OPT_DENSITY:
+			if (cli_number("convert", "--density-g-ml", optarg,
+				       &density))
+				return EXIT_TROUBLE;
+			if (!(density > 0))
+				return cli_usage_error("convert",
+						       "--density-g-ml must be "
+						       "above 0");
+			break;
+		case OPT_DECIMALS:
+			if (cli_number("convert", "--decimals", optarg, &dec))
+				return EXIT_TROUBLE;
+			if (!(dec >= 0 && dec <= 15) || dec != floor(dec))
+				return cli_usage_error("convert",
+						       "--decimals takes a whole "
+						       "number from 0 to 15");
+			break;
+		case 'h':
+			usage(stdout);
+			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+		case ':':
+			return cli_usage_error("convert",
+					       "option '%s' needs a value",
+					       argv[optind - 1]);
+		default:
+			return cli_usage_error("convert", "unknown option '%s'",
+					       argv[optind - 1]);
+		}
+	}
+	if (argc - optind != 2)
+		return cli_usage_error("convert",
+				       "give a VALUE and its UNIT, e.g. '7.5 g/L'");
+	if (cli_number("convert", "VALUE", argv[optind], &value))
+		return EXIT_TROUBLE;
+	if (!(value >= 0))
+		return cli_usage_error("convert", "VALUE must not be negative");
+	if (al_unit_parse(argv[optind + 1], &unit) != AL_OK)
+		return cli_usage_error("convert", "unknown unit '%s' (use %s)",
+				       argv[optind + 1], al_unit_list());
+	to_unit = unit;
+	if (to_unit_name && al_unit_parse(to_unit_name, &to_unit) != AL_OK)
+		return cli_usage_error("convert",
+				       "--to-unit: unknown unit '%s' (use %s)",
+				       to_unit_name, al_unit_list());
+	cat = cli_catalogue();
+	if (cat == NULL)
+		return EXIT_TROUBLE;
+	if (acid_name && (acid = acid_arg(cat, "--acid", acid_name)) == NULL)
+		goto out;
+	if (to_acid_name &&
+	    (to_acid = acid_arg(cat, "--to-acid", to_acid_name)) == NULL)
+		goto out;
+	if (to_acid == NULL)
+		to_acid = acid;
+	if (!al_unit_is_meq(unit) && acid == NULL) {
+		cli_usage_error("convert", "%s is a mass of acid: say which acid "
+					   "with --acid",
+				al_unit_name(unit));
+		goto out;
+	}
+	if (!al_unit_is_meq(to_unit) && to_acid == NULL) {
+		cli_usage_error("convert", "%s is a mass of acid: say which acid "
+					   "with --to-acid",
+				al_unit_name(to_unit));
+		goto out;
+	}
+	/* back to meq per g or per mL of sample */
+	meq_per = value / al_unit_per(unit);
+	if (!al_unit_is_meq(unit))
+		meq_per /= acid->g_per_meq;
+	if (al_unit_express(meq_per, al_unit_basis(unit), to_unit,
+			    to_acid ? to_acid->g_per_meq : 0, density,
+			    &out) != AL_OK) {
+		cli_usage_error("convert",
+				"%s is per %s and %s per %s: give the sample's "
+				"--density-g-ml",
+				al_unit_name(unit),
+				al_unit_basis(unit) == AL_BASIS_MASS ? "mass"
+								     : "volume",
+				al_unit_name(to_unit),
+				al_unit_basis(to_unit) == AL_BASIS_MASS
+					? "mass"
+					: "volume");
+		goto out;
+	}
+	al_format_number(out, (int)dec, num, sizeof num);
+	if (al_unit_is_meq(to_unit))
+		printf("%s %s\n", num, al_unit_name(to_unit));
+	else
+		printf("%s %s %s\n", num, al_unit_name(to_unit), to_acid->name);
+	rc = fflush(stdout) == 0 && !ferror(stdout) ? 0 : EXIT_TROUBLE;
+	if (rc)
+		cli_error("write error on standard output");
+out:
+	al_catalogue_free(cat);
+	return rc;
+}

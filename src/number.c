@@ -1,0 +1,203 @@
+/* acidlot: strict decimal parsing with an exact fast path.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Fast path (Clinger, "How to read floating point numbers accurately",
+ * PLDI 1990): when the decimal significand has at most 15 digits it is an
+ * exact double (below 2^53), and 10^k for k <= 22 is exact too, so one
+ * IEEE multiplication or division gives the correctly rounded result.
+ * Everything else goes to strtod_l in the C locale, which glibc rounds
+ * correctly. */
+#define _GNU_SOURCE
+#include "acidlot/number.h"
+
+#include <errno.h>
+#include <locale.h>
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+static const double exact_pow10[23] = {
+	1e0,  1e1,  1e2,  1e3,	1e4,  1e5,  1e6,  1e7,	1e8,  1e9,  1e10, 1e11,
+	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+};
+
+static int
+is_blank(char c)
+{
+	return c == ' ' || c == '\t';
+}
+
+static locale_t
+c_locale(void)
+{
+	static locale_t loc;
+
+	if (loc == (locale_t)0)
+		loc = newlocale(LC_ALL_MASK, "C", (locale_t)0);
+	return loc;
+}
+
+/* Scans a number with the given decimal point. On success fills the
+ * significand (first 19 digits), the count of significant digits and the
+ * decimal exponent. Returns the number of bytes consumed, 0 if none. */
+struct scan {
+	uint64_t mant;
+	int digits;  /* significant digits (leading zeros skipped) */
+	long exp10;  /* value = mant * 10^exp10 when digits <= 19 */
+	int negative;
+	int dropped; /* digits beyond 19 were seen */
+};
+
+static size_t
+scan_number(const char *s, size_t len, char point, struct scan *sc)
+{
+	size_t i = 0;
+	int any_digit = 0;
+	long frac_digits = 0;
+
+	memset(sc, 0, sizeof *sc);
+	if (i < len && (s[i] == '+' || s[i] == '-')) {
+		sc->negative = s[i] == '-';
+		i++;
+	}
+	for (; i < len && s[i] >= '0' && s[i] <= '9'; i++) {
+		any_digit = 1;
+		if (sc->digits == 0 && s[i] == '0')
+			continue;
+		if (sc->digits < 19)
+			sc->mant = sc->mant * 10 + (uint64_t)(s[i] - '0');
+		else {
+			sc->exp10++; /* a dropped integer digit */
+			if (s[i] != '0')
+				sc->dropped = 1;
+		}
+		sc->digits++;
+	}
+	if (i < len && s[i] == point) {
+		i++;
+		for (; i < len && s[i] >= '0' && s[i] <= '9'; i++) {
+			any_digit = 1;
+			frac_digits++;
+			if (sc->digits == 0 && s[i] == '0') {
+				sc->exp10--;
+				continue;
+			}
+			if (sc->digits < 19) {
+				sc->mant = sc->mant * 10 + (uint64_t)(s[i] - '0');
+				sc->exp10--;
+			} else if (s[i] != '0')
+				sc->dropped = 1;
+			sc->digits++;
+		}
+	}
+	if (!any_digit)
+		return 0;
+	if (i < len && (s[i] == 'e' || s[i] == 'E')) {
+		size_t j = i + 1;
+		int eneg = 0;
+		long e = 0;
+
+		if (j < len && (s[j] == '+' || s[j] == '-')) {
+			eneg = s[j] == '-';
+			j++;
+		}
+		if (j < len && s[j] >= '0' && s[j] <= '9') {
+			for (; j < len && s[j] >= '0' && s[j] <= '9'; j++)
+				if (e < 100000)
+					e = e * 10 + (s[j] - '0');
+			sc->exp10 += eneg ? -e : e;
+			i = j;
+		} else
+			return 0; /* "1e" or "1e+" is not a number */
+	}
+	(void)frac_digits;
+	return i;
+}
+
+static al_numerr
+parse_with(const char *s, size_t len, char point, double *out)
+{
+	struct scan sc;
+	size_t used = scan_number(s, len, point, &sc);
+	char buf[512];
+	char *end;
+	double v;
+
+	if (used == 0 || used != len)
+		return AL_NUM_SYNTAX;
+	if (sc.digits == 0) {
+		*out = sc.negative ? -0.0 : 0.0;
+		return AL_NUM_OK;
+	}
+	if (sc.digits <= 15 && sc.exp10 >= -22 && sc.exp10 <= 22) {
+		v = (double)sc.mant;
+		v = sc.exp10 < 0 ? v / exact_pow10[-sc.exp10]
+				 : v * exact_pow10[sc.exp10];
+		*out = sc.negative ? -v : v;
+		return AL_NUM_OK;
+	}
+	/* General path: let glibc round the exact decimal. */
+	if (len >= sizeof buf)
+		return AL_NUM_SYNTAX;
+	memcpy(buf, s, len);
+	buf[len] = '\0';
+	if (point != '.') {
+		char *p = memchr(buf, point, len);
+		if (p)
+			*p = '.';
+	}
+	errno = 0;
+	v = strtod_l(buf, &end, c_locale());
+	if (end != buf + len)
+		return AL_NUM_SYNTAX;
+	if (errno == ERANGE || !isfinite(v) ||
+	    (v != 0 && fabs(v) < 2.2250738585072014e-308))
+		return AL_NUM_RANGE;
+	if (v == 0 && sc.digits > 0)
+		return AL_NUM_RANGE; /* a non-zero decimal underflowed to 0 */
+	*out = v;
+	return AL_NUM_OK;
+}
+
+al_numerr
+al_number_parse(const char *s, size_t len, char decimal_point, double *out)
+{
+	al_numerr err;
+
+	while (len > 0 && is_blank(*s)) {
+		s++;
+		len--;
+	}
+	while (len > 0 && is_blank(s[len - 1]))
+		len--;
+	if (len == 0)
+		return AL_NUM_EMPTY;
+	err = parse_with(s, len, decimal_point, out);
+	if (err == AL_NUM_SYNTAX && decimal_point == '.' &&
+	    memchr(s, ',', len) != NULL) {
+		double ignored;
+
+		if (parse_with(s, len, ',', &ignored) == AL_NUM_OK)
+			return AL_NUM_COMMA;
+	}
+	return err;
+}
+
+const char *
+al_numerr_phrase(al_numerr err)
+{
+	switch (err) {
+	case AL_NUM_OK:
+		return "is a number";
+	case AL_NUM_EMPTY:
+		return "is empty";
+	case AL_NUM_SYNTAX:
+		return "is not a number";
+	case AL_NUM_COMMA:
+		return "is not a number (decimal comma? try --decimal-comma)";
+	case AL_NUM_RANGE:
+		return "is out of range";
+	}
+	return "is not a number";
+}

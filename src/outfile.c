@@ -1,0 +1,159 @@
+/* acidlot: atomic output files (temporary file + rename).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _GNU_SOURCE
+#include "acidlot/outfile.h"
+
+#include <errno.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "acidlot/alloc.h"
+
+struct al_outfile {
+	FILE *stream;
+	char *path;
+	char *tmp;  /* NULL when written in place */
+	int direct; /* a device or pipe, written in place and closed */
+};
+
+al_outfile *
+al_outfile_open(const char *path, al_status *status)
+{
+	al_outfile *f = al_calloc(1, sizeof *f);
+	const char *slash;
+	size_t dirlen;
+	int fd, saved;
+	mode_t mask;
+
+	if (f == NULL)
+		goto nomem;
+	f->path = al_strdup(path);
+	if (f->path == NULL)
+		goto nomem;
+	if (strcmp(path, "-") == 0) {
+		f->stream = stdout;
+		*status = AL_OK;
+		return f;
+	}
+	{
+		struct stat sb;
+
+		/* A device or a FIFO (/dev/null, /dev/stdout, a pipe) cannot
+		 * be replaced by a rename: write to it in place. */
+		if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode)) {
+			if (S_ISDIR(sb.st_mode)) {
+				errno = EISDIR;
+				goto io;
+			}
+			f->stream = fopen(path, "w");
+			if (f->stream == NULL)
+				goto io;
+			f->direct = 1;
+			*status = AL_OK;
+			return f;
+		}
+	}
+	slash = strrchr(path, '/');
+	dirlen = slash ? (size_t)(slash - path + 1) : 0;
+	f->tmp = al_malloc(dirlen + sizeof ".acidlot-XXXXXX");
+	if (f->tmp == NULL)
+		goto nomem;
+	memcpy(f->tmp, path, dirlen);
+	memcpy(f->tmp + dirlen, ".acidlot-XXXXXX", sizeof ".acidlot-XXXXXX");
+	fd = mkstemp(f->tmp);
+	if (fd < 0)
+		goto io;
+	/* mkstemp makes 0600; give the report the usual 0666 & ~umask */
+	mask = umask(0);
+	umask(mask);
+	if (fchmod(fd, 0666 & ~mask) != 0 ||
+	    (f->stream = fdopen(fd, "w")) == NULL) {
+		saved = errno;
+		close(fd);
+		unlink(f->tmp);
+		errno = saved;
+		goto io;
+	}
+	*status = AL_OK;
+	return f;
+io:
+	saved = errno;
+	al_free(f->tmp);
+	al_free(f->path);
+	al_free(f);
+	errno = saved;
+	*status = AL_EIO;
+	return NULL;
+nomem:
+	if (f) {
+		al_free(f->tmp);
+		al_free(f->path);
+	}
+	al_free(f);
+	*status = AL_ENOMEM;
+	return NULL;
+}
+
+FILE *
+al_outfile_stream(al_outfile *f)
+{
+	return f->stream;
+}
+
+const char *
+al_outfile_path(const al_outfile *f)
+{
+	return f->path;
+}
+
+static void
+release(al_outfile *f)
+{
+	al_free(f->tmp);
+	al_free(f->path);
+	al_free(f);
+}
+
+al_status
+al_outfile_commit(al_outfile *f)
+{
+	int bad;
+
+	if (f->tmp == NULL) {
+		bad = fflush(f->stream) != 0 || ferror(f->stream);
+		if (f->direct && fclose(f->stream) != 0)
+			bad = 1;
+		release(f);
+		return bad ? AL_EIO : AL_OK;
+	}
+	bad = fflush(f->stream) != 0 || ferror(f->stream);
+	if (!bad && fsync(fileno(f->stream)) != 0 && errno != EINVAL)
+		bad = 1;
+	if (fclose(f->stream) != 0)
+		bad = 1;
+	if (!bad && rename(f->tmp, f->path) != 0)
+		bad = 1;
+	if (bad) {
+		int saved = errno;
+
+		unlink(f->tmp);
+		errno = saved;
+	}
+	release(f);
+	return bad ? AL_EIO : AL_OK;
+}
+
+void
+al_outfile_abort(al_outfile *f)
+{
+	if (f == NULL)
+		return;
+	if (f->tmp != NULL) {
+		fclose(f->stream);
+		unlink(f->tmp);
+	} else if (f->direct)
+		fclose(f->stream);
+	release(f);
+}

@@ -1,0 +1,283 @@
+/* acidlot: specification table and the simple-acceptance decision.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include "acidlot/spec.h"
+
+#include <string.h>
+
+#include "acidlot/alloc.h"
+#include "acidlot/table.h"
+
+struct al_spec_table {
+	al_spec *specs;
+	size_t count, alloc;
+};
+
+enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_COUNT };
+static const char *const spec_cols[C_COUNT] = {
+	"product", "acid", "unit", "min", "max", "max_rsd_pct", "min_n"};
+
+struct spec_reader {
+	const al_catalogue *cat;
+	al_spec_table *table;
+	const char *file;
+	al_diags *diags;
+	int header_done;
+	size_t header_fields;
+	int col[C_COUNT];
+	int bad;
+};
+
+static void
+err(struct spec_reader *r, unsigned long line, const char *col,
+    const char *msg, const char *text, size_t len)
+{
+	al_diags_add(r->diags, AL_SEV_ERROR, r->file, line, col, "'%.*s' %s",
+		     (int)(len > 60 ? 60 : len), text, msg);
+	r->bad = 1;
+}
+
+static al_status
+spec_row(void *ud, const al_csv_row *row)
+{
+	struct spec_reader *r = ud;
+	al_spec s, *slot;
+	size_t len;
+	const char *text;
+	double v;
+	int got, limit_bad;
+
+	if (!r->header_done) {
+		r->header_done = 1;
+		r->header_fields = row->nfields;
+		if (al_header_map(row, spec_cols, C_COUNT, r->col, r->file,
+				  r->diags) != AL_OK)
+			r->bad = 1;
+		if (r->col[C_PRODUCT] < 0) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     NULL, "missing required column 'product'");
+			r->bad = 1;
+		}
+		if (r->col[C_MIN] < 0 && r->col[C_MAX] < 0) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     NULL, "needs a 'min' or a 'max' column");
+			r->bad = 1;
+		}
+		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (r->bad && r->col[C_PRODUCT] < 0)
+		return AL_OK;
+	if (row->nfields != r->header_fields) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
+			     "%zu fields where the header has %zu",
+			     row->nfields, r->header_fields);
+		r->bad = 1;
+		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	memset(&s, 0, sizeof s);
+	s.line = row->line;
+	s.min_n = 2;
+	text = al_cell(row, r->col[C_PRODUCT], &len);
+	if (len == 0)
+		err(r, row->line, "product", "is empty: a product code is required",
+		    text, len);
+	else {
+		for (size_t i = 0; i < r->table->count; i++)
+			if (strlen(r->table->specs[i].product) == len &&
+			    memcmp(r->table->specs[i].product, text, len) == 0) {
+				al_diags_add(r->diags, AL_SEV_ERROR, r->file,
+					     row->line, "product",
+					     "'%.*s' already specified at line %lu",
+					     (int)len, text,
+					     r->table->specs[i].line);
+				r->bad = 1;
+			}
+	}
+	text = al_cell(row, r->col[C_ACID], &len);
+	if (len > 0) {
+		char name[128];
+
+		snprintf(name, sizeof name, "%.*s", (int)len, text);
+		s.acid = al_catalogue_find(r->cat, name);
+		if (s.acid == NULL)
+			err(r, row->line, "acid",
+			    "is not in the acid catalogue (see 'acidlot acids')",
+			    text, len);
+	}
+	text = al_cell(row, r->col[C_UNIT], &len);
+	if (len > 0) {
+		char name[64];
+
+		snprintf(name, sizeof name, "%.*s", (int)len, text);
+		if (al_unit_parse(name, &s.unit) != AL_OK)
+			err(r, row->line, "unit",
+			    "is not a unit (use g/100g, g/kg, g/100mL, g/L, "
+			    "meq/100g or meq/L)",
+			    text, len);
+		else
+			s.has_unit = 1;
+	}
+	got = al_cell_number(row, r->col[C_MIN], "min", '.', r->file, r->diags,
+			     &s.min);
+	s.has_min = got == 1;
+	limit_bad = got < 0;
+	got = al_cell_number(row, r->col[C_MAX], "max", '.', r->file, r->diags,
+			     &s.max);
+	s.has_max = got == 1;
+	limit_bad |= got < 0;
+	if (limit_bad)
+		r->bad = 1;
+	got = al_cell_number(row, r->col[C_MAX_RSD], "max_rsd_pct", '.',
+			     r->file, r->diags, &s.max_rsd_pct);
+	if (got < 0)
+		r->bad = 1;
+	else if (got == 1) {
+		s.has_max_rsd = 1;
+		if (!(s.max_rsd_pct > 0)) {
+			text = al_cell(row, r->col[C_MAX_RSD], &len);
+			err(r, row->line, "max_rsd_pct", "must be above 0", text,
+			    len);
+		}
+	}
+	got = al_cell_number(row, r->col[C_MIN_N], "min_n", '.', r->file,
+			     r->diags, &v);
+	if (got < 0)
+		r->bad = 1;
+	else if (got == 1) {
+		if (v < 1 || v > 1000 || v != (double)(size_t)v) {
+			text = al_cell(row, r->col[C_MIN_N], &len);
+			err(r, row->line, "min_n",
+			    "must be a whole number from 1 to 1000", text, len);
+		} else
+			s.min_n = (size_t)v;
+	}
+	if (!s.has_min && !s.has_max && !limit_bad) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
+			     "needs a min or a max (or both)");
+		r->bad = 1;
+	}
+	if (s.has_min && s.has_max && s.min > s.max) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "min",
+			     "min %g is above max %g", s.min, s.max);
+		r->bad = 1;
+	}
+	if (r->diags->out_of_memory)
+		return AL_ENOMEM;
+	if (r->bad)
+		return AL_OK; /* keep reading to list every problem */
+	if (r->table->count == r->table->alloc) {
+		size_t n = r->table->alloc ? 2 * r->table->alloc : 16;
+		al_spec *grown = al_realloc(r->table->specs, n * sizeof *grown);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		r->table->specs = grown;
+		r->table->alloc = n;
+	}
+	text = al_cell(row, r->col[C_PRODUCT], &len);
+	s.product = al_strndup(text, len);
+	if (s.product == NULL)
+		return AL_ENOMEM;
+	slot = &r->table->specs[r->table->count++];
+	*slot = s;
+	return AL_OK;
+}
+
+al_spec_table *
+al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
+		   FILE *in, const char *name, al_status *status,
+		   al_diags *diags)
+{
+	struct spec_reader r;
+	al_status st;
+
+	memset(&r, 0, sizeof r);
+	r.cat = cat;
+	r.file = name;
+	r.diags = diags;
+	r.table = al_calloc(1, sizeof *r.table);
+	if (r.table == NULL) {
+		*status = AL_ENOMEM;
+		return NULL;
+	}
+	st = al_csv_read_file(csv, in, name, spec_row, &r, diags);
+	if (st == AL_OK && !r.header_done) {
+		al_diags_add(diags, AL_SEV_ERROR, name, 0, NULL,
+			     "the specification file is empty");
+		st = AL_EINPUT;
+	}
+	if (st == AL_OK && r.bad)
+		st = AL_EINPUT;
+	if (st == AL_OK && diags->out_of_memory)
+		st = AL_ENOMEM;
+	if (st != AL_OK) {
+		al_spec_table_free(r.table);
+		*status = st;
+		return NULL;
+	}
+	*status = AL_OK;
+	return r.table;
+}
+
+void
+al_spec_table_free(al_spec_table *table)
+{
+	if (table == NULL)
+		return;
+	for (size_t i = 0; i < table->count; i++)
+		al_free(table->specs[i].product);
+	al_free(table->specs);
+	al_free(table);
+}
+
+size_t
+al_spec_count(const al_spec_table *table)
+{
+	return table ? table->count : 0;
+}
+
+const al_spec *
+al_spec_at(const al_spec_table *table, size_t i)
+{
+	return table && i < table->count ? &table->specs[i] : NULL;
+}
+
+const al_spec *
+al_spec_find(const al_spec_table *table, const char *product)
+{
+	if (table == NULL)
+		return NULL;
+	for (size_t i = 0; i < table->count; i++)
+		if (strcmp(table->specs[i].product, product) == 0)
+			return &table->specs[i];
+	return NULL;
+}
+
+const char *
+al_verdict_name(al_verdict v)
+{
+	static const char *const names[AL_VERDICT_COUNT] = {
+		"pass", "fail", "retest", "no-spec"};
+
+	return (unsigned)v < AL_VERDICT_COUNT ? names[v] : "?";
+}
+
+al_verdict
+al_judge(const al_spec *spec, const al_summary *s, unsigned *why)
+{
+	*why = 0;
+	if (spec == NULL)
+		return AL_VERDICT_NO_SPEC;
+	if (s->n < spec->min_n)
+		*why |= AL_WHY_FEW;
+	if (spec->has_max_rsd && s->has_rsd && s->rsd_pct > spec->max_rsd_pct)
+		*why |= AL_WHY_RSD;
+	if (spec->has_min && s->mean < spec->min)
+		*why |= AL_WHY_BELOW_MIN;
+	if (spec->has_max && s->mean > spec->max)
+		*why |= AL_WHY_ABOVE_MAX;
+	if (*why & (AL_WHY_FEW | AL_WHY_RSD))
+		return AL_VERDICT_RETEST;
+	if (*why & (AL_WHY_BELOW_MIN | AL_WHY_ABOVE_MAX))
+		return AL_VERDICT_FAIL;
+	return AL_VERDICT_PASS;
+}

@@ -1,0 +1,39 @@
+/* acidlot: replicate statistics on GSL.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * GSL's gsl_stats_sd returns NaN for n = 1 and 0 for n = 0 without a
+ * word, so the preconditions are checked here (STYLE.md). */
+#include "acidlot/stats.h"
+
+#include <gsl/gsl_cdf.h>
+#include <gsl/gsl_statistics_double.h>
+#include <math.h>
+#include <string.h>
+
+double
+al_stats_t_quantile(double p, double df)
+{
+	return gsl_cdf_tdist_Pinv(p, df);
+}
+
+void
+al_stats_summarise(const double *x, size_t n, double level, al_summary *out)
+{
+	memset(out, 0, sizeof *out);
+	out->n = n;
+	if (n == 0)
+		return;
+	out->mean = gsl_stats_mean(x, 1, n);
+	if (n < 2)
+		return;
+	out->has_sd = 1;
+	out->sd = gsl_stats_sd_m(x, 1, n, out->mean);
+	if (out->mean != 0) {
+		out->has_rsd = 1;
+		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
+	}
+	/* two-sided: the (1 + level)/2 quantile, 0.975 for 95 % */
+	out->t = al_stats_t_quantile(0.5 + level / 2.0, (double)(n - 1));
+	out->ci_low = out->mean - out->t * out->sd / sqrt((double)n);
+	out->ci_high = out->mean + out->t * out->sd / sqrt((double)n);
+}
