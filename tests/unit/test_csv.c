@@ -1,0 +1,162 @@
+/* acidlot tests: the CSV reader (RFC 4180 quoting, physical line numbers).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include "testutil.h"
+
+#include <string.h>
+
+#include "acidlot/csvread.h"
+
+struct seen {
+	size_t rows;
+	unsigned long lines[16];
+	size_t nfields[16];
+	char first[16][64];
+	char last[16][64];
+};
+
+static al_status
+collect(void *ud, const al_csv_row *row)
+{
+	struct seen *s = ud;
+
+	if (s->rows < 16) {
+		s->lines[s->rows] = row->line;
+		s->nfields[s->rows] = row->nfields;
+		snprintf(s->first[s->rows], 64, "%s", row->fields[0]);
+		snprintf(s->last[s->rows], 64, "%s",
+			 row->fields[row->nfields - 1]);
+	}
+	s->rows++;
+	return AL_OK;
+}
+
+static al_status
+read_str(const char *text, struct seen *s, al_diags *d)
+{
+	memset(s, 0, sizeof *s);
+	return al_csv_read_mem(NULL, text, strlen(text), "t.csv", collect, s,
+			       d);
+}
+
+/* LF, CRLF and lone CR each end one line; blank lines are skipped but
+ * counted (RFC 4180 s.2 for CRLF; LF and CR as files in the wild). */
+static void
+line_ends(void **state)
+{
+	const char *texts[] = {"a,b\n\n1,2\n3,4\n", "a,b\r\n\r\n1,2\r\n3,4\r\n",
+			       "a,b\r\r1,2\r3,4\r"};
+	struct seen s;
+	al_diags d = {0};
+
+	(void)state;
+	for (size_t i = 0; i < 3; i++) {
+		assert_int_equal(read_str(texts[i], &s, &d), AL_OK);
+		assert_int_equal(s.rows, 3);
+		assert_int_equal(s.lines[0], 1);
+		assert_int_equal(s.lines[1], 3);
+		assert_int_equal(s.lines[2], 4);
+		assert_string_equal(s.last[2], "4");
+	}
+	al_diags_clear(&d);
+}
+
+/* A quoted field may hold the delimiter, doubled quotes and line breaks
+ * (RFC 4180 s.2 rules 6 and 7); the next record's line number counts
+ * the breaks. */
+static void
+quoting(void **state)
+{
+	struct seen s;
+	al_diags d = {0};
+
+	(void)state;
+	assert_int_equal(read_str("h1,h2\n\"x,1\",\"say \"\"hi\"\"\"\n"
+				  "\"two\nlines\",z\nlast,row",
+				  &s, &d),
+			 AL_OK);
+	assert_int_equal(s.rows, 4);
+	assert_string_equal(s.first[1], "x,1");
+	assert_string_equal(s.last[1], "say \"hi\"");
+	assert_string_equal(s.first[2], "two\nlines");
+	assert_int_equal(s.lines[2], 3);
+	assert_int_equal(s.lines[3], 5);
+	assert_string_equal(s.last[3], "row");
+	al_diags_clear(&d);
+}
+
+static void
+bom(void **state)
+{
+	struct seen s;
+	al_diags d = {0};
+
+	(void)state;
+	assert_int_equal(read_str("\xEF\xBB\xBFsample,x\n1,2\n", &s, &d),
+			 AL_OK);
+	assert_string_equal(s.first[0], "sample");
+	al_diags_clear(&d);
+}
+
+static void
+malformed(void **state)
+{
+	struct seen s;
+	al_diags d = {0};
+
+	(void)state;
+	assert_int_equal(read_str("a,b\n1,2\n3,\"open\n4,5\n", &s, &d),
+			 AL_ESYNTAX);
+	assert_int_equal(d.count, 1);
+	assert_int_equal(d.items[0].line, 3);
+	assert_non_null(strstr(d.items[0].message, "unterminated"));
+	al_diags_clear(&d);
+
+	assert_int_equal(read_str("a,b\n1,2\n3,x\"y\n", &s, &d), AL_ESYNTAX);
+	assert_int_equal(d.items[0].line, 3);
+	al_diags_clear(&d);
+
+	assert_int_equal(read_str("a,b\n1,\"2\"x\n", &s, &d), AL_ESYNTAX);
+	assert_int_equal(d.items[0].line, 2);
+	al_diags_clear(&d);
+
+	{
+		const char nul[] = "a,b\n1,x\0y\n";
+
+		memset(&s, 0, sizeof s);
+		assert_int_equal(al_csv_read_mem(NULL, nul, sizeof nul - 1,
+						 "t.csv", collect, &s, &d),
+				 AL_ESYNTAX);
+		assert_int_equal(d.items[0].line, 2);
+		assert_non_null(strstr(d.items[0].message, "NUL"));
+		al_diags_clear(&d);
+	}
+}
+
+static void
+long_field(void **state)
+{
+	static char text[10000];
+	struct seen s;
+	al_diags d = {0};
+
+	(void)state;
+	strcpy(text, "a\n");
+	memset(text + 2, 'x', 5000);
+	strcpy(text + 5002, "\n");
+	assert_int_equal(read_str(text, &s, &d), AL_ESYNTAX);
+	assert_non_null(strstr(d.items[0].message, "too long"));
+	assert_int_equal(d.items[0].line, 2);
+	al_diags_clear(&d);
+}
+
+int
+main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
+		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
+		cmocka_unit_test(long_field),
+	};
+
+	return cmocka_run_group_tests(tests, NULL, NULL);
+}
