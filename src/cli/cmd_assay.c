@@ -269,6 +269,11 @@ cmd_assay(int argc, char **argv)
 		if (specs == NULL) {
 			if (st == AL_ENOMEM || st == AL_EIO)
 				cli_error("%s: %s", a.spec, al_strerror(st));
+			else
+				cli_error("%lu error%s in the specification "
+					  "file; no report written",
+					  spec_diags.errors,
+					  spec_diags.errors == 1 ? "" : "s");
 			goto out;
 		}
 		a.aopt.specs = specs;

@@ -1,0 +1,66 @@
+# acidlot: the two set-up commands and the test suites.
+# SPDX-License-Identifier: GPL-3.0-or-later
+#
+#   make demo       install what is missing, build, run the assay on samples/
+#   make check      build with -Werror and run every test, then again under
+#                   AddressSanitizer + UndefinedBehaviorSanitizer
+#   make valgrind   every test under valgrind (memcheck)
+#   make regen      rewrite the CLI cases' expected output (review the diff)
+
+BUILD      ?= build
+ASAN_BUILD ?= build-asan
+JOBS       ?= 2
+DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev
+SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
+
+.PHONY: all deps build demo check test asan valgrind regen clean
+
+all: build
+
+# Installs only the Debian packages that are missing.
+deps:
+	@missing=""; for p in $(DEBIAN_PACKAGES); do \
+	  dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' \
+	    || missing="$$missing $$p"; done; \
+	if [ -n "$$missing" ]; then \
+	  echo "installing:$$missing"; \
+	  $(SUDO) apt-get update -qq && \
+	  DEBIAN_FRONTEND=noninteractive $(SUDO) apt-get install -y -qq $$missing; \
+	fi
+
+build: deps
+	cmake -S . -B $(BUILD) -DACIDLOT_WERROR=ON >/dev/null
+	cmake --build $(BUILD) -j$(JOBS)
+
+demo: build
+	@echo
+	@echo "== acidlot assay samples/titrations.csv --spec samples/specs.csv"
+	@$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
+	  -o $(BUILD)/demo-report.csv -r $(BUILD)/demo-replicates.csv; \
+	rc=$$?; echo; cat $(BUILD)/demo-report.csv; echo; \
+	echo "report: $(BUILD)/demo-report.csv  replicates: $(BUILD)/demo-replicates.csv"; \
+	echo "exit status $$rc (1: some lots fail or need a retest, as the demo intends)"; \
+	[ $$rc -le 1 ]
+
+test: build
+	cd $(BUILD) && ctest --output-on-failure -j$(JOBS)
+
+asan: deps
+	cmake -S . -B $(ASAN_BUILD) -DACIDLOT_WERROR=ON -DACIDLOT_SANITIZE=ON \
+	  -DCMAKE_BUILD_TYPE=Debug >/dev/null
+	cmake --build $(ASAN_BUILD) -j$(JOBS)
+	cd $(ASAN_BUILD) && ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 \
+	  UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+	  ctest --output-on-failure -j$(JOBS)
+
+check: test asan
+
+valgrind: build
+	@command -v valgrind >/dev/null || { $(SUDO) apt-get install -y -qq valgrind; }
+	cd $(BUILD) && ACIDLOT_VALGRIND=1 ctest --output-on-failure -j$(JOBS)
+
+regen: build
+	sh tests/cli/regen.sh $(BUILD)
+
+clean:
+	rm -rf $(BUILD) $(ASAN_BUILD)
