@@ -1,0 +1,155 @@
+/* acidlot tests: the assay run through the library interface.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _POSIX_C_SOURCE 200809L
+#include "testutil.h"
+
+#include <string.h>
+
+#include "acidlot/assay.h"
+
+static al_catalogue *cat;
+
+static int
+setup(void **state)
+{
+	al_status st;
+
+	(void)state;
+	cat = al_catalogue_new(&st, NULL);
+	return cat == NULL;
+}
+
+static int
+teardown(void **state)
+{
+	(void)state;
+	al_catalogue_free(cat);
+	return 0;
+}
+
+static al_assay *
+run_text(const char *text, al_status *st)
+{
+	al_assay_options opt;
+	al_assay *run;
+	FILE *f = fmemopen((void *)text, strlen(text), "r");
+
+	assert_non_null(f);
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	run = al_assay_new(&opt, st);
+	assert_non_null(run);
+	*st = al_assay_read(run, f, "t.csv", NULL, NULL);
+	fclose(f);
+	if (*st == AL_OK)
+		*st = al_assay_finish(run);
+	return run;
+}
+
+/* Each replicate by the AOAC 942.15 formula with citric acid's molar mass
+ * from METHODS.md s.2 (192.123 g/mol, 3 protons). */
+static double
+ta_citric(double v, double blank, double c, double df, double m)
+{
+	return (v - blank) * c * (192.123 / 3 / 1000) * df * 100 / m;
+}
+
+static void
+interleaved_equals_adjacent(void **state)
+{
+	const char *adjacent =
+		"lot,sample,mass_g,titrant_ml,titrant_mol_l,blank_ml\n"
+		"A,S1,10.012,14.39,0.1002,0.05\nA,S1,10.030,14.35,0.1002,0.05\n"
+		"B,S1,9.987,16.40,0.1002,0.05\nB,S1,10.003,16.48,0.1002,0.05\n";
+	const char *interleaved =
+		"lot,sample,mass_g,titrant_ml,titrant_mol_l,blank_ml\n"
+		"A,S1,10.012,14.39,0.1002,0.05\nB,S1,9.987,16.40,0.1002,0.05\n"
+		"A,S1,10.030,14.35,0.1002,0.05\nB,S1,10.003,16.48,0.1002,0.05\n";
+	al_status st;
+	al_assay *a = run_text(adjacent, &st), *b;
+	const al_group_result *ra, *rb;
+	double want;
+
+	(void)state;
+	assert_int_equal(st, AL_OK);
+	b = run_text(interleaved, &st);
+	assert_int_equal(st, AL_OK);
+	assert_int_equal(al_assay_group_count(a), 2);
+	assert_int_equal(al_assay_group_count(b), 2);
+	for (size_t i = 0; i < 2; i++) {
+		ra = al_assay_result(a, i);
+		rb = al_assay_result(b, i);
+		assert_string_equal(ra->lot, rb->lot);
+		assert_true(ra->stats.mean == rb->stats.mean);
+		assert_true(ra->stats.sd == rb->stats.sd);
+		assert_int_equal(ra->verdict, AL_VERDICT_NO_SPEC);
+	}
+	ra = al_assay_result(a, 0);
+	assert_string_equal(ra->lot, "A");
+	want = (ta_citric(14.39, 0.05, 0.1002, 1, 10.012) +
+		ta_citric(14.35, 0.05, 0.1002, 1, 10.030)) /
+	       2;
+	assert_rel(ra->stats.mean, want, 1e-13);
+	assert_int_equal(ra->unit, AL_UNIT_G_100G);
+	assert_string_equal(ra->acid->name, "citric");
+	al_assay_free(a);
+	al_assay_free(b);
+}
+
+static void
+counts_and_errors(void **state)
+{
+	al_status st;
+	al_assay *run = run_text(
+		"sample,mass_g,titrant_ml,titrant_mol_l\n"
+		"S1,10,8,0.1\n\n,,,\nS1,0,8,0.1\nS1,10,8.1,0.1\n",
+		&st);
+	al_assay_counts c = al_assay_get_counts(run);
+	al_diags *d = al_assay_diags(run);
+
+	(void)state;
+	assert_int_equal(st, AL_OK); /* the file was read to its end */
+	assert_int_equal(c.rows_read, 3);
+	assert_int_equal(c.rows_used, 2);
+	assert_int_equal(c.rows_bad, 1);
+	assert_int_equal(d->errors, 1);
+	assert_int_equal(d->items[0].line, 5);
+	assert_string_equal(d->items[0].column, "mass_g");
+	al_assay_free(run);
+}
+
+/* The endpoint flag: citric acid to pH 7.0 titrates 2.80 of 3 protons,
+ * short of 99 % (Henderson-Hasselbalch with pKa 3.13/4.76/6.40). */
+static void
+endpoint_flag(void **state)
+{
+	al_status st;
+	al_assay *run = run_text(
+		"sample,mass_g,titrant_ml,titrant_mol_l,endpoint_ph\n"
+		"S1,10,8,0.1,7.0\nS2,10,8,0.1,8.1\n",
+		&st);
+	const al_group_result *r;
+
+	(void)state;
+	assert_int_equal(st, AL_OK);
+	r = al_assay_result(run, 0);
+	assert_true(r->flags & AL_FLAG_ENDPOINT_LOW);
+	assert_true(r->flags & AL_FLAG_SINGLE);
+	assert_abs(r->endpoint_ph, 7.0, 0);
+	assert_true(r->endpoint_ph_needed > 7.0 && r->endpoint_ph_needed < 8.1);
+	r = al_assay_result(run, 1);
+	assert_false(r->flags & AL_FLAG_ENDPOINT_LOW);
+	al_assay_free(run);
+}
+
+int
+main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(interleaved_equals_adjacent),
+		cmocka_unit_test(counts_and_errors),
+		cmocka_unit_test(endpoint_flag),
+	};
+
+	return cmocka_run_group_tests(tests, setup, teardown);
+}
