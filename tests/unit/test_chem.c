@@ -1,30 +1,11 @@
 /* acidlot tests: atomic weights, formula masses, acid factors, endpoints.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define ACIDLOT_TEST_CATALOGUE
 #include "testutil.h"
 
 #include <string.h>
 
 #include "acidlot/chem.h"
-
-static al_catalogue *cat;
-
-static int
-setup(void **state)
-{
-	al_status st;
-
-	(void)state;
-	cat = al_catalogue_new(&st, NULL);
-	return cat == NULL;
-}
-
-static int
-teardown(void **state)
-{
-	(void)state;
-	al_catalogue_free(cat);
-	return 0;
-}
 
 static const al_acid *
 acid(const char *name)

@@ -1,31 +1,12 @@
 /* acidlot tests: specification reading and the simple-acceptance verdict.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #define _POSIX_C_SOURCE 200809L
+#define ACIDLOT_TEST_CATALOGUE
 #include "testutil.h"
 
 #include <string.h>
 
 #include "acidlot/spec.h"
-
-static al_catalogue *cat;
-
-static int
-setup(void **state)
-{
-	al_status st;
-
-	(void)state;
-	cat = al_catalogue_new(&st, NULL);
-	return cat == NULL;
-}
-
-static int
-teardown(void **state)
-{
-	(void)state;
-	al_catalogue_free(cat);
-	return 0;
-}
 
 static al_spec_table *
 read_spec(const char *text, al_status *st, al_diags *d)

@@ -76,4 +76,29 @@ load_data(const char *name, size_t *n)
 	return v;
 }
 
+#ifdef ACIDLOT_TEST_CATALOGUE
+/* A group fixture: the built-in catalogue in `cat`. */
+#include "acidlot/chem.h"
+
+static al_catalogue *cat;
+
+static int
+setup(void **state)
+{
+	al_status st;
+
+	(void)state;
+	cat = al_catalogue_new(&st, NULL);
+	return cat == NULL;
+}
+
+static int
+teardown(void **state)
+{
+	(void)state;
+	al_catalogue_free(cat);
+	return 0;
+}
+#endif
+
 #endif
