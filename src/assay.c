@@ -65,6 +65,9 @@ struct al_assay {
 	int col[C_COUNT];
 	al_replicate_fn on_row;
 	void *ud;
+	char point;         /* decimal point of numbers */
+	al_diags row_diags; /* the current row's errors, before they are
+			       reported or the row rejected */
 };
 
 al_assay *
@@ -82,6 +85,8 @@ al_assay_new(const al_assay_options *opt, al_status *status)
 			al_catalogue_find(opt->catalogue, "citric");
 	if (run->opt.confidence == 0)
 		run->opt.confidence = 0.95;
+	run->point = opt->csv.decimal_point ? opt->csv.decimal_point : '.';
+	run->row_diags.cap = 16;
 	*status = AL_OK;
 	return run;
 }
@@ -102,6 +107,7 @@ al_assay_free(al_assay *run)
 	al_free(run->results);
 	al_free(run->scratch);
 	al_diags_clear(&run->diags);
+	al_diags_clear(&run->row_diags);
 	al_free(run);
 }
 
@@ -274,9 +280,13 @@ push_value(struct group *g, double v)
 	return AL_OK;
 }
 
-/* Adds an error for the current row. */
+/* Adds an error for the current row (reported or rejected at its end). */
 #define ROW_ERR(run, line, column, ...)                                       \
-	al_diags_add(&(run)->diags, AL_SEV_ERROR, (run)->file, (line), (column), \
+	al_diags_add(&(run)->row_diags, AL_SEV_ERROR, (run)->file, (line),     \
+		     (column), __VA_ARGS__)
+/* A file-level error or a warning: straight to the run's list. */
+#define RUN_DIAG(run, sev, line, column, ...)                                 \
+	al_diags_add(&(run)->diags, (sev), (run)->file, (line), (column),      \
 		     __VA_ARGS__)
 
 static al_status
@@ -288,7 +298,8 @@ check_header(al_assay *run, const al_csv_row *row)
 
 	run->header_done = 1;
 	run->header_fields = row->nfields;
-	if (al_header_map(row, cols, C_COUNT, run->col, run->file,
+	if (al_header_map(row, cols, C_COUNT, run->opt.aliases,
+			  run->opt.n_aliases, run->col, run->file,
 			  &run->diags) != AL_OK)
 		ok = 0;
 	have[0] = '\0';
@@ -298,28 +309,52 @@ check_header(al_assay *run, const al_csv_row *row)
 		if (w > 0)
 			hl += (size_t)w;
 	}
-	if (run->col[C_SAMPLE] < 0 || run->col[C_TITRANT] < 0) {
-		ROW_ERR(run, row->line, NULL,
-			"missing required column '%s' (the file has: %s)",
-			run->col[C_SAMPLE] < 0 ? "sample" : "titrant_ml", have);
+	for (int k = C_SAMPLE; k <= C_TITRANT; k++) {
+		const char *near;
+
+		if (run->col[k] >= 0)
+			continue;
+		near = al_header_closest(row, cols[k]);
+		if (near)
+			RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+				 "missing required column '%s' (the file has: "
+				 "%s); did you mean '%s'? map it with --column "
+				 "%s=\"%s\"",
+				 cols[k], have, near, cols[k], near);
+		else
+			RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+				 "missing required column '%s' (the file has: "
+				 "%s)",
+				 cols[k], have);
 		ok = 0;
 	}
+	if (row->nfields == 1 && run->opt.csv.delimiter != AL_CSV_AUTO &&
+	    (memchr(row->fields[0], ';', row->lens[0]) ||
+	     memchr(row->fields[0], '\t', row->lens[0]))) {
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+			 "the header is one field holding '%s': is the file "
+			 "delimited by '%s'? try --delimiter %s",
+			 memchr(row->fields[0], ';', row->lens[0]) ? ";" : "tab",
+			 memchr(row->fields[0], ';', row->lens[0]) ? ";" : "tab",
+			 memchr(row->fields[0], ';', row->lens[0]) ? "';'"
+								   : "tab");
+	}
 	if (run->col[C_MASS] < 0 && run->col[C_VOLUME] < 0) {
-		ROW_ERR(run, row->line, NULL,
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"needs a 'mass_g' or a 'volume_ml' column (the file "
 			"has: %s)",
 			have);
 		ok = 0;
 	}
 	if ((run->col[C_MADE_UP] < 0) != (run->col[C_ALIQUOT] < 0)) {
-		ROW_ERR(run, row->line, NULL,
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"'made_up_ml' and 'aliquot_ml' go together: the file "
 			"has only '%s'",
 			run->col[C_MADE_UP] < 0 ? "aliquot_ml" : "made_up_ml");
 		ok = 0;
 	}
 	if (run->col[C_CONC] < 0 && !run->opt.has_titrant) {
-		ROW_ERR(run, row->line, NULL,
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"no titrant concentration: add a 'titrant_mol_l' "
 			"column or give --titrant-mol-l");
 		ok = 0;
@@ -347,8 +382,8 @@ static int
 number_or_default(al_assay *run, const al_csv_row *row, int k, int has_def,
 		  double def, double *v)
 {
-	int got = al_cell_number(row, run->col[k], cols[k], '.', run->file,
-				 &run->diags, v);
+	int got = al_cell_number(row, run->col[k], cols[k], run->point,
+				 run->file, &run->row_diags, v);
 
 	if (got == 0 && has_def) {
 		*v = def;
@@ -409,11 +444,145 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 	return AL_OK;
 }
 
+static al_status row_values(al_assay *run, const al_csv_row *row);
+
+static void
+init_group(al_assay *run, struct group *g, const al_spec *spec,
+	   unsigned long line)
+{
+	g->acid = NULL; /* set by the first valid row */
+	g->spec = spec;
+	g->first_line = line;
+	g->first_file = run->files[run->n_files - 1];
+	g->min_endpoint = HUGE_VAL;
+}
+
+/* Possible but unusual values: a warning naming the row, and a flag. */
+static unsigned
+plausibility(al_assay *run, unsigned long line, const al_titration *t)
+{
+	unsigned flags = 0;
+
+	if (t->titrant_ml > AL_PLAUSIBLE_TITRANT_ML) {
+		RUN_DIAG(run, AL_SEV_WARNING, line, "titrant_ml",
+			 "%g mL is more than a burette holds (over %g mL): "
+			 "check the reading",
+			 t->titrant_ml, AL_PLAUSIBLE_TITRANT_ML);
+		flags |= AL_FLAG_IMPLAUSIBLE;
+	}
+	if (t->amount > AL_PLAUSIBLE_SAMPLE) {
+		RUN_DIAG(run, AL_SEV_WARNING, line,
+			 t->basis == AL_BASIS_MASS ? "mass_g" : "volume_ml",
+			 "a sample of %g %s is unusually large (over %g): "
+			 "check the unit",
+			 t->amount, t->basis == AL_BASIS_MASS ? "g" : "mL",
+			 AL_PLAUSIBLE_SAMPLE);
+		flags |= AL_FLAG_IMPLAUSIBLE;
+	}
+	if (t->titrant_mol_l < AL_PLAUSIBLE_CONC_MIN ||
+	    t->titrant_mol_l > AL_PLAUSIBLE_CONC_MAX) {
+		RUN_DIAG(run, AL_SEV_WARNING, line, "titrant_mol_l",
+			 "%g mol/L is outside the usual %g-%g mol/L: check "
+			 "the unit",
+			 t->titrant_mol_l, AL_PLAUSIBLE_CONC_MIN,
+			 AL_PLAUSIBLE_CONC_MAX);
+		flags |= AL_FLAG_IMPLAUSIBLE;
+	}
+	if (t->blank_ml > AL_PLAUSIBLE_BLANK_ML) {
+		RUN_DIAG(run, AL_SEV_WARNING, line, "blank_ml",
+			 "a blank of %g mL is unusually large (over %g mL)",
+			 t->blank_ml, AL_PLAUSIBLE_BLANK_ML);
+		flags |= AL_FLAG_IMPLAUSIBLE;
+	}
+	return flags;
+}
+
+/* The reasons of the current row, "column: message; ...". */
+static void
+row_reasons(const al_diags *d, char *buf, size_t cap)
+{
+	size_t len = 0;
+
+	buf[0] = '\0';
+	for (size_t i = 0; i < d->count && len + 1 < cap; i++) {
+		const al_diag *g = &d->items[i];
+		int w = snprintf(buf + len, cap - len, "%s%s%s%s",
+				 i ? "; " : "", g->column ? g->column : "",
+				 g->column ? ": " : "", g->message);
+
+		if (w < 0)
+			break;
+		len += (size_t)w;
+	}
+	if (len >= cap)
+		len = cap - 1;
+	if (d->errors > d->count && len + 16 < cap)
+		snprintf(buf + len, cap - len, "; and %lu more",
+			 d->errors - d->count);
+}
+
+/* A row with errors: reported (strict) or rejected (keep-going). */
+static al_status
+bad_row(al_assay *run, const al_csv_row *row)
+{
+	al_diags *d = &run->row_diags;
+	al_status st = AL_OK;
+
+	run->counts.rows_bad++;
+	if (run->opt.on_reject == NULL) {
+		for (size_t i = 0; i < d->count; i++)
+			al_diags_add(&run->diags, AL_SEV_ERROR, d->items[i].file,
+				     d->items[i].line, d->items[i].column, "%s",
+				     d->items[i].message);
+		/* count the ones the row's list could not keep */
+		run->diags.errors += d->errors - d->count;
+	} else {
+		char reason[1024];
+		const char *text[5];
+		size_t tl[5];
+
+		row_reasons(d, reason, sizeof reason);
+		st = run->opt.on_reject(run->opt.reject_ud, run->file,
+					row->line, reason, row->raw,
+					row->raw_len);
+		/* its result, if it has a sample, is flagged */
+		if (st == AL_OK && row->nfields == run->header_fields &&
+		    text_cells(run, row, text, tl) == AL_OK && tl[2] > 0) {
+			struct group *g;
+			int created;
+
+			st = find_group(run, text[0], tl[0], text[1], tl[1],
+					text[2], tl[2], &g, &created);
+			if (st == AL_OK && created)
+				init_group(run, g,
+					   al_spec_find(run->opt.specs, text[0]),
+					   row->line);
+			if (st == AL_OK)
+				g->flags |= AL_FLAG_REJECTED;
+		}
+	}
+	if (d->out_of_memory || run->diags.out_of_memory)
+		st = AL_ENOMEM;
+	al_diags_clear(d);
+	return st;
+}
+
 static al_status
 data_row(al_assay *run, const al_csv_row *row)
 {
+	al_status st = row_values(run, row);
+
+	if (st != AL_OK)
+		return st;
+	if (run->row_diags.errors > 0 || run->row_diags.out_of_memory)
+		return bad_row(run, row);
+	return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+}
+
+static al_status
+row_values(al_assay *run, const al_csv_row *row)
+{
 	unsigned long line = row->line;
-	unsigned long errs = run->diags.errors;
 	al_titration t;
 	al_replicate rep;
 	const char *text[5];
@@ -430,12 +599,16 @@ data_row(al_assay *run, const al_csv_row *row)
 	int created;
 	al_status st;
 
+	if (row->syntax_error) {
+		run->counts.rows_read++;
+		ROW_ERR(run, line, NULL, "%s", row->syntax_error);
+		return AL_OK;
+	}
 	if (row->nfields != run->header_fields) {
+		run->counts.rows_read++;
 		ROW_ERR(run, line, NULL, "%zu fields where the header has %zu",
 			row->nfields, run->header_fields);
-		run->counts.rows_read++;
-		run->counts.rows_bad++;
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+		return AL_OK;
 	}
 	if (row_is_empty(row))
 		return AL_OK; /* a spreadsheet's empty line: like a blank line */
@@ -452,14 +625,14 @@ data_row(al_assay *run, const al_csv_row *row)
 	if (tl[2] == 0)
 		ROW_ERR(run, line, "sample", "is empty: every row needs a "
 					    "sample identifier");
-	got = al_cell_number(row, run->col[C_TITRANT], "titrant_ml", '.',
-			     run->file, &run->diags, &t.titrant_ml);
+	got = al_cell_number(row, run->col[C_TITRANT], "titrant_ml",
+				 run->point, run->file, &run->row_diags, &t.titrant_ml);
 	if (got == 0)
 		ROW_ERR(run, line, "titrant_ml", "is empty");
-	got_mass = al_cell_number(row, run->col[C_MASS], "mass_g", '.',
-				  run->file, &run->diags, &mass);
-	got_volume = al_cell_number(row, run->col[C_VOLUME], "volume_ml", '.',
-				    run->file, &run->diags, &volume);
+	got_mass = al_cell_number(row, run->col[C_MASS], "mass_g",
+				 run->point, run->file, &run->row_diags, &mass);
+	got_volume = al_cell_number(row, run->col[C_VOLUME], "volume_ml",
+				 run->point, run->file, &run->row_diags, &volume);
 	if (got_mass == 1 && got_volume == 1)
 		ROW_ERR(run, line, NULL, "both mass_g and volume_ml are given: "
 					 "a row takes exactly one");
@@ -481,10 +654,10 @@ data_row(al_assay *run, const al_csv_row *row)
 	}
 	if (run->col[C_MADE_UP] >= 0) {
 		int a = al_cell_number(row, run->col[C_MADE_UP], "made_up_ml",
-				       '.', run->file, &run->diags,
+				 run->point, run->file, &run->row_diags,
 				       &t.made_up_ml);
 		int b = al_cell_number(row, run->col[C_ALIQUOT], "aliquot_ml",
-				       '.', run->file, &run->diags,
+				 run->point, run->file, &run->row_diags,
 				       &t.aliquot_ml);
 		if ((a == 1) != (b == 1) && a >= 0 && b >= 0)
 			ROW_ERR(run, line, a == 1 ? "aliquot_ml" : "made_up_ml",
@@ -503,7 +676,7 @@ data_row(al_assay *run, const al_csv_row *row)
 		ROW_ERR(run, line, "endpoint_ph",
 			"endpoint pH %g is outside 0 to 14", endpoint);
 
-	if (run->diags.errors == errs) {
+	if (run->row_diags.errors == 0) {
 		al_ta_problem probs[8];
 		size_t np = al_ta_check(&t, probs, 8);
 
@@ -537,32 +710,25 @@ data_row(al_assay *run, const al_csv_row *row)
 		unit = t.basis == AL_BASIS_MASS ? AL_UNIT_G_100G
 						: AL_UNIT_G_100ML;
 
-	if (run->diags.out_of_memory)
-		return AL_ENOMEM;
-	if (run->diags.errors != errs || acid == NULL) {
-		run->counts.rows_bad++;
+	if (run->row_diags.errors != 0 || acid == NULL)
 		return AL_OK;
-	}
 
 	st = find_group(run, product, tl[0], lot, tl[1], sample, tl[2], &g,
 			&created);
 	if (st != AL_OK)
 		return st;
-	if (created) {
+	if (created)
+		init_group(run, g, spec, line);
+	if (g->acid == NULL) {
 		g->acid = acid;
 		g->unit = unit;
-		g->spec = spec;
-		g->first_line = line;
-		g->first_file = run->files[run->n_files - 1];
-		g->min_endpoint = HUGE_VAL;
 	} else if (g->acid != acid) {
 		ROW_ERR(run, line, "acid",
 			"'%s' differs from '%s' of the same product, lot and "
 			"sample first seen at %s:%lu; one result cannot mix "
 			"acids",
 			acid->name, g->acid->name, g->first_file, g->first_line);
-		run->counts.rows_bad++;
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+		return AL_OK;
 	}
 	unit = g->unit;
 	if (al_unit_basis(unit) != t.basis) {
@@ -574,17 +740,16 @@ data_row(al_assay *run, const al_csv_row *row)
 				"--density-g-ml",
 				al_unit_name(unit),
 				t.basis == AL_BASIS_MASS ? "mass" : "volume");
-			run->counts.rows_bad++;
-			return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+			return AL_OK;
 		}
 		flags |= AL_FLAG_DENSITY;
 	}
 	if (al_ta_value(&t, acid->g_per_meq, unit, density, &value) != AL_OK) {
 		ROW_ERR(run, line, NULL, "cannot express the result in %s",
 			al_unit_name(unit));
-		run->counts.rows_bad++;
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+		return AL_OK;
 	}
+	flags |= plausibility(run, line, &t);
 	if (got_endpoint == 1 && acid->n_pka > 0) {
 		double titrated =
 			al_protons_titrated(acid->pka, acid->n_pka, endpoint);
@@ -660,7 +825,8 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	if (st == AL_OK && !run->header_done) {
-		ROW_ERR(run, 0, NULL, "the file is empty (no header row)");
+		RUN_DIAG(run, AL_SEV_ERROR, 0, NULL,
+			 "the file is empty (no header row)");
 		st = run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
 	} else if (st == AL_OK && !run->header_ok)
 		st = AL_EINPUT;
@@ -682,6 +848,15 @@ al_assay_finish(al_assay *run)
 		const char *k = run->arena + g->key;
 		unsigned why;
 
+		if (g->acid == NULL) {
+			/* every row of it was rejected: name it as its spec or
+			 * the defaults would */
+			g->acid = g->spec && g->spec->acid ? g->spec->acid
+							   : run->opt.default_acid;
+			g->unit = g->spec && g->spec->has_unit ? g->spec->unit
+				  : run->opt.has_unit	       ? run->opt.unit
+							       : AL_UNIT_G_100G;
+		}
 		r->product = k;
 		r->lot = k + g->lot_off;
 		r->sample = k + g->sample_off;
@@ -732,6 +907,8 @@ al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 		{AL_FLAG_ENDPOINT_LOW, "endpoint-low"},
 		{AL_FLAG_ACID_IGNORED, "row-acid-ignored"},
 		{AL_FLAG_DENSITY, "density-converted"},
+		{AL_FLAG_IMPLAUSIBLE, "implausible-value"},
+		{AL_FLAG_REJECTED, "rows-rejected"},
 	};
 	size_t len = 0;
 

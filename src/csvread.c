@@ -17,6 +17,7 @@
 struct reader {
 	const al_csv_options *opt;
 	size_t max_field;
+	char delimiter;
 	const char *name;
 	al_csv_row_fn row_fn;
 	void *ud;
@@ -28,12 +29,30 @@ struct reader {
 	size_t *offsets, *lens;
 	const char **ptrs;
 	size_t nfields, fields_cap;
+	char *raw; /* its bytes as read */
+	size_t raw_len, raw_cap;
 
 	unsigned long cur_line; /* line on which the next record starts */
 	unsigned long extra;    /* line ends inside quoted fields so far */
 	int last_term;          /* terminator of the previous record */
 	al_status stop;         /* first failure; callbacks do nothing after */
+	char record_error[160]; /* recover mode: the record is malformed */
 };
+
+/* libcsv's allocator hook has no context, so the cap on its field buffer
+ * is per thread, set for the duration of one al_csv_read. */
+static _Thread_local size_t hook_limit;
+static _Thread_local int hook_refused;
+
+static void *
+capped_realloc(void *ptr, size_t size)
+{
+	if (hook_limit != 0 && size > hook_limit) {
+		hook_refused = 1;
+		return NULL;
+	}
+	return al_realloc(ptr, size);
+}
 
 const char *
 al_trim(const char *s, size_t *len)
@@ -98,25 +117,46 @@ fail(struct reader *r, al_status st, unsigned long line, const char *msg)
 		r->stop = AL_ENOMEM;
 }
 
+/* A malformed record: stops the reader, or in recover mode marks the
+ * record so that it reaches the callback as malformed. */
+static void
+bad_record(struct reader *r, unsigned long line, const char *msg)
+{
+	if (!r->opt->recover) {
+		fail(r, AL_ESYNTAX, line, msg);
+		return;
+	}
+	if (r->record_error[0] == '\0')
+		snprintf(r->record_error, sizeof r->record_error, "%s", msg);
+}
+
 static void
 on_field(void *data, size_t len, void *ud)
 {
 	struct reader *r = ud;
 	int prev_cr = 0;
 
-	if (r->stop != AL_OK)
+	if (r->stop != AL_OK || r->record_error[0])
 		return;
 	if (len > r->max_field) {
 		char msg[96];
 
 		snprintf(msg, sizeof msg, "field too long (over %zu bytes)",
 			 r->max_field);
-		fail(r, AL_ESYNTAX, r->cur_line + r->extra, msg);
+		bad_record(r, r->cur_line + r->extra, msg);
 		return;
 	}
 	if (len > 0 && memchr(data, '\0', len) != NULL) {
-		fail(r, AL_ESYNTAX, r->cur_line + r->extra,
-		     "field contains a NUL byte");
+		bad_record(r, r->cur_line + r->extra,
+			   "field contains a NUL byte");
+		return;
+	}
+	if (r->nfields == AL_CSV_MAX_FIELDS) {
+		char msg[96];
+
+		snprintf(msg, sizeof msg, "record has more than %d fields",
+			 AL_CSV_MAX_FIELDS);
+		bad_record(r, r->cur_line, msg);
 		return;
 	}
 	if (r->nfields == r->fields_cap) {
@@ -169,6 +209,34 @@ on_field(void *data, size_t len, void *ud)
 		r->extra += count_line_ends(data, len, &prev_cr);
 }
 
+/* Hands a malformed record to the callback (recover mode) and forgets
+ * the record; the caller moves the line counter on. */
+static void
+deliver_bad(struct reader *r, const char *msg)
+{
+	al_csv_row row;
+	char why[160];
+	al_status st;
+
+	snprintf(why, sizeof why, "%s", msg);
+	memset(&row, 0, sizeof row);
+	row.line = r->cur_line;
+	row.delimiter = r->delimiter;
+	row.raw = r->raw ? r->raw : "";
+	row.raw_len = r->raw_len;
+	while (row.raw_len > 0 && (row.raw[row.raw_len - 1] == '\n' ||
+				   row.raw[row.raw_len - 1] == '\r'))
+		row.raw_len--;
+	row.syntax_error = why;
+	st = r->row_fn(r->ud, &row);
+	if (st != AL_OK && r->stop == AL_OK)
+		r->stop = st;
+	r->nfields = 0;
+	r->buf_len = 0;
+	r->raw_len = 0;
+	r->record_error[0] = '\0';
+}
+
 static void
 on_record(int c, void *ud)
 {
@@ -178,6 +246,13 @@ on_record(int c, void *ud)
 
 	if (r->stop != AL_OK)
 		return;
+	if (r->record_error[0]) {
+		deliver_bad(r, r->record_error);
+		r->cur_line += r->extra + 1;
+		r->extra = 0;
+		r->last_term = c;
+		return;
+	}
 	if (r->nfields == 0) {
 		/* A blank line, or the LF of a CRLF pair. */
 		if (c == '\n' && r->last_term == '\r')
@@ -186,14 +261,22 @@ on_record(int c, void *ud)
 			r->cur_line++;
 			r->last_term = c;
 		}
+		r->raw_len = 0;
 		return;
 	}
 	for (size_t i = 0; i < r->nfields; i++)
 		r->ptrs[i] = r->buf + r->offsets[i];
+	memset(&row, 0, sizeof row);
 	row.nfields = r->nfields;
 	row.fields = r->ptrs;
 	row.lens = r->lens;
 	row.line = r->cur_line;
+	row.delimiter = r->delimiter;
+	row.raw_len = r->raw_len;
+	while (row.raw_len > 0 && (r->raw[row.raw_len - 1] == '\n' ||
+				   r->raw[row.raw_len - 1] == '\r'))
+		row.raw_len--;
+	row.raw = r->raw ? r->raw : "";
 	st = r->row_fn(r->ud, &row);
 	if (st != AL_OK && r->stop == AL_OK)
 		r->stop = st;
@@ -201,6 +284,7 @@ on_record(int c, void *ud)
 	r->extra = 0;
 	r->nfields = 0;
 	r->buf_len = 0;
+	r->raw_len = 0;
 	r->last_term = c;
 }
 
@@ -217,6 +301,188 @@ free_reader(struct reader *r)
 	al_free(r->offsets);
 	al_free(r->lens);
 	al_free(r->ptrs);
+	al_free(r->raw);
+}
+
+/* Keeps the bytes of the record being read. */
+static void
+keep_raw(struct reader *r, const char *data, size_t n)
+{
+	if (r->raw_len + n > r->raw_cap) {
+		size_t cap = r->raw_cap ? r->raw_cap : 1024;
+		char *grown;
+
+		if (r->raw_len + n > AL_CSV_MAX_RECORD) {
+			if (!r->opt->recover)
+				fail(r, AL_ESYNTAX, r->cur_line,
+				     "record longer than 1 MiB (an unclosed "
+				     "quote?)");
+			else if (r->record_error[0] == '\0')
+				snprintf(r->record_error,
+					 sizeof r->record_error,
+					 "record longer than 1 MiB (an "
+					 "unclosed quote?)");
+			return;
+		}
+		while (cap < r->raw_len + n)
+			cap *= 2;
+		grown = al_realloc(r->raw, cap);
+		if (grown == NULL) {
+			fail(r, AL_ENOMEM, 0, NULL);
+			return;
+		}
+		r->raw = grown;
+		r->raw_cap = cap;
+	}
+	memcpy(r->raw + r->raw_len, data, n);
+	r->raw_len += n;
+}
+
+/* The delimiter of a header line: the one of ',', ';' and tab that occurs
+ * outside quotes. 0 when none or more than one does. */
+static char
+detect_delimiter(const char *data, size_t n, char *found, size_t cap)
+{
+	int quoted = 0, seen[3] = {0, 0, 0};
+	const char cand[3] = {',', ';', '\t'};
+	char pick = 0;
+	size_t k = 0;
+
+	for (size_t i = 0; i < n; i++) {
+		char c = data[i];
+
+		if (c == '"')
+			quoted = !quoted;
+		else if (!quoted && (c == '\n' || c == '\r'))
+			break;
+		else if (!quoted)
+			for (int j = 0; j < 3; j++)
+				if (c == cand[j])
+					seen[j] = 1;
+	}
+	found[0] = '\0';
+	for (int j = 0; j < 3; j++)
+		if (seen[j]) {
+			if (k + 8 < cap)
+				k += (size_t)snprintf(found + k, cap - k, "%s%s",
+						      k ? " and " : "",
+						      j == 2 ? "tab"
+						      : j == 1 ? "';'"
+							       : "','");
+			pick = pick ? -1 : cand[j];
+		}
+	return pick < 0 ? 0 : pick;
+}
+
+static int
+parser_setup(struct csv_parser *p, char delimiter)
+{
+	if (csv_init(p, CSV_STRICT | CSV_STRICT_FINI | CSV_REPALL_NL |
+				CSV_APPEND_NULL) != 0)
+		return -1;
+	csv_set_realloc_func(p, capped_realloc);
+	csv_set_free_func(p, al_free);
+	csv_set_space_func(p, is_blank_char);
+	csv_set_blk_size(p, 4096);
+	csv_set_delim(p, (unsigned char)delimiter);
+	return 0;
+}
+
+/* Recover mode: hands the malformed record to the callback and starts a
+ * fresh parser at the next line. */
+static void
+restart(struct reader *r, struct csv_parser *p, const char *msg,
+	unsigned long next_line)
+{
+	deliver_bad(r, msg);
+	r->cur_line = next_line;
+	r->extra = 0;
+	r->last_term = 0;
+	hook_refused = 0;
+	csv_free(p);
+	if (parser_setup(p, r->delimiter) != 0)
+		fail(r, AL_ENOMEM, 0, NULL);
+}
+
+/* Feeds one chunk to libcsv a line at a time, so that each record's raw
+ * bytes are known and an error's line is exact. */
+static int
+feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
+     unsigned long *phys_line, int *prev_cr)
+{
+	size_t pos = 0;
+
+	while (pos < n && r->stop == AL_OK) {
+		size_t q = pos, done;
+
+		while (q < n && data[q] != '\n' && data[q] != '\r')
+			q++;
+		if (q < n)
+			q++;
+		keep_raw(r, data + pos, q - pos);
+		if (r->stop != AL_OK)
+			break;
+		if (r->record_error[0] && r->raw_len >= AL_CSV_MAX_RECORD - CHUNK)
+			done = 0; /* a runaway record: give up on it here */
+		else
+			done = csv_parse(p, data + pos, q - pos, on_field,
+					 on_record, r);
+		if (r->stop != AL_OK)
+			break;
+		if (done != q - pos && r->opt->recover) {
+			char msg[160];
+			unsigned long next = *phys_line +
+				(data[q - 1] == '\n' || data[q - 1] == '\r');
+
+			if (r->record_error[0])
+				snprintf(msg, sizeof msg, "%s", r->record_error);
+			else if (hook_refused)
+				snprintf(msg, sizeof msg,
+					 "field too long (over %zu bytes)",
+					 r->max_field);
+			else if (csv_error(p) == CSV_EPARSE)
+				snprintf(msg, sizeof msg,
+					 "malformed quoting (a quote inside an "
+					 "unquoted field, or text after a "
+					 "closing quote)");
+			else {
+				fail(r, AL_ENOMEM, 0, NULL);
+				break;
+			}
+			restart(r, p, msg, next);
+		} else if (done != q - pos) {
+			if (hook_refused) {
+				char msg[128];
+
+				if (*phys_line != r->cur_line)
+					snprintf(msg, sizeof msg,
+						 "field too long (over %zu bytes) "
+						 "in the record that starts here: "
+						 "an unclosed quote?",
+						 r->max_field);
+				else
+					snprintf(msg, sizeof msg,
+						 "field too long (over %zu bytes)",
+						 r->max_field);
+				fail(r, AL_ESYNTAX, r->cur_line, msg);
+			} else if (csv_error(p) == CSV_EPARSE)
+				fail(r, AL_ESYNTAX, *phys_line,
+				     "malformed quoting (a quote inside an "
+				     "unquoted field, or text after a "
+				     "closing quote)");
+			else
+				fail(r, AL_ENOMEM, 0, NULL);
+			break;
+		}
+		/* the segment ends in at most one line end */
+		if (data[q - 1] == '\r')
+			(*phys_line)++;
+		else if (data[q - 1] == '\n' && !(*prev_cr && q - pos == 1))
+			(*phys_line)++;
+		*prev_cr = data[q - 1] == '\r';
+		pos = q;
+	}
+	return r->stop == AL_OK;
 }
 
 al_status
@@ -227,8 +493,9 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	struct csv_parser p;
 	struct reader r;
 	char *chunk = NULL;
-	unsigned long raw_lines = 0;
+	unsigned long phys_line = 1;
 	int prev_cr = 0, first = 1, failed = 0;
+	size_t blk = 4096;
 	al_status st = AL_OK;
 
 	if (opt == NULL)
@@ -236,20 +503,18 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	memset(&r, 0, sizeof r);
 	r.opt = opt;
 	r.max_field = opt->max_field ? opt->max_field : AL_CSV_MAX_FIELD;
+	r.delimiter = opt->delimiter ? opt->delimiter : ',';
 	r.name = name;
 	r.row_fn = row_fn;
 	r.ud = ud;
 	r.diags = diags;
 	r.cur_line = 1;
 
-	if (csv_init(&p, CSV_STRICT | CSV_STRICT_FINI | CSV_REPALL_NL |
-				 CSV_APPEND_NULL) != 0)
+	if (parser_setup(&p, r.delimiter == AL_CSV_AUTO ? ',' : r.delimiter) != 0)
 		return AL_ENOMEM;
-	csv_set_realloc_func(&p, al_realloc);
-	csv_set_free_func(&p, al_free);
-	csv_set_space_func(&p, is_blank_char);
-	csv_set_delim(&p, (unsigned char)(opt->delimiter ? opt->delimiter : ','));
-	csv_set_blk_size(&p, 4096);
+	/* room for the longest field allowed and libcsv's NUL, in whole blocks */
+	hook_limit = ((r.max_field + 1 + blk - 1) / blk) * blk;
+	hook_refused = 0;
 
 	chunk = al_malloc(CHUNK);
 	if (chunk == NULL) {
@@ -258,7 +523,7 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	}
 	for (;;) {
 		size_t n = read_fn(read_ctx, chunk, CHUNK, &failed);
-		size_t skip = 0, done;
+		size_t skip = 0;
 
 		if (failed) {
 			fail(&r, AL_EIO, 0, NULL);
@@ -282,42 +547,55 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 			if (n >= 3 && memcmp(chunk, "\xEF\xBB\xBF", 3) == 0)
 				skip = 3;
 			first = 0;
-		}
-		done = csv_parse(&p, chunk + skip, n - skip, on_field,
-				 on_record, &r);
-		if (r.stop != AL_OK)
-			break;
-		if (done != n - skip) {
-			int err = csv_error(&p);
+			if (opt->delimiter == AL_CSV_AUTO) {
+				char found[64];
 
-			if (err == CSV_EPARSE) {
-				unsigned long line = raw_lines + 1 +
-					count_line_ends(chunk + skip, done,
-							&prev_cr);
-				fail(&r, AL_ESYNTAX, line,
-				     "malformed quoting (a quote inside an "
-				     "unquoted field, or text after a "
-				     "closing quote)");
-			} else
-				fail(&r, AL_ENOMEM, 0, NULL);
-			break;
+				r.delimiter = detect_delimiter(
+					chunk + skip, n - skip, found,
+					sizeof found);
+				if (r.delimiter == 0) {
+					char msg[160];
+
+					snprintf(msg, sizeof msg,
+						 found[0] ? "cannot tell the "
+							    "delimiter: the "
+							    "header has %s; "
+							    "give --delimiter"
+							  : "cannot tell the "
+							    "delimiter: the "
+							    "header has no ',', "
+							    "';' or tab%s; give "
+							    "--delimiter",
+						 found);
+					fail(&r, AL_ESYNTAX, 1, msg);
+					break;
+				}
+			}
+			csv_set_delim(&p, (unsigned char)r.delimiter);
 		}
-		raw_lines += count_line_ends(chunk + skip, n - skip, &prev_cr);
+		if (!feed(&r, &p, chunk + skip, n - skip, &phys_line, &prev_cr))
+			break;
 	}
 	if (r.stop == AL_OK) {
 		unsigned long field_line = r.cur_line + r.extra;
 
 		if (csv_fini(&p, on_field, on_record, &r) != 0 &&
 		    r.stop == AL_OK) {
-			if (csv_error(&p) == CSV_EPARSE)
+			if (csv_error(&p) == CSV_EPARSE && opt->recover) {
+				deliver_bad(&r, "unterminated quoted field "
+						"(the quote opened here is "
+						"never closed)");
+			} else if (csv_error(&p) == CSV_EPARSE)
 				fail(&r, AL_ESYNTAX, field_line,
 				     "unterminated quoted field (the quote "
 				     "opened here is never closed)");
 			else
 				fail(&r, AL_ENOMEM, 0, NULL);
-		}
+		} else if (r.stop == AL_OK && r.record_error[0])
+			deliver_bad(&r, r.record_error);
 	}
 	st = r.stop;
+	hook_limit = 0;
 	csv_free(&p);
 	al_free(chunk);
 	free_reader(&r);

@@ -80,7 +80,7 @@ al_report_write(FILE *out, const al_assay *run, const al_report_options *opt)
 		putc(',', out);
 		al_csv_put_field(out, al_unit_name(r->unit));
 		fprintf(out, ",%zu", r->stats.n);
-		put_number(out, 1, r->stats.mean, dec);
+		put_number(out, r->stats.n > 0, r->stats.mean, dec);
 		put_number(out, r->stats.has_sd, r->stats.sd, dec);
 		put_number(out, r->stats.has_rsd, r->stats.rsd_pct, dec);
 		put_number(out, r->stats.has_sd, r->stats.ci_low, dec);

@@ -25,6 +25,7 @@ struct spec_reader {
 	size_t header_fields;
 	int col[C_COUNT];
 	int bad;
+	char point;
 };
 
 static void
@@ -49,7 +50,7 @@ spec_row(void *ud, const al_csv_row *row)
 	if (!r->header_done) {
 		r->header_done = 1;
 		r->header_fields = row->nfields;
-		if (al_header_map(row, spec_cols, C_COUNT, r->col, r->file,
+		if (al_header_map(row, spec_cols, C_COUNT, NULL, 0, r->col, r->file,
 				  r->diags) != AL_OK)
 			r->bad = 1;
 		if (r->col[C_PRODUCT] < 0) {
@@ -116,17 +117,17 @@ spec_row(void *ud, const al_csv_row *row)
 		else
 			s.has_unit = 1;
 	}
-	got = al_cell_number(row, r->col[C_MIN], "min", '.', r->file, r->diags,
-			     &s.min);
+	got = al_cell_number(row, r->col[C_MIN], "min", r->point, r->file,
+			     r->diags, &s.min);
 	s.has_min = got == 1;
 	limit_bad = got < 0;
-	got = al_cell_number(row, r->col[C_MAX], "max", '.', r->file, r->diags,
-			     &s.max);
+	got = al_cell_number(row, r->col[C_MAX], "max", r->point, r->file,
+			     r->diags, &s.max);
 	s.has_max = got == 1;
 	limit_bad |= got < 0;
 	if (limit_bad)
 		r->bad = 1;
-	got = al_cell_number(row, r->col[C_MAX_RSD], "max_rsd_pct", '.',
+	got = al_cell_number(row, r->col[C_MAX_RSD], "max_rsd_pct", r->point,
 			     r->file, r->diags, &s.max_rsd_pct);
 	if (got < 0)
 		r->bad = 1;
@@ -138,7 +139,7 @@ spec_row(void *ud, const al_csv_row *row)
 			    len);
 		}
 	}
-	got = al_cell_number(row, r->col[C_MIN_N], "min_n", '.', r->file,
+	got = al_cell_number(row, r->col[C_MIN_N], "min_n", r->point, r->file,
 			     r->diags, &v);
 	if (got < 0)
 		r->bad = 1;
@@ -194,6 +195,7 @@ al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
 	r.cat = cat;
 	r.file = name;
 	r.diags = diags;
+	r.point = csv && csv->decimal_point ? csv->decimal_point : '.';
 	r.table = al_calloc(1, sizeof *r.table);
 	if (r.table == NULL) {
 		*status = AL_ENOMEM;
@@ -267,6 +269,10 @@ al_judge(const al_spec *spec, const al_summary *s, unsigned *why)
 	*why = 0;
 	if (spec == NULL)
 		return AL_VERDICT_NO_SPEC;
+	if (s->n == 0) {
+		*why = AL_WHY_FEW; /* every row rejected: nothing to judge */
+		return AL_VERDICT_RETEST;
+	}
 	if (s->n < spec->min_n)
 		*why |= AL_WHY_FEW;
 	if (spec->has_max_rsd && s->has_rsd && s->rsd_pct > spec->max_rsd_pct)

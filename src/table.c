@@ -2,14 +2,53 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/table.h"
 
+#include <ctype.h>
 #include <stdio.h>
 #include <string.h>
 
+#include "acidlot/alloc.h"
 #include "acidlot/number.h"
+
+static int
+strncasecmp_ascii(const char *a, const char *b, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		int x = tolower((unsigned char)a[i]), y = tolower((unsigned char)b[i]);
+
+		if (x != y)
+			return x - y;
+		if (x == 0)
+			return 0;
+	}
+	return 0;
+}
+
+/* The column name a header cell stands for: names[k], directly or
+ * through an alias; -1 when unknown. */
+static int
+header_column(const char *h, size_t len, const char *const *names,
+	      size_t n_names, const al_column_alias *aliases, size_t n_aliases)
+{
+	for (size_t a = 0; a < n_aliases; a++) {
+		size_t al = strlen(aliases[a].header);
+		const char *ah = al_trim(aliases[a].header, &al);
+
+		if (al == len && al > 0 &&
+		    strncasecmp_ascii(h, ah, len) == 0)
+			for (size_t k = 0; k < n_names; k++)
+				if (strcmp(names[k], aliases[a].name) == 0)
+					return (int)k;
+	}
+	for (size_t k = 0; k < n_names; k++)
+		if (al_word_eq(h, len, names[k]))
+			return (int)k;
+	return -1;
+}
 
 al_status
 al_header_map(const al_csv_row *header, const char *const *names,
-	      size_t n_names, int *index, const char *file, al_diags *diags)
+	      size_t n_names, const al_column_alias *aliases,
+	      size_t n_aliases, int *index, const char *file, al_diags *diags)
 {
 	char unknown[512];
 	size_t ulen = 0, n_unknown = 0;
@@ -21,12 +60,10 @@ al_header_map(const al_csv_row *header, const char *const *names,
 	for (size_t i = 0; i < header->nfields; i++) {
 		size_t len = header->lens[i];
 		const char *h = al_trim(header->fields[i], &len);
-		int known = 0;
+		int k = header_column(h, len, names, n_names, aliases,
+				      n_aliases);
 
-		for (size_t k = 0; k < n_names; k++) {
-			if (!al_word_eq(h, len, names[k]))
-				continue;
-			known = 1;
+		if (k >= 0) {
 			if (index[k] >= 0) {
 				al_diags_add(diags, AL_SEV_ERROR, file,
 					     header->line, names[k],
@@ -36,8 +73,7 @@ al_header_map(const al_csv_row *header, const char *const *names,
 				st = AL_EINPUT;
 			} else
 				index[k] = (int)i;
-		}
-		if (!known) {
+		} else {
 			int w = snprintf(unknown + ulen, sizeof unknown - ulen,
 					 "%s'%.*s'", n_unknown ? ", " : "",
 					 (int)len, h);
@@ -82,4 +118,154 @@ al_cell_number(const al_csv_row *row, int col, const char *column,
 		     "'%.*s' %s", (int)(len > 60 ? 60 : len), s,
 		     al_numerr_phrase(err));
 	return -1;
+}
+
+/* Lower case, without blanks and underscores, for a loose comparison. */
+static size_t
+loose(const char *s, size_t len, char *out, size_t cap)
+{
+	size_t n = 0;
+
+	for (size_t i = 0; i < len && n + 1 < cap; i++)
+		if (s[i] != ' ' && s[i] != '_' && s[i] != '\t')
+			out[n++] = (char)tolower((unsigned char)s[i]);
+	out[n] = '\0';
+	return n;
+}
+
+/* Levenshtein distance of two short strings (at most 63 bytes). */
+static size_t
+edit_distance(const char *a, size_t la, const char *b, size_t lb)
+{
+	size_t prev[64], cur[64];
+
+	for (size_t j = 0; j <= lb; j++)
+		prev[j] = j;
+	for (size_t i = 1; i <= la; i++) {
+		cur[0] = i;
+		for (size_t j = 1; j <= lb; j++) {
+			size_t sub = prev[j - 1] + (a[i - 1] != b[j - 1]);
+			size_t del = prev[j] + 1, ins = cur[j - 1] + 1;
+
+			cur[j] = sub < del ? (sub < ins ? sub : ins)
+					   : (del < ins ? del : ins);
+		}
+		memcpy(prev, cur, (lb + 1) * sizeof prev[0]);
+	}
+	return prev[lb];
+}
+
+const char *
+al_header_closest(const al_csv_row *header, const char *name)
+{
+	char want[64], cand[64];
+	size_t lw = loose(name, strlen(name), want, sizeof want);
+	size_t best = (size_t)-1;
+	const char *pick = NULL;
+
+	for (size_t i = 0; i < header->nfields; i++) {
+		size_t lc = loose(header->fields[i], header->lens[i], cand,
+				  sizeof cand);
+		size_t d;
+
+		if (lc == 0)
+			continue;
+		d = edit_distance(want, lw, cand, lc);
+		/* a prefix such as "titrant" for "titrant_ml" counts as close */
+		if (lc >= 4 && (strncmp(want, cand, lc) == 0 ||
+				strncmp(cand, want, lw) == 0))
+			d = d < 2 ? d : 2;
+		if (d < best) {
+			best = d;
+			pick = header->fields[i];
+		}
+	}
+	return best <= (lw > 6 ? 3 : 2) ? pick : NULL;
+}
+
+struct alias_reader {
+	const char *file;
+	al_diags *diags;
+	int col[2];
+	int header_done, bad;
+	al_column_alias *items;
+	size_t n;
+};
+
+static al_status
+alias_row(void *ud, const al_csv_row *row)
+{
+	static const char *const names[2] = {"name", "header"};
+	struct alias_reader *r = ud;
+	size_t ln, lh;
+	const char *name, *hdr;
+	al_column_alias *grown;
+
+	if (!r->header_done) {
+		r->header_done = 1;
+		if (al_header_map(row, names, 2, NULL, 0, r->col, r->file,
+				  r->diags) != AL_OK ||
+		    r->col[0] < 0 || r->col[1] < 0) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     NULL, "a column map needs the columns "
+					   "'name' and 'header'");
+			r->bad = 1;
+		}
+		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (r->bad)
+		return AL_OK;
+	name = al_cell(row, r->col[0], &ln);
+	hdr = al_cell(row, r->col[1], &lh);
+	if (ln == 0 || lh == 0) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
+			     "a mapping needs both a name and a header");
+		r->bad = 1;
+		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	grown = al_realloc(r->items, (r->n + 1) * sizeof *grown);
+	if (grown == NULL)
+		return AL_ENOMEM;
+	r->items = grown;
+	r->items[r->n].name = al_strndup(name, ln);
+	r->items[r->n].header = al_strndup(hdr, lh);
+	r->n++;
+	if (!r->items[r->n - 1].name || !r->items[r->n - 1].header)
+		return AL_ENOMEM;
+	return AL_OK;
+}
+
+al_status
+al_column_aliases_read(FILE *in, const char *file, al_column_alias **aliases,
+		       size_t *n, al_diags *diags)
+{
+	struct alias_reader r;
+	al_status st;
+
+	memset(&r, 0, sizeof r);
+	r.file = file;
+	r.diags = diags;
+	st = al_csv_read_file(NULL, in, file, alias_row, &r, diags);
+	if (st == AL_OK && !r.header_done)
+		al_diags_add(diags, AL_SEV_ERROR, file, 0, NULL,
+			     "the column map is empty");
+	if (st == AL_OK && (r.bad || !r.header_done))
+		st = AL_EINPUT;
+	if (st != AL_OK) {
+		al_column_aliases_free(r.items, r.n);
+		return st;
+	}
+	*aliases = r.items;
+	*n = r.n;
+	return AL_OK;
+}
+
+void
+al_column_aliases_free(al_column_alias *aliases, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		al_free((char *)aliases[i].name);
+		al_free((char *)aliases[i].header);
+	}
+	al_free(aliases);
 }

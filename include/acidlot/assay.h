@@ -14,6 +14,7 @@
 #include "acidlot/csvread.h"
 #include "acidlot/spec.h"
 #include "acidlot/stats.h"
+#include "acidlot/table.h"
 #include "acidlot/units.h"
 
 typedef struct al_assay_options {
@@ -33,7 +34,16 @@ typedef struct al_assay_options {
 	int has_endpoint;
 	double endpoint_ph;            /* when a row has no endpoint_ph */
 	double confidence;             /* of the interval; 0.95 when 0 */
-	al_csv_options csv;
+	al_csv_options csv;            /* delimiter, decimal point */
+	const al_column_alias *aliases;/* other headers for our columns */
+	size_t n_aliases;
+	/* Keep going past invalid rows: each goes to on_reject instead of
+	 * being an error, and its result is computed from the valid rows and
+	 * flagged. NULL: strict, every invalid row is an error. */
+	al_status (*on_reject)(void *ud, const char *file, unsigned long line,
+			       const char *reason, const char *raw,
+			       size_t raw_len);
+	void *reject_ud;
 } al_assay_options;
 
 /* Flags on a titration row and on a group (a group carries the union of
@@ -48,8 +58,19 @@ enum {
 					   protons the factor assumes */
 	AL_FLAG_ACID_IGNORED = 1u << 6, /* a row named another acid than the
 					   specification; the spec's is used */
-	AL_FLAG_DENSITY = 1u << 7       /* converted mass <-> volume basis */
+	AL_FLAG_DENSITY = 1u << 7,      /* converted mass <-> volume basis */
+	AL_FLAG_IMPLAUSIBLE = 1u << 8,  /* a value outside the usual range */
+	AL_FLAG_REJECTED = 1u << 9      /* rows of this result were rejected */
 };
+
+/* Plausibility limits: beyond them a value is possible but unusual, and
+ * draws a warning (common practice for bench titrations with a 50 mL
+ * burette and 0.1 M or 1 M NaOH). */
+#define AL_PLAUSIBLE_TITRANT_ML 100.0
+#define AL_PLAUSIBLE_SAMPLE 1000.0 /* g or mL */
+#define AL_PLAUSIBLE_CONC_MIN 0.001
+#define AL_PLAUSIBLE_CONC_MAX 2.0
+#define AL_PLAUSIBLE_BLANK_ML 5.0
 
 /* One titration that went into a result, as handed to the row callback.
  * Strings are valid only during the call. */
@@ -84,7 +105,8 @@ typedef struct al_group_result {
 typedef struct al_assay_counts {
 	unsigned long rows_read; /* data rows, blank lines not counted */
 	unsigned long rows_used;
-	unsigned long rows_bad;  /* rows with at least one error */
+	unsigned long rows_bad;  /* rows with at least one error (rejected
+				    ones in keep-going mode) */
 	unsigned long groups;
 	unsigned long by_verdict[AL_VERDICT_COUNT];
 } al_assay_counts;

@@ -9,11 +9,21 @@
 #include "acidlot/status.h"
 
 typedef struct al_csv_options {
-	char delimiter;   /* ',' when 0 */
-	size_t max_field; /* bytes; AL_CSV_MAX_FIELD when 0 */
+	char delimiter;     /* ',' when 0; AL_CSV_AUTO to detect it */
+	size_t max_field;   /* bytes; AL_CSV_MAX_FIELD when 0 */
+	char decimal_point; /* '.' when 0; ',' needs another delimiter */
+	int recover;        /* on a malformed record, hand it to the row
+			       callback with syntax_error set and go on with
+			       the next line, instead of stopping */
 } al_csv_options;
 
 #define AL_CSV_MAX_FIELD 4096
+/* Records longer than this, or with more fields, are refused. */
+#define AL_CSV_MAX_RECORD (1024 * 1024)
+#define AL_CSV_MAX_FIELDS 4096
+/* delimiter value asking the reader to detect ',', ';' or tab from the
+ * header line; a header holding more than one of them is an error. */
+#define AL_CSV_AUTO 'A'
 
 /* One record. fields[i] is NUL-terminated and lens[i] its length; both
  * are valid only during the callback. line is the physical line (1-based)
@@ -23,6 +33,11 @@ typedef struct al_csv_row {
 	const char *const *fields;
 	const size_t *lens;
 	unsigned long line;
+	const char *raw;  /* the record's bytes as in the file, without its */
+	size_t raw_len;   /* line end */
+	char delimiter;   /* the delimiter in force (detected or given) */
+	const char *syntax_error; /* recover mode: why the record is malformed
+				     (then nfields is 0); NULL otherwise */
 } al_csv_row;
 
 /* Called for every record that has at least one field. Blank lines are
@@ -37,8 +52,10 @@ typedef size_t (*al_read_fn)(void *ctx, void *buf, size_t cap, int *failed);
 /* Reads all records from a source, calling row_fn for each. A UTF-8
  * byte-order mark at the start is skipped. Syntax errors (strict RFC 4180
  * quoting, an unterminated quote, a field over max_field bytes, a NUL
- * byte) are added to diags with `name` and the line, and give
- * AL_ESYNTAX; a read error AL_EIO; AL_ENOMEM when memory runs out. */
+ * byte, an ambiguous header under AL_CSV_AUTO) are added to diags with
+ * `name` and the line, and give AL_ESYNTAX; a read error AL_EIO;
+ * AL_ENOMEM when memory runs out. The field cap is enforced in libcsv's
+ * allocator hook, so a huge field never costs more than the cap. */
 al_status al_csv_read(const al_csv_options *opt, al_read_fn read_fn,
 		      void *read_ctx, const char *name, al_csv_row_fn row_fn,
 		      void *ud, al_diags *diags);

@@ -8,13 +8,34 @@
 #include "acidlot/csvread.h"
 #include "acidlot/status.h"
 
+/* A header of an instrument export standing for one of our columns,
+ * e.g. {"titrant_ml", "Vol (mL)"} (--column titrant_ml="Vol (mL)"). */
+typedef struct al_column_alias {
+	const char *name;   /* our column name */
+	const char *header; /* the file's header text */
+} al_column_alias;
+
 /* Maps a header row onto known column names (matched ignoring case and
- * surrounding blanks). index[k] gets the field number of names[k], or -1.
- * A known name given twice is an error; unknown headers are listed in one
- * warning. Returns AL_EINPUT after adding the errors to diags. */
+ * surrounding blanks), and onto aliases (n_aliases may be 0). index[k]
+ * gets the field number of names[k], or -1. A column given twice is an
+ * error; unknown headers are listed in one warning. Returns AL_EINPUT
+ * after adding the errors to diags. */
 al_status al_header_map(const al_csv_row *header, const char *const *names,
-			size_t n_names, int *index, const char *file,
+			size_t n_names, const al_column_alias *aliases,
+			size_t n_aliases, int *index, const char *file,
 			al_diags *diags);
+
+/* The header cell closest to `name` (edit distance, ignoring case, '_'
+ * and blanks), or NULL when none is close. */
+const char *al_header_closest(const al_csv_row *header, const char *name);
+
+/* Reads a column-mapping CSV of name,header pairs (a header row naming
+ * "name" and "header"). The strings and the array are owned by the
+ * caller: free with al_column_aliases_free. */
+al_status al_column_aliases_read(FILE *in, const char *file,
+				 al_column_alias **aliases, size_t *n,
+				 al_diags *diags);
+void al_column_aliases_free(al_column_alias *aliases, size_t n);
 
 /* The text of cell `col` of a row, trimmed; "" when col < 0. */
 const char *al_cell(const al_csv_row *row, int col, size_t *len);
