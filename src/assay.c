@@ -353,6 +353,12 @@ check_header(al_assay *run, const al_csv_row *row)
 			run->col[C_MADE_UP] < 0 ? "aliquot_ml" : "made_up_ml");
 		ok = 0;
 	}
+	if (run->point == ',' && row->delimiter == ',') {
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+			 "the file is delimited by ',', which cannot go with "
+			 "--decimal-comma");
+		ok = 0;
+	}
 	if (run->col[C_CONC] < 0 && !run->opt.has_titrant) {
 		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"no titrant concentration: add a 'titrant_mol_l' "

@@ -16,6 +16,7 @@ struct al_outfile {
 	char *path;
 	char *tmp;  /* NULL when written in place */
 	int direct; /* a device or pipe, written in place and closed */
+	int closed; /* prepared: flushed, checked and closed */
 };
 
 al_outfile *
@@ -117,10 +118,36 @@ release(al_outfile *f)
 }
 
 al_status
+al_outfile_prepare(al_outfile *f)
+{
+	int bad = fflush(f->stream) != 0 || ferror(f->stream);
+
+	if (f->tmp == NULL)
+		return bad ? AL_EIO : AL_OK;
+	if (!bad && fsync(fileno(f->stream)) != 0 && errno != EINVAL)
+		bad = 1;
+	if (fclose(f->stream) != 0)
+		bad = 1;
+	f->closed = 1;
+	return bad ? AL_EIO : AL_OK;
+}
+
+al_status
 al_outfile_commit(al_outfile *f)
 {
 	int bad;
 
+	if (f->closed) {
+		bad = rename(f->tmp, f->path) != 0;
+		if (bad) {
+			int saved = errno;
+
+			unlink(f->tmp);
+			errno = saved;
+		}
+		release(f);
+		return bad ? AL_EIO : AL_OK;
+	}
 	if (f->tmp == NULL) {
 		bad = fflush(f->stream) != 0 || ferror(f->stream);
 		if (f->direct && fclose(f->stream) != 0)
@@ -151,7 +178,8 @@ al_outfile_abort(al_outfile *f)
 	if (f == NULL)
 		return;
 	if (f->tmp != NULL) {
-		fclose(f->stream);
+		if (!f->closed)
+			fclose(f->stream);
 		unlink(f->tmp);
 	} else if (f->direct)
 		fclose(f->stream);

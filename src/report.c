@@ -1,24 +1,33 @@
-/* acidlot: CSV report and replicate table.
+/* acidlot: CSV report, replicate table and rejected rows.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/report.h"
 
 #include <locale.h>
 #include <string.h>
 
+static char
+delim_of(const al_report_options *opt)
+{
+	if (opt == NULL || opt->delimiter == 0)
+		return opt && opt->decimal_comma ? ';' : ',';
+	return opt->delimiter;
+}
+
 void
-al_format_number(double v, int decimals, char *buf, size_t cap)
+al_format_number(double v, int decimals, int decimal_comma, char *buf,
+		 size_t cap)
 {
 	const char *point;
+	char *p;
 
 	if (decimals >= 0)
 		snprintf(buf, cap, "%.*f", decimals, v);
 	else
 		snprintf(buf, cap, "%.10g", v);
-	/* printf follows LC_NUMERIC; the report always uses '.' */
+	/* printf follows LC_NUMERIC; the report does not */
 	point = localeconv()->decimal_point;
 	if (point[0] != '.' || point[1] != '\0') {
-		char *p = strstr(buf, point);
-
+		p = strstr(buf, point);
 		if (p != NULL) {
 			size_t pl = strlen(point);
 
@@ -26,111 +35,170 @@ al_format_number(double v, int decimals, char *buf, size_t cap)
 			memmove(p + 1, p + pl, strlen(p + pl) + 1);
 		}
 	}
+	if (decimal_comma && (p = strchr(buf, '.')) != NULL)
+		*p = ',';
+}
+
+static int
+put_quoted(FILE *out, const char *s, size_t len, char delimiter, int prefix)
+{
+	int quote = 0;
+
+	for (size_t i = 0; i < len; i++)
+		if (s[i] == delimiter || s[i] == '"' || s[i] == '\r' ||
+		    s[i] == '\n')
+			quote = 1;
+	if (quote && putc('"', out) == EOF)
+		return EOF;
+	if (prefix && putc('\'', out) == EOF)
+		return EOF;
+	for (size_t i = 0; i < len; i++) {
+		if (s[i] == '"' && putc('"', out) == EOF)
+			return EOF;
+		if (putc(s[i], out) == EOF)
+			return EOF;
+	}
+	return quote && putc('"', out) == EOF ? EOF : 0;
 }
 
 int
-al_csv_put_field(FILE *out, const char *s)
+al_csv_put_field(FILE *out, const char *s, char delimiter)
 {
-	if (strpbrk(s, ",\"\r\n") == NULL)
-		return fputs(s, out) < 0 ? EOF : 0;
-	if (putc('"', out) == EOF)
-		return EOF;
-	for (; *s; s++) {
-		if (*s == '"' && putc('"', out) == EOF)
-			return EOF;
-		if (putc(*s, out) == EOF)
-			return EOF;
-	}
-	return putc('"', out) == EOF ? EOF : 0;
+	return put_quoted(out, s, strlen(s), delimiter ? delimiter : ',', 0);
+}
+
+int
+al_csv_put_text(FILE *out, const char *s, size_t len, al_report_options *opt)
+{
+	int guard = len > 0 && !opt->raw_text && strchr("=+-@\t\r", s[0]);
+
+	if (guard)
+		opt->guarded++;
+	return put_quoted(out, s, len, delim_of(opt), guard);
 }
 
 static void
-put_number(FILE *out, int defined, double v, int decimals)
+text(FILE *out, const char *s, al_report_options *opt)
+{
+	putc(delim_of(opt), out);
+	al_csv_put_text(out, s, strlen(s), opt);
+}
+
+static void
+number(FILE *out, int defined, double v, int decimals,
+       const al_report_options *opt)
 {
 	char buf[64];
 
-	putc(',', out);
+	putc(delim_of(opt), out);
 	if (!defined)
 		return;
-	al_format_number(v, decimals, buf, sizeof buf);
+	al_format_number(v, decimals, opt->decimal_comma, buf, sizeof buf);
 	fputs(buf, out);
 }
 
-al_status
-al_report_write(FILE *out, const al_assay *run, const al_report_options *opt)
+/* A header line from comma-separated names, in the delimiter asked for. */
+static void
+header(FILE *out, const char *names, const al_report_options *opt)
 {
-	int dec = opt ? opt->decimals : -1;
-	size_t n = al_assay_group_count(run);
+	if (opt->bom)
+		fputs("\xEF\xBB\xBF", out);
+	for (; *names; names++)
+		putc(*names == ',' ? delim_of(opt) : *names, out);
+	putc('\n', out);
+}
 
-	fputs("product,lot,sample,acid,unit,n,mean,sd,rsd_pct,ci95_low,"
-	      "ci95_high,spec_min,spec_max,status,flags\n",
-	      out);
+al_status
+al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
+{
+	size_t n = al_assay_group_count(run);
+	int dec = opt->decimals;
+	char d = delim_of(opt);
+
+	header(out,
+	       "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,ci95_low,"
+	       "ci95_high,spec_min,spec_max,status,flags",
+	       opt);
 	for (size_t i = 0; i < n; i++) {
 		const al_group_result *r = al_assay_result(run, i);
 		const al_spec *sp = r->spec;
 		char flags[512];
 
-		al_csv_put_field(out, r->product);
-		putc(',', out);
-		al_csv_put_field(out, r->lot);
-		putc(',', out);
-		al_csv_put_field(out, r->sample);
-		putc(',', out);
-		al_csv_put_field(out, r->acid->name);
-		putc(',', out);
-		al_csv_put_field(out, al_unit_name(r->unit));
-		fprintf(out, ",%zu", r->stats.n);
-		put_number(out, r->stats.n > 0, r->stats.mean, dec);
-		put_number(out, r->stats.has_sd, r->stats.sd, dec);
-		put_number(out, r->stats.has_rsd, r->stats.rsd_pct, dec);
-		put_number(out, r->stats.has_sd, r->stats.ci_low, dec);
-		put_number(out, r->stats.has_sd, r->stats.ci_high, dec);
-		put_number(out, sp && sp->has_min, sp ? sp->min : 0, dec);
-		put_number(out, sp && sp->has_max, sp ? sp->max : 0, dec);
-		putc(',', out);
-		fputs(al_verdict_name(r->verdict), out);
-		putc(',', out);
+		al_csv_put_text(out, r->product, strlen(r->product), opt);
+		text(out, r->lot, opt);
+		text(out, r->sample, opt);
+		putc(d, out);
+		al_csv_put_field(out, r->acid->name, d);
+		putc(d, out);
+		al_csv_put_field(out, al_unit_name(r->unit), d);
+		fprintf(out, "%c%zu", d, r->stats.n);
+		number(out, r->stats.n > 0, r->stats.mean, dec, opt);
+		number(out, r->stats.has_sd, r->stats.sd, dec, opt);
+		number(out, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
+		number(out, r->stats.has_sd, r->stats.ci_low, dec, opt);
+		number(out, r->stats.has_sd, r->stats.ci_high, dec, opt);
+		number(out, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
+		number(out, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
+		fprintf(out, "%c%s%c", d, al_verdict_name(r->verdict), d);
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
-		al_csv_put_field(out, flags);
+		al_csv_put_field(out, flags, d);
 		putc('\n', out);
 	}
 	return ferror(out) ? AL_EIO : AL_OK;
 }
 
 al_status
-al_replicates_header(FILE *out)
+al_replicates_header(FILE *out, al_report_options *opt)
 {
-	fputs("file,line,product,lot,sample,replicate,meq,value,unit,flags\n",
-	      out);
+	header(out, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
+	       opt);
 	return ferror(out) ? AL_EIO : AL_OK;
 }
 
 al_status
-al_replicates_row(FILE *out, const al_replicate *rep,
-		  const al_report_options *opt)
+al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 {
-	int dec = opt ? opt->decimals : -1;
-	char flags[256];
+	char flags[256], d = delim_of(opt);
 
-	al_csv_put_field(out, rep->file);
-	fprintf(out, ",%lu,", rep->line);
-	al_csv_put_field(out, rep->product);
-	putc(',', out);
-	al_csv_put_field(out, rep->lot);
-	putc(',', out);
-	al_csv_put_field(out, rep->sample);
-	putc(',', out);
-	al_csv_put_field(out, rep->replicate);
+	al_csv_put_text(out, rep->file, strlen(rep->file), opt);
+	fprintf(out, "%c%lu", d, rep->line);
+	text(out, rep->product, opt);
+	text(out, rep->lot, opt);
+	text(out, rep->sample, opt);
+	text(out, rep->replicate, opt);
 	/* meq keeps full digits: it is the raw amount titrated */
-	put_number(out, 1, rep->meq, -1);
-	put_number(out, 1, rep->value, dec);
-	putc(',', out);
-	fputs(al_unit_name(rep->unit), out);
-	putc(',', out);
+	number(out, 1, rep->meq, -1, opt);
+	number(out, 1, rep->value, opt->decimals, opt);
+	fprintf(out, "%c%s%c", d, al_unit_name(rep->unit), d);
 	al_flags_format(rep->flags, rep->endpoint_ph_needed, flags,
 			sizeof flags);
-	al_csv_put_field(out, flags);
+	al_csv_put_field(out, flags, d);
+	putc('\n', out);
+	return ferror(out) ? AL_EIO : AL_OK;
+}
+
+al_status
+al_rejects_header(FILE *out, al_report_options *opt)
+{
+	header(out, "file,line,reason,record", opt);
+	return ferror(out) ? AL_EIO : AL_OK;
+}
+
+al_status
+al_rejects_row(FILE *out, const char *file, unsigned long line,
+	       const char *reason, const char *raw, size_t raw_len,
+	       al_report_options *opt)
+{
+	char d = delim_of(opt);
+
+	al_csv_put_text(out, file, strlen(file), opt);
+	fprintf(out, "%c%lu%c", d, line, d);
+	al_csv_put_field(out, reason, d);
+	putc(d, out);
+	/* the record as read, in one field; guarded like any text copied
+	 * from the input unless raw_text */
+	al_csv_put_text(out, raw, raw_len, opt);
 	putc('\n', out);
 	return ferror(out) ? AL_EIO : AL_OK;
 }

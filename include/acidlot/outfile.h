@@ -16,7 +16,11 @@ typedef struct al_outfile al_outfile;
 al_outfile *al_outfile_open(const char *path, al_status *status);
 FILE *al_outfile_stream(al_outfile *f);
 const char *al_outfile_path(const al_outfile *f);
-/* Flushes, checks every write, closes and renames; AL_EIO on any failure,
+/* Flushes, checks every write and closes, without renaming yet, so that
+ * several outputs can all be checked before any appears. AL_EIO on a
+ * failure (the caller then aborts). */
+al_status al_outfile_prepare(al_outfile *f);
+/* Flushes, checks every write, closes (unless prepared) and renames; AL_EIO on any failure,
  * in which case the temporary file is removed and the target untouched.
  * Frees f in every case. */
 al_status al_outfile_commit(al_outfile *f);

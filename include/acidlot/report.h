@@ -1,4 +1,4 @@
-/* acidlot: writing the QC report and the replicate table as CSV.
+/* acidlot: writing the QC report, the replicate table and rejected rows.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #ifndef ACIDLOT_REPORT_H
 #define ACIDLOT_REPORT_H
@@ -9,17 +9,31 @@
 #include "acidlot/assay.h"
 
 typedef struct al_report_options {
-	int decimals; /* fixed decimals when >= 0; -1: 10 significant digits */
+	int decimals;      /* fixed decimals when >= 0; -1: 10 significant
+			      digits */
+	char delimiter;    /* ',' (default when 0) or ';' */
+	int decimal_comma; /* write numbers with ',' (then delimiter ';') */
+	int bom;           /* start each file with a UTF-8 byte-order mark */
+	int raw_text;      /* do not guard text against formula injection */
+	unsigned long guarded; /* out: text cells that were guarded */
 } al_report_options;
 
-/* Formats a number with '.' as decimal point whatever the locale:
- * `decimals` fixed places when >= 0, else up to 10 significant digits
- * (%.10g, trailing zeros dropped). Writes at most cap bytes. */
-void al_format_number(double v, int decimals, char *buf, size_t cap);
+/* Formats a number with '.' (or ',' when decimal_comma) as decimal point,
+ * whatever the locale: `decimals` fixed places when >= 0, else up to 10
+ * significant digits (%.10g, trailing zeros dropped). */
+void al_format_number(double v, int decimals, int decimal_comma, char *buf,
+		      size_t cap);
 
-/* Writes one CSV field, quoted as RFC 4180 asks when it holds a comma,
- * a quote, CR or LF. Returns 0, or EOF on a write error. */
-int al_csv_put_field(FILE *out, const char *s);
+/* Writes one CSV field, quoted as RFC 4180 asks when it holds the
+ * delimiter, a quote, CR or LF. Returns 0, or EOF on a write error. */
+int al_csv_put_field(FILE *out, const char *s, char delimiter);
+
+/* Writes a text cell copied from the input. Unless opt->raw_text, a cell
+ * that starts with '=', '+', '-', '@', tab or CR gets a leading single
+ * quote so that a spreadsheet shows it as text instead of running it as a
+ * formula (OWASP, CSV injection); opt->guarded counts them. */
+int al_csv_put_text(FILE *out, const char *s, size_t len,
+		    al_report_options *opt);
 
 /* The report: a header line and one line per result in order of first
  * appearance. Columns: product, lot, sample, acid, unit, n, mean, sd,
@@ -27,13 +41,20 @@ int al_csv_put_field(FILE *out, const char *s);
  * Undefined numbers (sd for n = 1) are empty cells. AL_EIO when writing
  * fails. */
 al_status al_report_write(FILE *out, const al_assay *run,
-			  const al_report_options *opt);
+			  al_report_options *opt);
 
 /* The replicate table: header, then al_replicates_row per titration.
  * Columns: file, line, product, lot, sample, replicate, meq, value, unit,
  * flags. */
-al_status al_replicates_header(FILE *out);
+al_status al_replicates_header(FILE *out, al_report_options *opt);
 al_status al_replicates_row(FILE *out, const al_replicate *rep,
-			    const al_report_options *opt);
+			    al_report_options *opt);
+
+/* Rejected rows: header, then one row each: file, line, reason, record
+ * (the record's bytes as read, in one field). */
+al_status al_rejects_header(FILE *out, al_report_options *opt);
+al_status al_rejects_row(FILE *out, const char *file, unsigned long line,
+			 const char *reason, const char *raw, size_t raw_len,
+			 al_report_options *opt);
 
 #endif

@@ -75,16 +75,16 @@ cmd_acids(int argc, char **argv)
 
 		pka_text(a, pka, sizeof pka);
 		if (csv) {
-			al_csv_put_field(stdout, a->name);
+			al_csv_put_field(stdout, a->name, ',');
 			putchar(',');
-			al_csv_put_field(stdout, a->formula);
-			al_format_number(a->molar_mass, 3, num, sizeof num);
+			al_csv_put_field(stdout, a->formula, ',');
+			al_format_number(a->molar_mass, 3, 0, num, sizeof num);
 			printf(",%s,%d,", num, a->protons);
-			al_format_number(a->g_per_meq, 6, num, sizeof num);
+			al_format_number(a->g_per_meq, 6, 0, num, sizeof num);
 			printf("%s,%s,", num, pka);
-			al_csv_put_field(stdout, a->notes);
+			al_csv_put_field(stdout, a->notes, ',');
 			putchar(',');
-			al_csv_put_field(stdout, a->source);
+			al_csv_put_field(stdout, a->source, ',');
 			putchar('\n');
 		} else
 			printf("%-19s %-12s %9.3f %3d %8.5f  %-16s %s\n",

@@ -4,6 +4,7 @@
 #include <getopt.h>
 #include <math.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "cli.h"
 
@@ -18,6 +19,10 @@ usage(FILE *out)
 	      "  -s, --spec FILE         specification limits per product (CSV)\n"
 	      "  -o, --output FILE       QC report (CSV); default standard output\n"
 	      "  -r, --replicates FILE   one row per titration used (CSV)\n"
+	      "      --rejects FILE      keep going past invalid rows: write each\n"
+	      "                          to FILE with its line and reason, and\n"
+	      "                          judge the rest (default: any invalid row\n"
+	      "                          stops the run, no report)\n"
 	      "      --acid NAME         acid to express results as when neither\n"
 	      "                          the specification nor the row names one\n"
 	      "                          (default citric; see '" PROG " acids')\n"
@@ -32,8 +37,28 @@ usage(FILE *out)
 	      "      --density-g-ml D    sample density for rows without\n"
 	      "                          density_g_ml\n"
 	      "      --endpoint-ph PH    endpoint pH for rows without endpoint_ph\n"
+	      "\n"
+	      "Reading:\n"
+	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
+	      "                          from the header; ambiguous is an error)\n"
+	      "      --decimal-comma     numbers are written 12,5 (needs a\n"
+	      "                          delimiter other than ',')\n"
+	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
+	      "                          column NAME (repeatable), e.g.\n"
+	      "                          --column titrant_ml=\"Vol (mL)\"\n"
+	      "      --columns FILE      such pairs from a CSV with the columns\n"
+	      "                          name,header\n"
+	      "\n"
+	      "Writing:\n"
 	      "      --decimals N        fixed decimals in the report (default:\n"
 	      "                          10 significant digits)\n"
+	      "      --sheet-style S     plain (default: UTF-8, ',', '.') or eu\n"
+	      "                          (byte-order mark, ';', decimal comma)\n"
+	      "      --bom               start each output with a UTF-8 BOM\n"
+	      "      --raw-text          copy text cells exactly; by default a\n"
+	      "                          cell starting with = + - @ tab or CR\n"
+	      "                          gets a leading ' so a spreadsheet does\n"
+	      "                          not run it as a formula\n"
 	      "  -h, --help              this help\n"
 	      "\n"
 	      "Exit status: 0 every result pass or no-spec; 1 at least one\n"
@@ -41,28 +66,43 @@ usage(FILE *out)
 	      out);
 }
 
-struct rep_sink {
+struct sink {
 	FILE *out;
-	al_report_options ropt;
+	al_report_options *ropt;
+	unsigned long count;
 };
 
 static al_status
 write_replicate(void *ud, const al_replicate *rep)
 {
-	struct rep_sink *sink = ud;
+	struct sink *sink = ud;
 
-	return al_replicates_row(sink->out, rep, &sink->ropt);
+	return al_replicates_row(sink->out, rep, sink->ropt);
+}
+
+static al_status
+write_reject(void *ud, const char *file, unsigned long line,
+	     const char *reason, const char *raw, size_t raw_len)
+{
+	struct sink *sink = ud;
+
+	sink->count++;
+	return al_rejects_row(sink->out, file, line, reason, raw, raw_len,
+			      sink->ropt);
 }
 
 enum {
 	OPT_ACID = 256, OPT_UNIT, OPT_BLANK, OPT_TITRANT, OPT_DENSITY,
-	OPT_ENDPOINT, OPT_DECIMALS
+	OPT_ENDPOINT, OPT_DECIMALS, OPT_REJECTS, OPT_DELIMITER,
+	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
+	OPT_RAW_TEXT
 };
 
 static const struct option options[] = {
 	{"spec", required_argument, NULL, 's'},
 	{"output", required_argument, NULL, 'o'},
 	{"replicates", required_argument, NULL, 'r'},
+	{"rejects", required_argument, NULL, OPT_REJECTS},
 	{"acid", required_argument, NULL, OPT_ACID},
 	{"unit", required_argument, NULL, OPT_UNIT},
 	{"blank-ml", required_argument, NULL, OPT_BLANK},
@@ -70,21 +110,74 @@ static const struct option options[] = {
 	{"density-g-ml", required_argument, NULL, OPT_DENSITY},
 	{"endpoint-ph", required_argument, NULL, OPT_ENDPOINT},
 	{"decimals", required_argument, NULL, OPT_DECIMALS},
+	{"delimiter", required_argument, NULL, OPT_DELIMITER},
+	{"decimal-comma", no_argument, NULL, OPT_DECIMAL_COMMA},
+	{"column", required_argument, NULL, OPT_COLUMN},
+	{"columns", required_argument, NULL, OPT_COLUMNS},
+	{"sheet-style", required_argument, NULL, OPT_SHEET},
+	{"bom", no_argument, NULL, OPT_BOM},
+	{"raw-text", no_argument, NULL, OPT_RAW_TEXT},
 	{"help", no_argument, NULL, 'h'},
 	{NULL, 0, NULL, 0},
 };
 
+/* The column names a --column mapping may name. */
+static const char *const column_names[] = {
+	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
+	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
+	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
+	"endpoint_ph"};
+
+#define MAX_COLUMN_OPTS 32
+
 struct args {
-	const char *spec, *output, *replicates, *acid, *unit;
+	const char *spec, *output, *replicates, *rejects, *acid, *unit;
+	const char *columns_file;
+	al_column_alias column_opts[MAX_COLUMN_OPTS];
+	size_t n_column_opts;
 	al_assay_options aopt;
 	al_report_options ropt;
 };
+
+static int
+known_column(const char *name)
+{
+	for (size_t i = 0; i < sizeof column_names / sizeof column_names[0]; i++)
+		if (strcmp(column_names[i], name) == 0)
+			return 1;
+	return 0;
+}
+
+/* An option's number; bounds checked by the caller. */
+static int
+opt_number(const char *option, double *v)
+{
+	return cli_number("assay", option, optarg, v);
+}
+
+static int
+parse_delimiter(const char *text, char *out)
+{
+	if (strcmp(text, ",") == 0 || strcmp(text, "comma") == 0)
+		*out = ',';
+	else if (strcmp(text, ";") == 0 || strcmp(text, "semicolon") == 0)
+		*out = ';';
+	else if (strcmp(text, "tab") == 0 || strcmp(text, "\t") == 0 ||
+		 strcmp(text, "\\t") == 0)
+		*out = '\t';
+	else if (strcmp(text, "auto") == 0)
+		*out = AL_CSV_AUTO;
+	else
+		return -1;
+	return 0;
+}
 
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
 	int c;
 	double v;
+	char *eq;
 
 	optind = 1;
 	opterr = 0;
@@ -99,6 +192,9 @@ parse_args(int argc, char **argv, struct args *a)
 		case 'r':
 			a->replicates = optarg;
 			break;
+		case OPT_REJECTS:
+			a->rejects = optarg;
+			break;
 		case OPT_ACID:
 			a->acid = optarg;
 			break;
@@ -106,51 +202,51 @@ parse_args(int argc, char **argv, struct args *a)
 			a->unit = optarg;
 			break;
 		case OPT_BLANK:
-			if (cli_number("assay", "--blank-ml", optarg, &v))
+			if (opt_number("--blank-ml", &v))
 				return -1;
 			if (v < 0)
-				return cli_usage_error("assay",
-						       "--blank-ml must not be "
-						       "negative"),
+				return cli_usage_error(
+					       "assay",
+					       "--blank-ml must not be negative"),
 				       -1;
 			a->aopt.has_blank = 1;
 			a->aopt.blank_ml = v;
 			break;
 		case OPT_TITRANT:
-			if (cli_number("assay", "--titrant-mol-l", optarg, &v))
+			if (opt_number("--titrant-mol-l", &v))
 				return -1;
 			if (!(v > 0))
-				return cli_usage_error("assay",
-						       "--titrant-mol-l must be "
-						       "above 0"),
+				return cli_usage_error(
+					       "assay",
+					       "--titrant-mol-l must be above 0"),
 				       -1;
 			a->aopt.has_titrant = 1;
 			a->aopt.titrant_mol_l = v;
 			break;
 		case OPT_DENSITY:
-			if (cli_number("assay", "--density-g-ml", optarg, &v))
+			if (opt_number("--density-g-ml", &v))
 				return -1;
 			if (!(v > 0))
-				return cli_usage_error("assay",
-						       "--density-g-ml must be "
-						       "above 0"),
+				return cli_usage_error(
+					       "assay",
+					       "--density-g-ml must be above 0"),
 				       -1;
 			a->aopt.has_density = 1;
 			a->aopt.density_g_ml = v;
 			break;
 		case OPT_ENDPOINT:
-			if (cli_number("assay", "--endpoint-ph", optarg, &v))
+			if (opt_number("--endpoint-ph", &v))
 				return -1;
 			if (!(v >= 0 && v <= 14))
-				return cli_usage_error("assay",
-						       "--endpoint-ph must be "
-						       "from 0 to 14"),
+				return cli_usage_error(
+					       "assay",
+					       "--endpoint-ph must be from 0 to 14"),
 				       -1;
 			a->aopt.has_endpoint = 1;
 			a->aopt.endpoint_ph = v;
 			break;
 		case OPT_DECIMALS:
-			if (cli_number("assay", "--decimals", optarg, &v))
+			if (opt_number("--decimals", &v))
 				return -1;
 			if (!(v >= 0 && v <= 15) || v != floor(v))
 				return cli_usage_error("assay",
@@ -158,6 +254,66 @@ parse_args(int argc, char **argv, struct args *a)
 						       "number from 0 to 15"),
 				       -1;
 			a->ropt.decimals = (int)v;
+			break;
+		case OPT_DELIMITER:
+			if (parse_delimiter(optarg, &a->aopt.csv.delimiter))
+				return cli_usage_error(
+					       "assay",
+					       "--delimiter: '%s' is not ',', ';', "
+					       "tab or auto",
+					       optarg),
+				       -1;
+			break;
+		case OPT_DECIMAL_COMMA:
+			a->aopt.csv.decimal_point = ',';
+			break;
+		case OPT_COLUMN:
+			eq = strchr(optarg, '=');
+			if (eq == NULL || eq == optarg || eq[1] == '\0')
+				return cli_usage_error(
+					       "assay",
+					       "--column takes NAME=HEADER, e.g. "
+					       "--column titrant_ml=\"Vol (mL)\""),
+				       -1;
+			*eq = '\0';
+			if (!known_column(optarg))
+				return cli_usage_error(
+					       "assay",
+					       "--column: '%s' is not one of our "
+					       "columns (see the README)",
+					       optarg),
+				       -1;
+			if (a->n_column_opts == MAX_COLUMN_OPTS)
+				return cli_usage_error("assay",
+						       "too many --column options"),
+				       -1;
+			a->column_opts[a->n_column_opts].name = optarg;
+			a->column_opts[a->n_column_opts].header = eq + 1;
+			a->n_column_opts++;
+			break;
+		case OPT_COLUMNS:
+			a->columns_file = optarg;
+			break;
+		case OPT_SHEET:
+			if (strcmp(optarg, "eu") == 0) {
+				a->ropt.bom = 1;
+				a->ropt.delimiter = ';';
+				a->ropt.decimal_comma = 1;
+			} else if (strcmp(optarg, "plain") == 0) {
+				a->ropt.bom = 0;
+				a->ropt.delimiter = ',';
+				a->ropt.decimal_comma = 0;
+			} else
+				return cli_usage_error(
+					       "assay",
+					       "--sheet-style takes plain or eu"),
+				       -1;
+			break;
+		case OPT_BOM:
+			a->ropt.bom = 1;
+			break;
+		case OPT_RAW_TEXT:
+			a->ropt.raw_text = 1;
 			break;
 		case 'h':
 			usage(stdout);
@@ -174,22 +330,74 @@ parse_args(int argc, char **argv, struct args *a)
 	}
 	if (optind >= argc)
 		return cli_usage_error("assay", "no titration file given"), -1;
+	if (a->aopt.csv.decimal_point == ',' &&
+	    (a->aopt.csv.delimiter == 0 || a->aopt.csv.delimiter == ','))
+		return cli_usage_error("assay",
+				       "--decimal-comma needs a delimiter other "
+				       "than ',': add --delimiter ';' (or tab, "
+				       "or auto)"),
+		       -1;
 	return 0;
 }
 
+/* Refuses outputs that would overwrite an input or each other. */
+static int
+outputs_safe(const struct args *a, int argc, char **argv)
+{
+	const char *outs[3] = {a->output, a->replicates, a->rejects};
+	const char *ins[3] = {a->spec, a->columns_file, NULL};
+	struct stat so, si;
+
+	for (int i = 0; i < 3; i++) {
+		if (outs[i] == NULL || strcmp(outs[i], "-") == 0)
+			continue;
+		for (int j = i + 1; j < 3; j++)
+			if (outs[j] && strcmp(outs[i], outs[j]) == 0) {
+				cli_usage_error("assay",
+						"'%s' is named for two outputs",
+						outs[i]);
+				return 0;
+			}
+		if (stat(outs[i], &so) != 0 || !S_ISREG(so.st_mode))
+			continue;
+		for (int k = optind; k < argc + 2; k++) {
+			const char *in = k < argc ? argv[k] : ins[k - argc];
+
+			if (in == NULL || strcmp(in, "-") == 0 ||
+			    stat(in, &si) != 0)
+				continue;
+			if (si.st_dev == so.st_dev && si.st_ino == so.st_ino) {
+				cli_usage_error("assay",
+						"refusing to write '%s' over the "
+						"input '%s'",
+						outs[i], in);
+				return 0;
+			}
+		}
+	}
+	return 1;
+}
+
 static void
-summary(const al_assay *run)
+summary(const al_assay *run, const struct args *a, unsigned long rejected)
 {
 	al_assay_counts c = al_assay_get_counts(run);
 
 	fprintf(stderr,
 		PROG ": %lu result%s: %lu pass, %lu fail, %lu retest, %lu "
-		     "no-spec; %lu rows read = %lu used + %lu rejected\n",
+		     "no-spec; %lu rows read = %lu used + %lu rejected",
 		c.groups, c.groups == 1 ? "" : "s",
 		c.by_verdict[AL_VERDICT_PASS], c.by_verdict[AL_VERDICT_FAIL],
 		c.by_verdict[AL_VERDICT_RETEST],
 		c.by_verdict[AL_VERDICT_NO_SPEC], c.rows_read, c.rows_used,
 		c.rows_bad);
+	if (a->ropt.guarded)
+		fprintf(stderr, "; %lu text cell%s guarded against formulas",
+			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
+	fputc('\n', stderr);
+	if (rejected)
+		fprintf(stderr, PROG ": %lu row%s rejected: see %s\n", rejected,
+			rejected == 1 ? "" : "s", a->rejects);
 }
 
 static void
@@ -213,6 +421,125 @@ endpoint_warnings(const al_assay *run)
 	}
 }
 
+/* Opens an output and writes its header; NULL after a message. */
+static al_outfile *
+open_output(const char *path, al_status (*header)(FILE *, al_report_options *),
+	    al_report_options *ropt)
+{
+	al_status st;
+	al_outfile *f = al_outfile_open(path, &st);
+
+	if (f == NULL) {
+		cli_error("%s: %s", path,
+			  st == AL_EIO ? strerror(errno) : al_strerror(st));
+		return NULL;
+	}
+	if (header && header(al_outfile_stream(f), ropt) != AL_OK) {
+		cli_error("%s: write error", path);
+		al_outfile_abort(f);
+		return NULL;
+	}
+	return f;
+}
+
+static al_spec_table *
+load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
+{
+	al_status st;
+	al_spec_table *specs;
+	FILE *in = fopen(a->spec, "rb");
+
+	if (in == NULL) {
+		cli_error("%s: %s", a->spec, strerror(errno));
+		return NULL;
+	}
+	specs = al_spec_table_read(cat, &a->aopt.csv, in, a->spec, &st, d);
+	fclose(in);
+	cli_print_diags(d);
+	if (specs == NULL) {
+		if (st == AL_ENOMEM || st == AL_EIO)
+			cli_error("%s: %s", a->spec, al_strerror(st));
+		else
+			cli_error("%lu error%s in the specification file; no "
+				  "report written",
+				  d->errors, d->errors == 1 ? "" : "s");
+	}
+	return specs;
+}
+
+/* Joins the --columns file and the --column options (which win, being
+ * later in the list). */
+static int
+load_columns(struct args *a, al_column_alias **all, size_t *n)
+{
+	al_column_alias *file_items = NULL;
+	size_t n_file = 0;
+
+	*all = NULL;
+	*n = 0;
+	if (a->columns_file) {
+		al_diags d = {0};
+		FILE *in = fopen(a->columns_file, "rb");
+		al_status st;
+
+		if (in == NULL) {
+			cli_error("%s: %s", a->columns_file, strerror(errno));
+			return -1;
+		}
+		st = al_column_aliases_read(in, a->columns_file, &file_items,
+					    &n_file, &d);
+		fclose(in);
+		cli_print_diags(&d);
+		al_diags_clear(&d);
+		if (st != AL_OK) {
+			cli_error("%s: %s", a->columns_file, al_strerror(st));
+			return -1;
+		}
+		for (size_t i = 0; i < n_file; i++)
+			if (!known_column(file_items[i].name)) {
+				cli_error("%s: '%s' is not one of our columns",
+					  a->columns_file, file_items[i].name);
+				al_column_aliases_free(file_items, n_file);
+				return -1;
+			}
+	}
+	*all = al_calloc(n_file + a->n_column_opts + 1, sizeof **all);
+	if (*all == NULL) {
+		al_column_aliases_free(file_items, n_file);
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	/* the option pairs first: the first match wins in al_header_map */
+	for (size_t i = 0; i < a->n_column_opts; i++)
+		(*all)[(*n)++] = a->column_opts[i];
+	for (size_t i = 0; i < n_file; i++) {
+		(*all)[*n].name = al_strdup(file_items[i].name);
+		(*all)[*n].header = al_strdup(file_items[i].header);
+		if ((*all)[*n].name == NULL || (*all)[*n].header == NULL) {
+			al_free((char *)(*all)[*n].name);
+			al_free((char *)(*all)[*n].header);
+			break;
+		}
+		(*n)++;
+	}
+	al_column_aliases_free(file_items, n_file);
+	if (*n != a->n_column_opts + n_file) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	return 0;
+}
+
+static void
+free_columns(const struct args *a, al_column_alias *all, size_t n)
+{
+	for (size_t i = a->n_column_opts; i < n; i++) {
+		al_free((char *)all[i].name);
+		al_free((char *)all[i].header);
+	}
+	al_free(all);
+}
+
 int
 cmd_assay(int argc, char **argv)
 {
@@ -220,11 +547,14 @@ cmd_assay(int argc, char **argv)
 	al_catalogue *cat = NULL;
 	al_spec_table *specs = NULL;
 	al_assay *run = NULL;
-	al_outfile *rep_out = NULL, *report = NULL;
-	struct rep_sink sink;
+	al_outfile *rep_out = NULL, *rej_out = NULL, *report = NULL;
+	al_column_alias *aliases = NULL;
+	size_t n_aliases = 0;
+	struct sink reps, rejs;
 	al_diags spec_diags = {0};
 	al_status st;
 	int rc = EXIT_TROUBLE, bad = 0;
+	const char *out_name;
 
 	memset(&a, 0, sizeof a);
 	a.ropt.decimals = -1;
@@ -234,6 +564,9 @@ cmd_assay(int argc, char **argv)
 	case -1:
 		return EXIT_TROUBLE;
 	}
+	if (!outputs_safe(&a, argc, argv))
+		return EXIT_TROUBLE;
+	out_name = a.output ? a.output : "standard output";
 	cat = cli_catalogue();
 	if (cat == NULL)
 		return EXIT_TROUBLE;
@@ -255,48 +588,37 @@ cmd_assay(int argc, char **argv)
 		}
 		a.aopt.has_unit = 1;
 	}
+	if (load_columns(&a, &aliases, &n_aliases) != 0)
+		goto out;
+	a.aopt.aliases = aliases;
+	a.aopt.n_aliases = n_aliases;
 	if (a.spec) {
-		FILE *in = fopen(a.spec, "rb");
-
-		if (in == NULL) {
-			cli_error("%s: %s", a.spec, strerror(errno));
+		specs = load_spec(&a, cat, &spec_diags);
+		if (specs == NULL)
 			goto out;
-		}
-		specs = al_spec_table_read(cat, &a.aopt.csv, in, a.spec, &st,
-					   &spec_diags);
-		fclose(in);
-		cli_print_diags(&spec_diags);
-		if (specs == NULL) {
-			if (st == AL_ENOMEM || st == AL_EIO)
-				cli_error("%s: %s", a.spec, al_strerror(st));
-			else
-				cli_error("%lu error%s in the specification "
-					  "file; no report written",
-					  spec_diags.errors,
-					  spec_diags.errors == 1 ? "" : "s");
-			goto out;
-		}
 		a.aopt.specs = specs;
+	}
+	reps.ropt = rejs.ropt = &a.ropt;
+	reps.count = rejs.count = 0;
+	if (a.replicates) {
+		rep_out = open_output(a.replicates, al_replicates_header, &a.ropt);
+		if (rep_out == NULL)
+			goto out;
+		reps.out = al_outfile_stream(rep_out);
+	}
+	if (a.rejects) {
+		rej_out = open_output(a.rejects, al_rejects_header, &a.ropt);
+		if (rej_out == NULL)
+			goto out;
+		rejs.out = al_outfile_stream(rej_out);
+		a.aopt.on_reject = write_reject;
+		a.aopt.reject_ud = &rejs;
+		a.aopt.csv.recover = 1;
 	}
 	run = al_assay_new(&a.aopt, &st);
 	if (run == NULL) {
 		cli_error("%s", al_strerror(st));
 		goto out;
-	}
-	sink.ropt = a.ropt;
-	if (a.replicates) {
-		rep_out = al_outfile_open(a.replicates, &st);
-		if (rep_out == NULL) {
-			cli_error("%s: %s", a.replicates,
-				  st == AL_EIO ? strerror(errno)
-					       : al_strerror(st));
-			goto out;
-		}
-		sink.out = al_outfile_stream(rep_out);
-		if (al_replicates_header(sink.out) != AL_OK) {
-			cli_error("%s: write error", a.replicates);
-			goto out;
-		}
 	}
 	for (int i = optind; i < argc; i++) {
 		const char *name = argv[i];
@@ -309,7 +631,7 @@ cmd_assay(int argc, char **argv)
 			continue;
 		}
 		st = al_assay_read(run, in, is_stdin ? "<stdin>" : name,
-				   rep_out ? write_replicate : NULL, &sink);
+				   rep_out ? write_replicate : NULL, &reps);
 		if (!is_stdin)
 			fclose(in);
 		if (st == AL_EIO) {
@@ -325,12 +647,15 @@ cmd_assay(int argc, char **argv)
 	cli_print_diags(al_assay_diags(run));
 	if (bad || al_assay_diags(run)->errors > 0) {
 		al_assay_counts c = al_assay_get_counts(run);
+		unsigned long e = al_assay_diags(run)->errors;
 
-		cli_error("%lu error%s in the input (%lu of %lu rows); no "
-			  "report written",
-			  al_assay_diags(run)->errors,
-			  al_assay_diags(run)->errors == 1 ? "" : "s",
-			  c.rows_bad, c.rows_read);
+		if (c.rows_read > 0)
+			cli_error("%lu error%s in the input (%lu of %lu rows); "
+				  "no report written",
+				  e, e == 1 ? "" : "s", c.rows_bad, c.rows_read);
+		else
+			cli_error("%lu error%s in the input; no report written",
+				  e, e == 1 ? "" : "s");
 		goto out;
 	}
 	st = al_assay_finish(run);
@@ -338,33 +663,42 @@ cmd_assay(int argc, char **argv)
 		cli_error("%s", al_strerror(st));
 		goto out;
 	}
-	report = al_outfile_open(a.output ? a.output : "-", &st);
-	if (report == NULL) {
-		cli_error("%s: %s", a.output,
-			  st == AL_EIO ? strerror(errno) : al_strerror(st));
+	report = open_output(a.output ? a.output : "-", NULL, &a.ropt);
+	if (report == NULL)
 		goto out;
-	}
 	if (al_report_write(al_outfile_stream(report), run, &a.ropt) != AL_OK) {
-		cli_error("%s: write error", a.output ? a.output : "stdout");
+		cli_error("%s: write error", out_name);
 		goto out;
 	}
-	if (rep_out) {
-		st = al_outfile_commit(rep_out);
-		rep_out = NULL;
-		if (st != AL_OK) {
-			cli_error("%s: %s", a.replicates, strerror(errno));
-			goto out;
-		}
+	/* every output checked before any of them appears */
+	if (al_outfile_prepare(report) != AL_OK) {
+		cli_error("%s: %s", out_name, strerror(errno));
+		goto out;
+	}
+	if (rep_out && al_outfile_prepare(rep_out) != AL_OK) {
+		cli_error("%s: %s", a.replicates, strerror(errno));
+		goto out;
+	}
+	if (rej_out && al_outfile_prepare(rej_out) != AL_OK) {
+		cli_error("%s: %s", a.rejects, strerror(errno));
+		goto out;
 	}
 	st = al_outfile_commit(report);
 	report = NULL;
+	if (st == AL_OK && rep_out) {
+		st = al_outfile_commit(rep_out);
+		rep_out = NULL;
+	}
+	if (st == AL_OK && rej_out) {
+		st = al_outfile_commit(rej_out);
+		rej_out = NULL;
+	}
 	if (st != AL_OK) {
-		cli_error("%s: %s", a.output ? a.output : "stdout",
-			  strerror(errno));
+		cli_error("cannot put the outputs in place: %s", strerror(errno));
 		goto out;
 	}
 	endpoint_warnings(run);
-	summary(run);
+	summary(run, &a, rejs.count);
 	{
 		al_assay_counts c = al_assay_get_counts(run);
 
@@ -375,10 +709,12 @@ cmd_assay(int argc, char **argv)
 	}
 out:
 	al_outfile_abort(rep_out);
+	al_outfile_abort(rej_out);
 	al_outfile_abort(report);
 	al_assay_free(run);
 	al_spec_table_free(specs);
 	al_diags_clear(&spec_diags);
+	free_columns(&a, aliases, n_aliases);
 	al_catalogue_free(cat);
 	return rc;
 }

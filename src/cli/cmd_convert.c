@@ -161,7 +161,7 @@ cmd_convert(int argc, char **argv)
 					: "volume");
 		goto out;
 	}
-	al_format_number(out, (int)dec, num, sizeof num);
+	al_format_number(out, (int)dec, 0, num, sizeof num);
 	if (al_unit_is_meq(to_unit))
 		printf("%s %s\n", num, al_unit_name(to_unit));
 	else

@@ -1,6 +1,7 @@
 /* acidlot command line: dispatch to the sub-commands.
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <gsl/gsl_errno.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
@@ -28,8 +29,29 @@ usage(FILE *out)
 	      out);
 }
 
+static int dispatch(int argc, char **argv);
+
+/* Test hooks (DEVELOPERS.md): ACIDLOT_FAIL_ALLOC_AT=N makes the N-th
+ * allocation and every later one fail; ACIDLOT_COUNT_ALLOC=1 prints how
+ * many allocations the run made. */
 int
 main(int argc, char **argv)
+{
+	const char *fail_at = getenv("ACIDLOT_FAIL_ALLOC_AT");
+	int rc;
+
+	if (fail_at && *fail_at)
+		al_alloc_fail_at(strtoul(fail_at, NULL, 10));
+	else
+		al_alloc_fail_at(0);
+	rc = dispatch(argc, argv);
+	if (getenv("ACIDLOT_COUNT_ALLOC"))
+		fprintf(stderr, PROG ": %lu allocations\n", al_alloc_count());
+	return rc;
+}
+
+static int
+dispatch(int argc, char **argv)
 {
 	const char *cmd;
 
