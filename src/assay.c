@@ -627,6 +627,16 @@ row_values(al_assay *run, const al_csv_row *row)
 	sample = text[2];
 	replicate = text[3];
 	acid_name = text[4];
+	{
+		static const char *const names[5] = {"product", "lot", "sample",
+						     "replicate", "acid"};
+
+		for (int i = 0; i < 5; i++)
+			if (!al_utf8_valid(text[i], tl[i]))
+				ROW_ERR(run, line, names[i],
+					"is not valid UTF-8 text (save the file "
+					"as UTF-8)");
+	}
 
 	if (tl[2] == 0)
 		ROW_ERR(run, line, "sample", "is empty: every row needs a "
@@ -813,6 +823,7 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 {
 	char **files;
 	al_status st;
+	unsigned long rows_before = run->counts.rows_read;
 
 	files = al_realloc(run->files, (run->n_files + 1) * sizeof *files);
 	if (files == NULL)
@@ -836,6 +847,11 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 		st = run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
 	} else if (st == AL_OK && !run->header_ok)
 		st = AL_EINPUT;
+	else if (st == AL_OK && run->counts.rows_read == rows_before)
+		RUN_DIAG(run, AL_SEV_WARNING, 0, NULL,
+			 "no titration rows after the header");
+	if (st == AL_OK && run->diags.out_of_memory)
+		st = AL_ENOMEM;
 	return st;
 }
 

@@ -547,6 +547,13 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 			if (n >= 3 && memcmp(chunk, "\xEF\xBB\xBF", 3) == 0)
 				skip = 3;
 			first = 0;
+			if (n >= 2 && (memcmp(chunk, "\xFF\xFE", 2) == 0 ||
+				       memcmp(chunk, "\xFE\xFF", 2) == 0)) {
+				fail(&r, AL_ESYNTAX, 1,
+				     "the file is UTF-16 text: save or export "
+				     "it as UTF-8 CSV");
+				break;
+			}
 			if (opt->delimiter == AL_CSV_AUTO) {
 				char found[64];
 

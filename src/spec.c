@@ -87,6 +87,9 @@ spec_row(void *ud, const al_csv_row *row)
 	if (len == 0)
 		err(r, row->line, "product", "is empty: a product code is required",
 		    text, len);
+	else if (!al_utf8_valid(text, len))
+		err(r, row->line, "product",
+		    "is not valid UTF-8 text (save the file as UTF-8)", text, len);
 	else {
 		for (size_t i = 0; i < r->table->count; i++)
 			if (strlen(r->table->specs[i].product) == len &&

@@ -89,6 +89,49 @@ al_header_map(const al_csv_row *header, const char *const *names,
 	return st;
 }
 
+int
+al_utf8_valid(const char *str, size_t len)
+{
+	const unsigned char *s = (const unsigned char *)str;
+	size_t i = 0;
+
+	while (i < len) {
+		unsigned c = s[i];
+		size_t n;
+		unsigned cp, min;
+
+		if (c < 0x80) {
+			i++;
+			continue;
+		}
+		if (c >= 0xC2 && c <= 0xDF) {
+			n = 1;
+			cp = c & 0x1F;
+			min = 0x80;
+		} else if (c >= 0xE0 && c <= 0xEF) {
+			n = 2;
+			cp = c & 0x0F;
+			min = 0x800;
+		} else if (c >= 0xF0 && c <= 0xF4) {
+			n = 3;
+			cp = c & 0x07;
+			min = 0x10000;
+		} else
+			return 0;
+		if (i + n >= len) /* the continuation bytes run past the end */
+			return 0;
+		for (size_t k = 1; k <= n; k++) {
+			if ((s[i + k] & 0xC0) != 0x80)
+				return 0;
+			cp = (cp << 6) | (s[i + k] & 0x3F);
+		}
+		if (cp < min || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
+			return 0;
+		i += n + 1;
+	}
+	return 1;
+}
+
 const char *
 al_cell(const al_csv_row *row, int col, size_t *len)
 {

@@ -37,6 +37,10 @@ al_status al_column_aliases_read(FILE *in, const char *file,
 				 al_diags *diags);
 void al_column_aliases_free(al_column_alias *aliases, size_t n);
 
+/* 1 when s[0..len) is well-formed UTF-8 (RFC 3629: no overlong forms,
+ * no surrogates, nothing above U+10FFFF). */
+int al_utf8_valid(const char *s, size_t len);
+
 /* The text of cell `col` of a row, trimmed; "" when col < 0. */
 const char *al_cell(const al_csv_row *row, int col, size_t *len);
 

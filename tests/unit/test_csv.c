@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "acidlot/csvread.h"
+#include "acidlot/table.h"
 
 struct seen {
 	size_t rows;
@@ -149,13 +150,31 @@ long_field(void **state)
 	al_diags_clear(&d);
 }
 
+/* UTF-8 well-formedness by RFC 3629 s.3-4: overlong forms, surrogates
+ * and code points above U+10FFFF are ill-formed. */
+static void
+utf8(void **state)
+{
+	static const char *const good[] = {"abc", "\xE2\x82\xAC",
+					   "\xF0\x9D\x84\x9E", "S\xC3\xBC" "d", ""};
+	static const char *const bad[] = {"\xC0\xAF", "\xED\xA0\x80",
+					  "\xF4\x90\x80\x80", "\xE2\x82",
+					  "L\xF6" "sung", "\x80", "\xFF"};
+
+	(void)state;
+	for (size_t i = 0; i < sizeof good / sizeof good[0]; i++)
+		assert_true(al_utf8_valid(good[i], strlen(good[i])));
+	for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
+		assert_false(al_utf8_valid(bad[i], strlen(bad[i])));
+}
+
 int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
 		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
-		cmocka_unit_test(long_field),
+		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
