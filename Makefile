@@ -6,14 +6,17 @@
 #                   AddressSanitizer + UndefinedBehaviorSanitizer
 #   make valgrind   every test under valgrind (memcheck)
 #   make regen      rewrite the CLI cases' expected output (review the diff)
+#   make fuzz       every libFuzzer target for FUZZ_SECONDS (default 60) each
 
 BUILD      ?= build
 ASAN_BUILD ?= build-asan
+FUZZ_BUILD ?= build-fuzz
+FUZZ_SECONDS ?= 60
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
-.PHONY: all deps build demo check test asan valgrind regen clean
+.PHONY: all deps build demo check test asan valgrind regen fuzz clean
 
 all: build
 
@@ -62,5 +65,13 @@ valgrind: build
 regen: build
 	sh tests/cli/regen.sh $(BUILD)
 
+fuzz: deps
+	@for p in clang libclang-rt-14-dev; do \
+	  dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' \
+	    || { $(SUDO) apt-get update -qq; $(SUDO) apt-get install -y -qq $$p; }; done
+	CC=clang cmake -S . -B $(FUZZ_BUILD) -DACIDLOT_FUZZ=ON >/dev/null
+	cmake --build $(FUZZ_BUILD) -j$(JOBS)
+	sh tests/fuzz/run.sh $(FUZZ_BUILD) $(FUZZ_SECONDS)
+
 clean:
-	rm -rf $(BUILD) $(ASAN_BUILD)
+	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)
