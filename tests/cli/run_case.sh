@@ -15,7 +15,7 @@
 # review the diff before committing.
 set -u
 case_dir=$1
-ACIDLOT=$2
+ACIDLOT=$(cd "$(dirname "$2")" && pwd)/$(basename "$2")
 SAMPLES=$3
 regen=${4:-}
 export ACIDLOT SAMPLES

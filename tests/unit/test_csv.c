@@ -9,6 +9,7 @@
 
 struct seen {
 	size_t rows;
+	unsigned long last_line;
 	unsigned long lines[16];
 	size_t nfields[16];
 	char first[16][64];
@@ -28,6 +29,7 @@ collect(void *ud, const al_csv_row *row)
 			 row->fields[row->nfields - 1]);
 	}
 	s->rows++;
+	s->last_line = row->line;
 	return AL_OK;
 }
 
@@ -150,6 +152,44 @@ long_field(void **state)
 	al_diags_clear(&d);
 }
 
+/* The reader takes 64 KiB at a time: a CRLF pair split across two reads
+ * is still one line end, and a record split across them is one record. */
+static void
+chunk_boundary(void **state)
+{
+	size_t n = 65536 + 100, pos = 0;
+	char *text = malloc(n + 1);
+	struct seen s;
+	al_diags d = {0};
+	unsigned long lines = 0;
+
+	(void)state;
+	assert_non_null(text);
+	pos += (size_t)sprintf(text, "a,b\r\n");
+	lines++;
+	/* rows of "x,y\r\n" up to just before the boundary */
+	while (pos + 5 < 65535) {
+		memcpy(text + pos, "x,y\r\n", 5);
+		pos += 5;
+		lines++;
+	}
+	/* pad the last row so that its CR is byte 65535, its LF byte 65536 */
+	while (pos < 65535 - 2)
+		text[pos++] = 'z';
+	memcpy(text + pos, ",1\r\nlast,row\r\n", 14);
+	pos += 14;
+	text[pos] = '\0';
+	assert_true(text[65535] == '\r' && text[65536] == '\n');
+	assert_int_equal(read_str(text, &s, &d), AL_OK);
+	assert_int_equal(s.rows, lines + 2);
+	assert_int_equal(d.count, 0);
+	/* line numbers stay physical across the boundary */
+	assert_int_equal(s.lines[1], 2);
+	assert_int_equal(s.last_line, lines + 2);
+	free(text);
+	al_diags_clear(&d);
+}
+
 /* UTF-8 well-formedness by RFC 3629 s.3-4: overlong forms, surrogates
  * and code points above U+10FFFF are ill-formed. */
 static void
@@ -175,6 +215,7 @@ main(void)
 		cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
 		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
 		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
+		cmocka_unit_test(chunk_boundary),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
