@@ -55,6 +55,7 @@ struct al_assay {
 	size_t n_files;
 
 	al_group_result *results;
+	char *header_text; /* the file's header cells, trimmed, NUL-separated */
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
 
@@ -106,6 +107,7 @@ al_assay_free(al_assay *run)
 	al_free(run->arena);
 	al_free(run->results);
 	al_free(run->scratch);
+	al_free(run->header_text);
 	al_diags_clear(&run->diags);
 	al_diags_clear(&run->row_diags);
 	al_free(run);
@@ -298,6 +300,24 @@ check_header(al_assay *run, const al_csv_row *row)
 
 	run->header_done = 1;
 	run->header_fields = row->nfields;
+	{
+		size_t need = 0, pos = 0;
+
+		for (size_t i = 0; i < row->nfields; i++)
+			need += row->lens[i] + 1;
+		al_free(run->header_text);
+		run->header_text = al_malloc(need + 1);
+		if (run->header_text == NULL)
+			return AL_ENOMEM;
+		for (size_t i = 0; i < row->nfields; i++) {
+			size_t len = row->lens[i];
+			const char *h = al_trim(row->fields[i], &len);
+
+			memcpy(run->header_text + pos, h, len);
+			run->header_text[pos + len] = '\0';
+			pos += len + 1;
+		}
+	}
 	if (al_header_map(row, cols, C_COUNT, run->opt.aliases,
 			  run->opt.n_aliases, run->col, run->file,
 			  &run->diags) != AL_OK)
@@ -367,6 +387,24 @@ check_header(al_assay *run, const al_csv_row *row)
 	}
 	run->header_ok = ok;
 	return run->diags.out_of_memory ? AL_ENOMEM : (ok ? AL_OK : AL_EINPUT);
+}
+
+/* 1 when a row holds the same names as the header, ignoring case. */
+static int
+repeats_header(const al_assay *run, const al_csv_row *row)
+{
+	if (run->header_text == NULL)
+		return 0;
+	for (size_t i = 0, pos = 0; i < row->nfields; i++) {
+		size_t len = row->lens[i], hl = strlen(run->header_text + pos);
+		const char *cell = al_trim(row->fields[i], &len);
+		const char *h = run->header_text + pos;
+
+		if (!al_word_eq(cell, len, h) || (len == 0 && hl == 0))
+			return 0;
+		pos += hl + 1;
+	}
+	return 1;
 }
 
 static int
@@ -610,14 +648,20 @@ row_values(al_assay *run, const al_csv_row *row)
 		ROW_ERR(run, line, NULL, "%s", row->syntax_error);
 		return AL_OK;
 	}
+	if (row_is_empty(row))
+		return AL_OK; /* a spreadsheet's empty line: like a blank line */
 	if (row->nfields != run->header_fields) {
 		run->counts.rows_read++;
 		ROW_ERR(run, line, NULL, "%zu fields where the header has %zu",
 			row->nfields, run->header_fields);
 		return AL_OK;
 	}
-	if (row_is_empty(row))
-		return AL_OK; /* a spreadsheet's empty line: like a blank line */
+	if (repeats_header(run, row)) {
+		/* files joined end to end: say so rather than fail every cell */
+		RUN_DIAG(run, AL_SEV_WARNING, line, NULL,
+			 "this line repeats the header (files joined?); skipped");
+		return AL_OK;
+	}
 	run->counts.rows_read++;
 	memset(&t, 0, sizeof t);
 	if (text_cells(run, row, text, tl) != AL_OK)

@@ -554,7 +554,26 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 				     "it as UTF-8 CSV");
 				break;
 			}
-			if (opt->delimiter == AL_CSV_AUTO) {
+			/* A spreadsheet's "sep=;" first line names the
+			 * delimiter; it is honoured unless another one was
+			 * given, and its line still counts. */
+			if (n - skip >= 5 && memcmp(chunk + skip, "sep=", 4) == 0 &&
+			    (n - skip == 5 || chunk[skip + 5] == '\r' ||
+			     chunk[skip + 5] == '\n') &&
+			    (opt->delimiter == 0 || opt->delimiter == AL_CSV_AUTO ||
+			     opt->delimiter == chunk[skip + 4])) {
+				size_t k = skip + 5;
+
+				r.delimiter = chunk[skip + 4];
+				if (k < n && chunk[k] == '\r')
+					k++;
+				if (k < n && chunk[k] == '\n')
+					k++;
+				skip = k;
+				phys_line = 2;
+				r.cur_line = 2;
+				csv_set_delim(&p, (unsigned char)r.delimiter);
+			} else if (opt->delimiter == AL_CSV_AUTO) {
 				char found[64];
 
 				r.delimiter = detect_delimiter(
