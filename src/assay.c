@@ -360,10 +360,24 @@ check_header(al_assay *run, const al_csv_row *row)
 								   : "tab");
 	}
 	if (run->col[C_MASS] < 0 && run->col[C_VOLUME] < 0) {
-		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
-			"needs a 'mass_g' or a 'volume_ml' column (the file "
-			"has: %s)",
-			have);
+		const char *near = al_header_closest(row, "mass_g");
+		const char *which = "mass_g";
+
+		if (near == NULL) {
+			near = al_header_closest(row, "volume_ml");
+			which = "volume_ml";
+		}
+		if (near)
+			RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+				 "needs a 'mass_g' or a 'volume_ml' column (the "
+				 "file has: %s); did you mean '%s'? map it with "
+				 "--column %s=\"%s\"",
+				 have, near, which, near);
+		else
+			RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+				 "needs a 'mass_g' or a 'volume_ml' column (the "
+				 "file has: %s)",
+				 have);
 		ok = 0;
 	}
 	if ((run->col[C_MADE_UP] < 0) != (run->col[C_ALIQUOT] < 0)) {
