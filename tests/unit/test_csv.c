@@ -196,10 +196,10 @@ static void
 utf8(void **state)
 {
 	static const char *const good[] = {"abc", "\xE2\x82\xAC",
-					   "\xF0\x9D\x84\x9E", "S\xC3\xBC" "d", ""};
+					   "\xF0\x9D\x84\x9E", ("S\xC3\xBC" "d"), ""};
 	static const char *const bad[] = {"\xC0\xAF", "\xED\xA0\x80",
 					  "\xF4\x90\x80\x80", "\xE2\x82",
-					  "L\xF6" "sung", "\x80", "\xFF"};
+					  ("L\xF6" "sung"), "\x80", "\xFF"};
 
 	(void)state;
 	for (size_t i = 0; i < sizeof good / sizeof good[0]; i++)
