@@ -13,7 +13,8 @@ ASAN_BUILD ?= build-asan
 FUZZ_BUILD ?= build-fuzz
 FUZZ_SECONDS ?= 60
 JOBS       ?= 2
-DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev
+DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
+                  libjansson-dev nettle-dev
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
 .PHONY: all deps build demo check test asan valgrind regen fuzz clean

@@ -2,17 +2,23 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/alloc.h"
 
+#include <errno.h>
 #include <stdlib.h>
 #include <string.h>
 
 static unsigned long alloc_calls;
 static unsigned long alloc_fail_from; /* 0 = never fail */
 
+/* An injected failure looks like a real one: NULL and errno ENOMEM. */
 static int
 should_fail(void)
 {
 	alloc_calls++;
-	return alloc_fail_from != 0 && alloc_calls >= alloc_fail_from;
+	if (alloc_fail_from != 0 && alloc_calls >= alloc_fail_from) {
+		errno = ENOMEM;
+		return 1;
+	}
+	return 0;
 }
 
 void

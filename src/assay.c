@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/date.h"
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
 
@@ -17,13 +18,13 @@
 enum {
 	C_SAMPLE, C_TITRANT, C_MASS, C_VOLUME, C_PRODUCT, C_LOT, C_REPLICATE,
 	C_BLANK, C_CONC, C_MADE_UP, C_ALIQUOT, C_ACID, C_DENSITY, C_ENDPOINT,
-	C_COUNT
+	C_TITRANT_LOT, C_DATE, C_COUNT
 };
 static const char *const cols[C_COUNT] = {
 	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph"};
+	"endpoint_ph",	 "titrant_lot", "date"};
 
 struct group {
 	size_t key;     /* offset in the arena: product \0 lot \0 sample \0 */
@@ -56,6 +57,8 @@ struct al_assay {
 
 	al_group_result *results;
 	char *header_text; /* the file's header cells, trimmed, NUL-separated */
+	const al_titrant **lots_used;
+	size_t n_lots_used;
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
 
@@ -108,6 +111,7 @@ al_assay_free(al_assay *run)
 	al_free(run->results);
 	al_free(run->scratch);
 	al_free(run->header_text);
+	al_free(run->lots_used);
 	al_diags_clear(&run->diags);
 	al_diags_clear(&run->row_diags);
 	al_free(run);
@@ -393,7 +397,8 @@ check_header(al_assay *run, const al_csv_row *row)
 			 "--decimal-comma");
 		ok = 0;
 	}
-	if (run->col[C_CONC] < 0 && !run->opt.has_titrant) {
+	if (run->col[C_CONC] < 0 && !run->opt.has_titrant &&
+	    !(run->opt.titrants && run->col[C_TITRANT_LOT] >= 0)) {
 		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"no titrant concentration: add a 'titrant_mol_l' "
 			"column or give --titrant-mol-l");
@@ -503,6 +508,66 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 }
 
 static al_status row_values(al_assay *run, const al_csv_row *row);
+
+/* The register entry of a row's titrant lot, checked for validity on the
+ * row's date; NULL when the row names no lot (or after an error). */
+static const al_titrant *
+titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
+{
+	size_t ll, dl;
+	const char *name = al_cell(row, run->col[C_TITRANT_LOT], &ll);
+	const char *date_text = al_cell(row, run->col[C_DATE], &dl);
+	char lot[256], on[11], until[11], when[11];
+	const al_titrant *t;
+	long date = run->opt.today;
+
+	if (ll == 0)
+		return NULL;
+	snprintf(lot, sizeof lot, "%.*s", (int)ll, name);
+	if (dl > 0 && al_date_parse(date_text, dl, &date) != 0) {
+		ROW_ERR(run, line, "date", "'%.*s' is not a date YYYY-MM-DD",
+			(int)(dl > 40 ? 40 : dl), date_text);
+		return NULL;
+	}
+	t = al_register_find(run->opt.titrants, lot);
+	if (t == NULL) {
+		ROW_ERR(run, line, "titrant_lot",
+			"titrant lot '%s' is not in the titrant register", lot);
+		return NULL;
+	}
+	al_date_format(t->standardised_on, on);
+	al_date_format(t->valid_until, until);
+	al_date_format(date, when);
+	if (!t->valid) {
+		ROW_ERR(run, line, "titrant_lot",
+			"titrant lot '%s' failed its standardisation of %s: "
+			"standardise it again",
+			lot, on);
+		return NULL;
+	}
+	if (date > t->valid_until || date < t->standardised_on) {
+		ROW_ERR(run, line, "titrant_lot",
+			"titrant lot '%s' is valid from %s to %s, not on %s%s",
+			lot, on, until, when, dl ? "" : " (today: the row has no date)");
+		return NULL;
+	}
+	for (size_t i = 0; i < run->n_lots_used; i++)
+		if (run->lots_used[i] == t)
+			return t;
+	{
+		const al_titrant **grown = al_realloc(
+			(void *)run->lots_used,
+			(run->n_lots_used + 1) * sizeof *grown);
+
+		if (grown == NULL) {
+			run->row_diags.out_of_memory = 1;
+			return NULL;
+		}
+		run->lots_used = grown;
+		run->lots_used[run->n_lots_used++] = t;
+	}
+	return t;
+}
 
 static void
 init_group(al_assay *run, struct group *g, const al_spec *spec,
@@ -721,6 +786,25 @@ row_values(al_assay *run, const al_csv_row *row)
 		t.blank_ml = 0;
 	got = number_or_default(run, row, C_CONC, run->opt.has_titrant,
 				run->opt.titrant_mol_l, &t.titrant_mol_l);
+	if (run->opt.titrants && run->col[C_TITRANT_LOT] >= 0) {
+		const al_titrant *reg_lot = titrant_of(run, row, line);
+
+		if (reg_lot) {
+			if (got == 1 &&
+			    fabs(t.titrant_mol_l - reg_lot->concentration_mol_l) >
+				    0.001 * reg_lot->concentration_mol_l)
+				RUN_DIAG(run, AL_SEV_WARNING, line,
+					 "titrant_mol_l",
+					 "%g mol/L differs from %g mol/L of "
+					 "titrant lot '%s' in the register; the "
+					 "register's is used",
+					 t.titrant_mol_l,
+					 reg_lot->concentration_mol_l, reg_lot->lot);
+			t.titrant_mol_l = reg_lot->concentration_mol_l;
+			got = 1;
+		} else if (run->row_diags.errors > 0)
+			got = 1; /* reported by titrant_of */
+	}
 	if (got == 0) {
 		ROW_ERR(run, line, "titrant_mol_l",
 			"is empty and no --titrant-mol-l was given");
@@ -879,6 +963,13 @@ al_status
 al_assay_read(al_assay *run, FILE *in, const char *name,
 	      al_replicate_fn on_row, void *ud)
 {
+	return al_assay_read_source(run, al_read_stdio, in, name, on_row, ud);
+}
+
+al_status
+al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
+		     const char *name, al_replicate_fn on_row, void *ud)
+{
 	char **files;
 	al_status st;
 	unsigned long rows_before = run->counts.rows_read;
@@ -895,8 +986,8 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 	run->header_done = run->header_ok = 0;
 	run->on_row = on_row;
 	run->ud = ud;
-	st = al_csv_read_file(&run->opt.csv, in, run->file, on_csv_row, run,
-			      &run->diags);
+	st = al_csv_read(&run->opt.csv, read_fn, ctx, run->file, on_csv_row,
+			 run, &run->diags);
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	if (st == AL_OK && !run->header_done) {
@@ -970,6 +1061,12 @@ al_assay_finish(al_assay *run)
 		run->counts.by_verdict[r->verdict]++;
 	}
 	return AL_OK;
+}
+
+const al_titrant *
+al_assay_titrant_used(const al_assay *run, size_t i)
+{
+	return i < run->n_lots_used ? run->lots_used[i] : NULL;
 }
 
 void

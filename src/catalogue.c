@@ -4,6 +4,7 @@
 #include "acidlot/chem.h"
 
 #include <ctype.h>
+#include <math.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
@@ -15,12 +16,16 @@ extern const unsigned char al_ref_atomic_weights[];
 extern const size_t al_ref_atomic_weights_len;
 extern const unsigned char al_ref_acids[];
 extern const size_t al_ref_acids_len;
+extern const unsigned char al_ref_standards[];
+extern const size_t al_ref_standards_len;
 
 struct al_catalogue {
 	al_element *elements;
 	size_t n_elements;
 	al_acid *acids;
 	size_t n_acids;
+	al_standard *standards;
+	size_t n_standards;
 };
 
 /* Column lookup shared by both tables: index of `name` in the header. */
@@ -83,9 +88,11 @@ parse_double(struct table *t, const al_csv_row *row, int k, double *out)
 	return AL_OK;
 }
 
-enum { EL_SYMBOL, EL_NAME, EL_WEIGHT, EL_SOURCE };
-static const char *const element_cols[] = {"symbol", "name", "atomic_weight",
-					   "source"};
+enum { EL_SYMBOL, EL_NAME, EL_WEIGHT, EL_SOURCE, EL_LOW, EL_HIGH, EL_U };
+static const char *const element_cols[] = {"symbol",	   "name",
+					   "atomic_weight", "source",
+					   "interval_low",  "interval_high",
+					   "uncertainty"};
 
 static al_status
 element_row(struct table *t, const al_csv_row *row)
@@ -108,6 +115,22 @@ element_row(struct table *t, const al_csv_row *row)
 	st = parse_double(t, row, EL_WEIGHT, &e->atomic_weight);
 	if (st != AL_OK)
 		return st;
+	/* rectangular: half the interval, or the stated uncertainty, over
+	 * sqrt 3 (QUAM example A2) */
+	if (cell(t, row, EL_LOW)[0] != '\0') {
+		double lo, hi;
+
+		if ((st = parse_double(t, row, EL_LOW, &lo)) != AL_OK ||
+		    (st = parse_double(t, row, EL_HIGH, &hi)) != AL_OK)
+			return st;
+		e->u = (hi - lo) / 2 / sqrt(3.0);
+	} else {
+		double stated;
+
+		if ((st = parse_double(t, row, EL_U, &stated)) != AL_OK)
+			return st;
+		e->u = stated / sqrt(3.0);
+	}
 	e->name = al_strdup(cell(t, row, EL_NAME));
 	e->source = al_strdup(cell(t, row, EL_SOURCE));
 	cat->n_elements++;
@@ -180,6 +203,49 @@ acid_row(struct table *t, const al_csv_row *row)
 	return AL_OK;
 }
 
+enum { ST_NAME, ST_ALIASES, ST_FORMULA, ST_PROTONS, ST_PURITY, ST_PURITY_U,
+       ST_SOURCE };
+static const char *const standard_cols[] = {"name",    "aliases", "formula",
+					    "protons", "purity",  "purity_u",
+					    "source"};
+
+static al_status
+standard_row(struct table *t, const al_csv_row *row)
+{
+	al_catalogue *cat = t->cat;
+	al_standard *a, *grown;
+	const char *why = NULL;
+	double protons;
+	al_status st;
+
+	grown = al_realloc(cat->standards,
+			   (cat->n_standards + 1) * sizeof *grown);
+	if (grown == NULL)
+		return AL_ENOMEM;
+	cat->standards = grown;
+	a = &cat->standards[cat->n_standards];
+	memset(a, 0, sizeof *a);
+	cat->n_standards++;
+	a->name = al_strdup(cell(t, row, ST_NAME));
+	a->aliases = al_strdup(cell(t, row, ST_ALIASES));
+	a->formula = al_strdup(cell(t, row, ST_FORMULA));
+	a->source = al_strdup(cell(t, row, ST_SOURCE));
+	if (!a->name || !a->aliases || !a->formula || !a->source)
+		return AL_ENOMEM;
+	if ((st = parse_double(t, row, ST_PROTONS, &protons)) != AL_OK ||
+	    (st = parse_double(t, row, ST_PURITY, &a->purity)) != AL_OK ||
+	    (st = parse_double(t, row, ST_PURITY_U, &a->purity_u)) != AL_OK)
+		return st;
+	a->protons = (int)protons;
+	st = al_formula_mass_u(cat, a->formula, &a->molar_mass,
+			       &a->molar_mass_u, &why);
+	if (st == AL_ENOMEM)
+		return st;
+	if (st != AL_OK)
+		return bad(t, row->line, why, a->formula);
+	return AL_OK;
+}
+
 static al_status
 load_table(al_catalogue *cat, const unsigned char *data, size_t len,
 	   const char *file, const char *const *names, size_t n_names,
@@ -210,12 +276,16 @@ al_catalogue_new(al_status *status, al_diags *diags)
 		return NULL;
 	}
 	st = load_table(cat, al_ref_atomic_weights, al_ref_atomic_weights_len,
-			"reference/atomic_weights.csv", element_cols, 4,
+			"reference/atomic_weights.csv", element_cols, 7,
 			element_row, diags);
 	if (st == AL_OK)
 		st = load_table(cat, al_ref_acids, al_ref_acids_len,
 				"reference/acids.csv", acid_cols, 7, acid_row,
 				diags);
+	if (st == AL_OK)
+		st = load_table(cat, al_ref_standards, al_ref_standards_len,
+				"reference/standards.csv", standard_cols, 7,
+				standard_row, diags);
 	if (st != AL_OK) {
 		al_catalogue_free(cat);
 		*status = st;
@@ -243,6 +313,15 @@ al_catalogue_free(al_catalogue *cat)
 		al_free(a->notes);
 		al_free(a->source);
 	}
+	for (size_t i = 0; i < cat->n_standards; i++) {
+		al_standard *a = &cat->standards[i];
+
+		al_free(a->name);
+		al_free(a->aliases);
+		al_free(a->formula);
+		al_free(a->source);
+	}
+	al_free(cat->standards);
 	al_free(cat->elements);
 	al_free(cat->acids);
 	al_free(cat);
@@ -290,25 +369,32 @@ name_matches(const char *key, const char *candidate, size_t len)
 	return strcmp(a, b) == 0;
 }
 
+/* 1 when name is the key or one of the '|'-separated aliases. */
+static int
+entry_matches(const char *name, const char *key, const char *aliases)
+{
+	const char *p = aliases;
+
+	if (name_matches(name, key, strlen(key)))
+		return 1;
+	while (*p) {
+		size_t len = strcspn(p, "|");
+
+		if (len > 0 && name_matches(name, p, len))
+			return 1;
+		p += len;
+		if (*p == '|')
+			p++;
+	}
+	return 0;
+}
+
 const al_acid *
 al_catalogue_find(const al_catalogue *cat, const char *name)
 {
-	for (size_t i = 0; i < cat->n_acids; i++) {
-		const al_acid *a = &cat->acids[i];
-		const char *p = a->aliases;
-
-		if (name_matches(name, a->name, strlen(a->name)))
-			return a;
-		while (*p) {
-			size_t len = strcspn(p, "|");
-
-			if (len > 0 && name_matches(name, p, len))
-				return a;
-			p += len;
-			if (*p == '|')
-				p++;
-		}
-	}
+	for (size_t i = 0; i < cat->n_acids; i++)
+		if (entry_matches(name, cat->acids[i].name, cat->acids[i].aliases))
+			return &cat->acids[i];
 	return NULL;
 }
 
@@ -324,12 +410,17 @@ al_catalogue_element(const al_catalogue *cat, const char *symbol)
 /* Formula grammar:
  *   formula := part { dot [count] part }
  *   part    := { element [count] | '(' part ')' [count] }
- * with dot one of '.', '*' or U+00B7 (middle dot, bytes C2 B7). */
+ * with dot one of '.', '*' or U+00B7 (middle dot, bytes C2 B7). The
+ * parser counts atoms per element, so that the uncertainty of, say, 8 C
+ * is 8 u(C) (fully correlated) before elements combine in quadrature. */
+#define MAX_ELEMENTS 64
+
 struct fparse {
 	const al_catalogue *cat;
 	const char *s;
 	const char *why;
 	al_status st;
+	double counts[MAX_ELEMENTS];
 };
 
 static long
@@ -355,36 +446,44 @@ read_count(struct fparse *f)
 	return n;
 }
 
-static double
-parse_part(struct fparse *f, int depth)
+/* Adds the atoms of one part, each count multiplied by mult. The counts
+ * of a parenthesised group are known only after its closing count, so a
+ * group is parsed into a scratch tally first. */
+static void
+parse_part(struct fparse *f, int depth, double mult)
 {
-	double mass = 0;
 	int any = 0;
 
 	for (;;) {
 		char c = *f->s;
 
 		if (c == '(') {
-			double inner;
+			struct fparse inner = *f;
 			long n;
 
 			if (depth > 8) {
 				f->st = AL_EINPUT;
 				f->why = "parentheses nested too deep";
-				return 0;
+				return;
 			}
-			f->s++;
-			inner = parse_part(f, depth + 1);
-			if (f->st != AL_OK)
-				return 0;
+			memset(inner.counts, 0, sizeof inner.counts);
+			inner.s = f->s + 1;
+			parse_part(&inner, depth + 1, 1.0);
+			f->s = inner.s;
+			if (inner.st != AL_OK) {
+				f->st = inner.st;
+				f->why = inner.why;
+				return;
+			}
 			if (*f->s != ')') {
 				f->st = AL_EINPUT;
 				f->why = "unbalanced parenthesis in formula";
-				return 0;
+				return;
 			}
 			f->s++;
 			n = read_count(f);
-			mass += inner * (double)n;
+			for (int k = 0; k < MAX_ELEMENTS; k++)
+				f->counts[k] += inner.counts[k] * (double)n * mult;
 			any = 1;
 		} else if (isupper((unsigned char)c)) {
 			char sym[4] = {c, 0, 0, 0};
@@ -398,33 +497,37 @@ parse_part(struct fparse *f, int depth)
 			if (e == NULL) {
 				f->st = AL_ENOTFOUND;
 				f->why = "element not in the atomic-weight table";
-				return 0;
+				return;
 			}
 			n = read_count(f);
-			mass += e->atomic_weight * (double)n;
+			f->counts[e - f->cat->elements] += (double)n * mult;
 			any = 1;
 		} else
 			break;
 		if (f->st != AL_OK)
-			return 0;
+			return;
 	}
 	if (!any) {
 		f->st = AL_EINPUT;
 		f->why = "malformed formula";
 	}
-	return mass;
 }
 
 al_status
-al_formula_mass(const al_catalogue *cat, const char *formula,
-		double *molar_mass, const char **why)
+al_formula_mass_u(const al_catalogue *cat, const char *formula,
+		  double *molar_mass, double *u, const char **why)
 {
-	struct fparse f = {cat, formula, NULL, AL_OK};
-	double total = parse_part(&f, 0);
+	struct fparse f;
+	double total = 0, var = 0;
 
+	memset(&f, 0, sizeof f);
+	f.cat = cat;
+	f.s = formula;
+	f.st = cat->n_elements <= MAX_ELEMENTS ? AL_OK : AL_EINPUT;
+	if (f.st == AL_OK)
+		parse_part(&f, 0, 1.0);
 	while (f.st == AL_OK && *f.s) {
 		long n;
-		double part;
 
 		if (*f.s == '.' || *f.s == '*')
 			f.s++;
@@ -439,12 +542,49 @@ al_formula_mass(const al_catalogue *cat, const char *formula,
 		n = read_count(&f);
 		if (f.st != AL_OK)
 			break;
-		part = parse_part(&f, 0);
-		total += part * (double)n;
+		parse_part(&f, 0, (double)n);
 	}
 	if (why)
 		*why = f.why;
-	if (f.st == AL_OK)
-		*molar_mass = total;
-	return f.st;
+	if (f.st != AL_OK)
+		return f.st;
+	for (size_t k = 0; k < cat->n_elements; k++) {
+		double contribution = f.counts[k] * cat->elements[k].u;
+
+		total += f.counts[k] * cat->elements[k].atomic_weight;
+		var += contribution * contribution;
+	}
+	*molar_mass = total;
+	if (u)
+		*u = sqrt(var);
+	return AL_OK;
+}
+
+al_status
+al_formula_mass(const al_catalogue *cat, const char *formula,
+		double *molar_mass, const char **why)
+{
+	return al_formula_mass_u(cat, formula, molar_mass, NULL, why);
+}
+
+size_t
+al_catalogue_standard_count(const al_catalogue *cat)
+{
+	return cat->n_standards;
+}
+
+const al_standard *
+al_catalogue_standard(const al_catalogue *cat, size_t i)
+{
+	return i < cat->n_standards ? &cat->standards[i] : NULL;
+}
+
+const al_standard *
+al_catalogue_find_standard(const al_catalogue *cat, const char *name)
+{
+	for (size_t i = 0; i < cat->n_standards; i++)
+		if (entry_matches(name, cat->standards[i].name,
+				  cat->standards[i].aliases))
+			return &cat->standards[i];
+	return NULL;
 }

@@ -628,8 +628,8 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	return st;
 }
 
-static size_t
-read_file(void *ctx, void *buf, size_t cap, int *failed)
+size_t
+al_read_stdio(void *ctx, void *buf, size_t cap, int *failed)
 {
 	FILE *in = ctx;
 	size_t n = fread(buf, 1, cap, in);
@@ -643,7 +643,7 @@ al_status
 al_csv_read_file(const al_csv_options *opt, FILE *in, const char *name,
 		 al_csv_row_fn row_fn, void *ud, al_diags *diags)
 {
-	return al_csv_read(opt, read_file, in, name, row_fn, ud, diags);
+	return al_csv_read(opt, al_read_stdio, in, name, row_fn, ud, diags);
 }
 
 struct mem_source {

@@ -109,6 +109,12 @@ al_outfile_path(const al_outfile *f)
 	return f->path;
 }
 
+const char *
+al_outfile_written_path(const al_outfile *f)
+{
+	return f->tmp ? f->tmp : f->path;
+}
+
 static void
 release(al_outfile *f)
 {

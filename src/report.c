@@ -116,8 +116,12 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 	char d = delim_of(opt);
 
 	header(out,
-	       "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,ci95_low,"
-	       "ci95_high,spec_min,spec_max,status,flags",
+	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
+				"ci95_low,ci95_high,spec_min,spec_max,status,"
+				"flags,report_id"
+			      : "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
+				"ci95_low,ci95_high,spec_min,spec_max,status,"
+				"flags",
 	       opt);
 	for (size_t i = 0; i < n; i++) {
 		const al_group_result *r = al_assay_result(run, i);
@@ -143,6 +147,8 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
 		al_csv_put_field(out, flags, d);
+		if (opt->report_id)
+			fprintf(out, "%c%s-%04zu", d, opt->report_id, i + 1);
 		putc('\n', out);
 	}
 	return ferror(out) ? AL_EIO : AL_OK;

@@ -12,6 +12,7 @@
 
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/register.h"
 #include "acidlot/spec.h"
 #include "acidlot/stats.h"
 #include "acidlot/table.h"
@@ -44,6 +45,11 @@ typedef struct al_assay_options {
 			       const char *reason, const char *raw,
 			       size_t raw_len);
 	void *reject_ud;
+	/* Titrant register: a row's titrant_lot takes its concentration
+	 * from here; the lot must be valid on the row's date (or on
+	 * `today` when the row has none). NULL: not used. */
+	const al_register *titrants;
+	long today; /* day number (al_date_parse) */
 } al_assay_options;
 
 /* Flags on a titration row and on a group (a group carries the union of
@@ -127,6 +133,12 @@ void al_assay_free(al_assay *run);
 al_status al_assay_read(al_assay *run, FILE *in, const char *name,
 			al_replicate_fn on_row, void *ud);
 
+/* The same from any source (see al_csv_read), e.g. one that hashes what
+ * it reads. */
+al_status al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
+			       const char *name, al_replicate_fn on_row,
+			       void *ud);
+
 /* Computes statistics and verdicts for every group; call once, after the
  * last al_assay_read. */
 al_status al_assay_finish(al_assay *run);
@@ -136,6 +148,10 @@ size_t al_assay_group_count(const al_assay *run);
 const al_group_result *al_assay_result(const al_assay *run, size_t i);
 al_assay_counts al_assay_get_counts(const al_assay *run);
 al_diags *al_assay_diags(al_assay *run);
+
+/* The titrant lots rows took their concentration from, in order of first
+ * use; NULL past the end. */
+const al_titrant *al_assay_titrant_used(const al_assay *run, size_t i);
 
 /* Writes the names of the flags set in `flags` as "a;b;c" into buf. */
 void al_flags_format(unsigned flags, double endpoint_needed, char *buf,

@@ -14,8 +14,25 @@ typedef struct al_element {
 	char symbol[4];
 	char *name;
 	double atomic_weight; /* g/mol, conventional or abridged value */
+	double u;             /* standard uncertainty, g/mol: the CIAAW interval
+				 or stated uncertainty taken as a rectangular
+				 distribution (half-width / sqrt 3, as QUAM
+				 example A2 treats atomic weights) */
 	char *source;
 } al_element;
+
+/* A primary standard for standardising a base (KHP...). */
+typedef struct al_standard {
+	char *name;
+	char *aliases;
+	char *formula;
+	double molar_mass;   /* g/mol from the formula */
+	double molar_mass_u; /* standard uncertainty from the atomic weights */
+	int protons;
+	double purity;       /* mass fraction, default of the catalogue */
+	double purity_u;     /* its standard uncertainty */
+	char *source;
+} al_standard;
 
 typedef struct al_acid {
 	char *name;     /* catalogue key, e.g. "citric-monohydrate" */
@@ -47,6 +64,11 @@ const al_acid *al_catalogue_acid(const al_catalogue *cat, size_t i);
 const al_acid *al_catalogue_find(const al_catalogue *cat, const char *name);
 const al_element *al_catalogue_element(const al_catalogue *cat,
 				       const char *symbol);
+size_t al_catalogue_standard_count(const al_catalogue *cat);
+const al_standard *al_catalogue_standard(const al_catalogue *cat, size_t i);
+/* A primary standard by name or alias (matched like acids); NULL if none. */
+const al_standard *al_catalogue_find_standard(const al_catalogue *cat,
+					      const char *name);
 
 /* Molar mass of a formula such as "C6H8O7", "C2H2O4.2H2O", "Ca(OH)2",
  * "KHC8H4O4" (hydrate dot may be '.', '*' or U+00B7). Returns AL_EINPUT
@@ -54,6 +76,11 @@ const al_element *al_catalogue_element(const al_catalogue *cat,
  * table, with a short reason in why (may be NULL). */
 al_status al_formula_mass(const al_catalogue *cat, const char *formula,
 			  double *molar_mass, const char **why);
+/* The same, with the standard uncertainty of the molar mass: each
+ * element's count x u combined in quadrature (QUAM example A2, which
+ * treats the atomic weights as independent). u may be NULL. */
+al_status al_formula_mass_u(const al_catalogue *cat, const char *formula,
+			    double *molar_mass, double *u, const char **why);
 
 /* Mean number of protons removed from the fully protonated acid at the
  * given pH: sum over i of i * alpha_i, the species fractions from the

@@ -59,6 +59,9 @@ typedef size_t (*al_read_fn)(void *ctx, void *buf, size_t cap, int *failed);
 al_status al_csv_read(const al_csv_options *opt, al_read_fn read_fn,
 		      void *read_ctx, const char *name, al_csv_row_fn row_fn,
 		      void *ud, al_diags *diags);
+/* An al_read_fn over a stdio stream (ctx is the FILE *). */
+size_t al_read_stdio(void *ctx, void *buf, size_t cap, int *failed);
+
 al_status al_csv_read_file(const al_csv_options *opt, FILE *in,
 			   const char *name, al_csv_row_fn row_fn, void *ud,
 			   al_diags *diags);

@@ -16,6 +16,9 @@ typedef struct al_outfile al_outfile;
 al_outfile *al_outfile_open(const char *path, al_status *status);
 FILE *al_outfile_stream(al_outfile *f);
 const char *al_outfile_path(const al_outfile *f);
+/* Where the bytes are until commit: the temporary file, or the target
+ * itself when written in place. */
+const char *al_outfile_written_path(const al_outfile *f);
 /* Flushes, checks every write and closes, without renaming yet, so that
  * several outputs can all be checked before any appears. AL_EIO on a
  * failure (the caller then aborts). */

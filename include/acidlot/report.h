@@ -16,6 +16,8 @@ typedef struct al_report_options {
 	int bom;           /* start each file with a UTF-8 byte-order mark */
 	int raw_text;      /* do not guard text against formula injection */
 	unsigned long guarded; /* out: text cells that were guarded */
+	const char *report_id; /* when set, a last column report_id holds
+				  "<report_id>-<row number>" */
 } al_report_options;
 
 /* Formats a number with '.' (or ',' when decimal_comma) as decimal point,
@@ -37,7 +39,8 @@ int al_csv_put_text(FILE *out, const char *s, size_t len,
 
 /* The report: a header line and one line per result in order of first
  * appearance. Columns: product, lot, sample, acid, unit, n, mean, sd,
- * rsd_pct, ci95_low, ci95_high, spec_min, spec_max, status, flags.
+ * rsd_pct, ci95_low, ci95_high, spec_min, spec_max, status, flags, and
+ * report_id when opt->report_id is set.
  * Undefined numbers (sd for n = 1) are empty cells. AL_EIO when writing
  * fails. */
 al_status al_report_write(FILE *out, const al_assay *run,

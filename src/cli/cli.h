@@ -19,6 +19,8 @@ enum {
 int cmd_assay(int argc, char **argv);
 int cmd_acids(int argc, char **argv);
 int cmd_convert(int argc, char **argv);
+int cmd_standardize(int argc, char **argv);
+int cmd_verify(int argc, char **argv);
 
 /* "acidlot: message" on stderr. */
 void cli_error(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
@@ -34,6 +36,19 @@ int cli_number(const char *cmd, const char *option, const char *text,
 void cli_print_diags(const al_diags *d);
 /* Loads the built-in catalogue, reporting failure. NULL on failure. */
 al_catalogue *cli_catalogue(void);
+/* Why an operation failed, for a message: "out of memory" when the
+ * status or errno says so, else strerror(errno). */
+const char *cli_reason(al_status st);
+/* Renames every prepared output into place, in order, and sets each
+ * pointer to NULL (NULL entries are skipped). 0, or -1 after a message. */
+int cli_commit_all(al_outfile **files[], size_t n);
+/* A usage error unless --decimal-comma goes with a delimiter other than
+ * ','; returns 0 when fine. */
+int cli_check_decimal_comma(const char *cmd, const al_csv_options *csv);
+/* ',', ';', "tab" or "auto" for --delimiter; 0 on success. */
+int cli_delimiter(const char *text, char *out);
+/* 1 when both paths name the same existing file. */
+int cli_same_file(const char *a, const char *b);
 /* Names the known acids on stderr after an unknown name. */
 void cli_list_acids(const al_catalogue *cat);
 

@@ -7,6 +7,7 @@
 #include <sys/stat.h>
 
 #include "cli.h"
+#include "record.h"
 
 static void
 usage(FILE *out)
@@ -37,6 +38,12 @@ usage(FILE *out)
 	      "      --density-g-ml D    sample density for rows without\n"
 	      "                          density_g_ml\n"
 	      "      --endpoint-ph PH    endpoint pH for rows without endpoint_ph\n"
+	      "      --titrants FILE     titrant register (from '" PROG " standardize'):\n"
+	      "                          a row's titrant_lot gives its titrant\n"
+	      "                          concentration, valid on the row's date\n"
+	      "      --record FILE       record of the run (default\n"
+	      "                          REPORT.record.json with -o)\n"
+	      "      --analyst NAME      who ran it, for the record\n"
 	      "\n"
 	      "Reading:\n"
 	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
@@ -95,7 +102,7 @@ enum {
 	OPT_ACID = 256, OPT_UNIT, OPT_BLANK, OPT_TITRANT, OPT_DENSITY,
 	OPT_ENDPOINT, OPT_DECIMALS, OPT_REJECTS, OPT_DELIMITER,
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
-	OPT_RAW_TEXT
+	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST
 };
 
 static const struct option options[] = {
@@ -117,6 +124,9 @@ static const struct option options[] = {
 	{"sheet-style", required_argument, NULL, OPT_SHEET},
 	{"bom", no_argument, NULL, OPT_BOM},
 	{"raw-text", no_argument, NULL, OPT_RAW_TEXT},
+	{"titrants", required_argument, NULL, OPT_TITRANTS},
+	{"record", required_argument, NULL, OPT_RECORD},
+	{"analyst", required_argument, NULL, OPT_ANALYST},
 	{"help", no_argument, NULL, 'h'},
 	{NULL, 0, NULL, 0},
 };
@@ -126,13 +136,13 @@ static const char *const column_names[] = {
 	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph"};
+	"endpoint_ph",	 "titrant_lot", "date"};
 
 #define MAX_COLUMN_OPTS 32
 
 struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
-	const char *columns_file;
+	const char *columns_file, *titrants, *record, *analyst;
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
 	al_assay_options aopt;
@@ -153,23 +163,6 @@ static int
 opt_number(const char *option, double *v)
 {
 	return cli_number("assay", option, optarg, v);
-}
-
-static int
-parse_delimiter(const char *text, char *out)
-{
-	if (strcmp(text, ",") == 0 || strcmp(text, "comma") == 0)
-		*out = ',';
-	else if (strcmp(text, ";") == 0 || strcmp(text, "semicolon") == 0)
-		*out = ';';
-	else if (strcmp(text, "tab") == 0 || strcmp(text, "\t") == 0 ||
-		 strcmp(text, "\\t") == 0)
-		*out = '\t';
-	else if (strcmp(text, "auto") == 0)
-		*out = AL_CSV_AUTO;
-	else
-		return -1;
-	return 0;
 }
 
 static int
@@ -256,7 +249,7 @@ parse_args(int argc, char **argv, struct args *a)
 			a->ropt.decimals = (int)v;
 			break;
 		case OPT_DELIMITER:
-			if (parse_delimiter(optarg, &a->aopt.csv.delimiter))
+			if (cli_delimiter(optarg, &a->aopt.csv.delimiter))
 				return cli_usage_error(
 					       "assay",
 					       "--delimiter: '%s' is not ',', ';', "
@@ -315,6 +308,15 @@ parse_args(int argc, char **argv, struct args *a)
 		case OPT_RAW_TEXT:
 			a->ropt.raw_text = 1;
 			break;
+		case OPT_TITRANTS:
+			a->titrants = optarg;
+			break;
+		case OPT_RECORD:
+			a->record = optarg;
+			break;
+		case OPT_ANALYST:
+			a->analyst = optarg;
+			break;
 		case 'h':
 			usage(stdout);
 			return 1;
@@ -330,28 +332,21 @@ parse_args(int argc, char **argv, struct args *a)
 	}
 	if (optind >= argc)
 		return cli_usage_error("assay", "no titration file given"), -1;
-	if (a->aopt.csv.decimal_point == ',' &&
-	    (a->aopt.csv.delimiter == 0 || a->aopt.csv.delimiter == ','))
-		return cli_usage_error("assay",
-				       "--decimal-comma needs a delimiter other "
-				       "than ',': add --delimiter ';' (or tab, "
-				       "or auto)"),
-		       -1;
-	return 0;
+	return cli_check_decimal_comma("assay", &a->aopt.csv) ? -1 : 0;
 }
 
 /* Refuses outputs that would overwrite an input or each other. */
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	const char *outs[3] = {a->output, a->replicates, a->rejects};
-	const char *ins[3] = {a->spec, a->columns_file, NULL};
+	const char *outs[4] = {a->output, a->replicates, a->rejects, a->record};
+	const char *ins[3] = {a->spec, a->columns_file, a->titrants};
 	struct stat so, si;
 
-	for (int i = 0; i < 3; i++) {
+	for (int i = 0; i < 4; i++) {
 		if (outs[i] == NULL || strcmp(outs[i], "-") == 0)
 			continue;
-		for (int j = i + 1; j < 3; j++)
+		for (int j = i + 1; j < 4; j++)
 			if (outs[j] && strcmp(outs[i], outs[j]) == 0) {
 				cli_usage_error("assay",
 						"'%s' is named for two outputs",
@@ -360,7 +355,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 			}
 		if (stat(outs[i], &so) != 0 || !S_ISREG(so.st_mode))
 			continue;
-		for (int k = optind; k < argc + 2; k++) {
+		for (int k = optind; k < argc + 3; k++) {
 			const char *in = k < argc ? argv[k] : ins[k - argc];
 
 			if (in == NULL || strcmp(in, "-") == 0 ||
@@ -431,7 +426,7 @@ open_output(const char *path, al_status (*header)(FILE *, al_report_options *),
 
 	if (f == NULL) {
 		cli_error("%s: %s", path,
-			  st == AL_EIO ? strerror(errno) : al_strerror(st));
+			  cli_reason(st));
 		return NULL;
 	}
 	if (header && header(al_outfile_stream(f), ropt) != AL_OK) {
@@ -450,7 +445,7 @@ load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
 	FILE *in = fopen(a->spec, "rb");
 
 	if (in == NULL) {
-		cli_error("%s: %s", a->spec, strerror(errno));
+		cli_error("%s: %s", a->spec, cli_reason(AL_OK));
 		return NULL;
 	}
 	specs = al_spec_table_read(cat, &a->aopt.csv, in, a->spec, &st, d);
@@ -483,7 +478,7 @@ load_columns(struct args *a, al_column_alias **all, size_t *n)
 		al_status st;
 
 		if (in == NULL) {
-			cli_error("%s: %s", a->columns_file, strerror(errno));
+			cli_error("%s: %s", a->columns_file, cli_reason(AL_OK));
 			return -1;
 		}
 		st = al_column_aliases_read(in, a->columns_file, &file_items,
@@ -540,6 +535,158 @@ free_columns(const struct args *a, al_column_alias *all, size_t n)
 	al_free(all);
 }
 
+static int
+hash_input(run_record *rec, const char *role, const char *path, long rows)
+{
+	char hex[65];
+	unsigned long long bytes;
+
+	if (sha256_file(path, hex, &bytes) != 0) {
+		cli_error("%s: cannot read it again to hash it", path);
+		return -1;
+	}
+	if (record_input(rec, role, path, bytes, rows, hex) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	return 0;
+}
+
+static al_register *
+load_titrants(const char *path)
+{
+	al_diags d = {0};
+	al_status st;
+	al_register *reg;
+	FILE *in = fopen(path, "rb");
+
+	if (in == NULL) {
+		cli_error("%s: %s", path, cli_reason(AL_OK));
+		return NULL;
+	}
+	reg = al_register_read(in, path, &st, &d);
+	fclose(in);
+	cli_print_diags(&d);
+	al_diags_clear(&d);
+	if (reg == NULL)
+		cli_error("%s: cannot read the titrant register (%s)", path,
+			  al_strerror(st));
+	return reg;
+}
+
+/* Adds to the record what a reviewer needs to re-derive each result:
+ * acids, specifications and titrant lots used, the decision rule,
+ * counts, and each result with its report_id. */
+static int
+fill_record(run_record *rec, const al_assay *run)
+{
+	json_t *acids = json_array(), *specs = json_array();
+	json_t *lots = json_array(), *results = json_array(), *rule, *counts;
+	al_assay_counts c = al_assay_get_counts(run);
+	size_t n = al_assay_group_count(run);
+	const al_titrant *t;
+	int bad = !acids || !specs || !lots || !results;
+
+	for (size_t i = 0; !bad && i < n; i++) {
+		const al_group_result *r = al_assay_result(run, i);
+		char id[64], flags[512];
+		int seen_acid = 0, seen_spec = 0;
+
+		for (size_t j = 0; j < i; j++) {
+			const al_group_result *q = al_assay_result(run, j);
+
+			seen_acid |= q->acid == r->acid;
+			seen_spec |= r->spec == NULL || q->spec == r->spec;
+		}
+		if (!seen_acid)
+			bad |= json_array_append_new(
+				acids,
+				json_pack("{s:s, s:s, s:f, s:i, s:f, s:s}", "name",
+					  r->acid->name, "formula",
+					  r->acid->formula, "molar_mass_g_mol",
+					  r->acid->molar_mass, "protons",
+					  r->acid->protons, "g_per_meq",
+					  r->acid->g_per_meq, "source",
+					  r->acid->source));
+		if (!seen_spec && r->spec) {
+			const al_spec *sp = r->spec;
+
+			bad |= json_array_append_new(
+				specs,
+				json_pack("{s:s, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
+					  "product", sp->product, "acid",
+					  sp->acid ? sp->acid->name : NULL,
+					  "unit",
+					  sp->has_unit ? al_unit_name(sp->unit)
+						       : NULL,
+					  "min",
+					  sp->has_min ? json_real(sp->min)
+						      : json_null(),
+					  "max",
+					  sp->has_max ? json_real(sp->max)
+						      : json_null(),
+					  "max_rsd_pct",
+					  sp->has_max_rsd ? json_real(sp->max_rsd_pct)
+							  : json_null(),
+					  "min_n", (json_int_t)sp->min_n, "line",
+					  (json_int_t)sp->line));
+		}
+		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
+		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
+				sizeof flags);
+		bad |= json_array_append_new(
+			results,
+			json_pack("{s:s, s:s, s:s, s:s, s:s, s:s, s:I, s:o, s:s, "
+				  "s:s}",
+				  "report_id", id, "product", r->product, "lot",
+				  r->lot, "sample", r->sample, "acid",
+				  r->acid->name, "unit", al_unit_name(r->unit),
+				  "n", (json_int_t)r->stats.n, "mean",
+				  r->stats.n ? json_real(r->stats.mean)
+					     : json_null(),
+				  "status", al_verdict_name(r->verdict), "flags",
+				  flags));
+	}
+	for (size_t i = 0; !bad && (t = al_assay_titrant_used(run, i)); i++) {
+		char on[11], until[11];
+
+		al_date_format(t->standardised_on, on);
+		al_date_format(t->valid_until, until);
+		bad |= json_array_append_new(
+			lots, json_pack("{s:s, s:s, s:f, s:f, s:s, s:s}",
+					"titrant_lot", t->lot, "standard",
+					t->standard, "concentration_mol_l",
+					t->concentration_mol_l, "u_mol_l",
+					t->u_mol_l, "standardised_on", on,
+					"valid_until", until));
+	}
+	rule = json_pack("{s:s, s:s, s:s}", "name", "simple acceptance",
+			 "reference", "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
+			 "statement",
+			 "pass when min <= mean <= max (limits inclusive, the "
+			 "unrounded mean, measurement uncertainty not "
+			 "subtracted); retest when n < min_n or RSD > max_rsd_pct");
+	counts = json_pack("{s:I, s:I, s:I, s:I, s:I, s:I, s:I, s:I}",
+			   "rows_read", (json_int_t)c.rows_read, "rows_used",
+			   (json_int_t)c.rows_used, "rows_rejected",
+			   (json_int_t)c.rows_bad, "results",
+			   (json_int_t)c.groups, "pass",
+			   (json_int_t)c.by_verdict[AL_VERDICT_PASS], "fail",
+			   (json_int_t)c.by_verdict[AL_VERDICT_FAIL], "retest",
+			   (json_int_t)c.by_verdict[AL_VERDICT_RETEST],
+			   "no_spec",
+			   (json_int_t)c.by_verdict[AL_VERDICT_NO_SPEC]);
+	bad |= json_object_set_new(rec->root, "acids", acids) != 0;
+	bad |= json_object_set_new(rec->root, "specifications", specs) != 0;
+	bad |= json_object_set_new(rec->root, "titrant_lots", lots) != 0;
+	bad |= json_object_set_new(rec->root, "results", results) != 0;
+	bad |= rule == NULL ||
+	       json_object_set_new(rec->root, "decision_rule", rule) != 0;
+	bad |= counts == NULL ||
+	       json_object_set_new(rec->root, "counts", counts) != 0;
+	return bad ? -1 : 0;
+}
+
 int
 cmd_assay(int argc, char **argv)
 {
@@ -548,8 +695,12 @@ cmd_assay(int argc, char **argv)
 	al_spec_table *specs = NULL;
 	al_assay *run = NULL;
 	al_outfile *rep_out = NULL, *rej_out = NULL, *report = NULL;
+	al_outfile *rec_out = NULL;
 	al_column_alias *aliases = NULL;
+	al_register *titrants = NULL;
 	size_t n_aliases = 0;
+	run_record rec;
+	char record_path[4096];
 	struct sink reps, rejs;
 	al_diags spec_diags = {0};
 	al_status st;
@@ -557,6 +708,7 @@ cmd_assay(int argc, char **argv)
 	const char *out_name;
 
 	memset(&a, 0, sizeof a);
+	memset(&rec, 0, sizeof rec);
 	a.ropt.decimals = -1;
 	switch (parse_args(argc, argv, &a)) {
 	case 1:
@@ -567,9 +719,14 @@ cmd_assay(int argc, char **argv)
 	if (!outputs_safe(&a, argc, argv))
 		return EXIT_TROUBLE;
 	out_name = a.output ? a.output : "standard output";
+	if (record_start(&rec, "assay", argc, argv, a.analyst) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		goto out;
+	}
+	a.aopt.today = rec.today;
 	cat = cli_catalogue();
 	if (cat == NULL)
-		return EXIT_TROUBLE;
+		goto out;
 	a.aopt.catalogue = cat;
 	if (a.acid) {
 		a.aopt.default_acid = al_catalogue_find(cat, a.acid);
@@ -592,11 +749,23 @@ cmd_assay(int argc, char **argv)
 		goto out;
 	a.aopt.aliases = aliases;
 	a.aopt.n_aliases = n_aliases;
+	if (a.columns_file && hash_input(&rec, "column map", a.columns_file, -1))
+		goto out;
 	if (a.spec) {
 		specs = load_spec(&a, cat, &spec_diags);
-		if (specs == NULL)
+		if (specs == NULL ||
+		    hash_input(&rec, "specification", a.spec,
+			       (long)al_spec_count(specs)))
 			goto out;
 		a.aopt.specs = specs;
+	}
+	if (a.titrants) {
+		titrants = load_titrants(a.titrants);
+		if (titrants == NULL ||
+		    hash_input(&rec, "titrant register", a.titrants,
+			       (long)al_register_count(titrants)))
+			goto out;
+		a.aopt.titrants = titrants;
 	}
 	reps.ropt = rejs.ropt = &a.ropt;
 	reps.count = rejs.count = 0;
@@ -624,16 +793,31 @@ cmd_assay(int argc, char **argv)
 		const char *name = argv[i];
 		int is_stdin = strcmp(name, "-") == 0;
 		FILE *in = is_stdin ? stdin : fopen(name, "rb");
+		unsigned long before = al_assay_get_counts(run).rows_read;
+		hashing_reader h;
+		char hex[65];
 
 		if (in == NULL) {
-			cli_error("%s: %s", name, strerror(errno));
+			cli_error("%s: %s", name, cli_reason(AL_OK));
 			bad = 1;
 			continue;
 		}
-		st = al_assay_read(run, in, is_stdin ? "<stdin>" : name,
-				   rep_out ? write_replicate : NULL, &reps);
+		/* hash the bytes as they are read: the record says what was
+		 * used, even for standard input */
+		hashing_reader_init(&h, in);
+		st = al_assay_read_source(run, hashing_read, &h,
+					  is_stdin ? "<stdin>" : name,
+					  rep_out ? write_replicate : NULL, &reps);
 		if (!is_stdin)
 			fclose(in);
+		hashing_reader_hex(&h, hex);
+		if (record_input(&rec, "titrations", name, h.bytes,
+				 (long)(al_assay_get_counts(run).rows_read -
+					before),
+				 hex) != 0) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			goto out;
+		}
 		if (st == AL_EIO) {
 			cli_error("%s: read or write error", name);
 			bad = 1;
@@ -663,6 +847,12 @@ cmd_assay(int argc, char **argv)
 		cli_error("%s", al_strerror(st));
 		goto out;
 	}
+	/* the run's id, in every report row and in the record */
+	if (record_seal(&rec) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		goto out;
+	}
+	a.ropt.report_id = rec.id;
 	report = open_output(a.output ? a.output : "-", NULL, &a.ropt);
 	if (report == NULL)
 		goto out;
@@ -672,30 +862,47 @@ cmd_assay(int argc, char **argv)
 	}
 	/* every output checked before any of them appears */
 	if (al_outfile_prepare(report) != AL_OK) {
-		cli_error("%s: %s", out_name, strerror(errno));
+		cli_error("%s: %s", out_name, cli_reason(AL_OK));
 		goto out;
 	}
 	if (rep_out && al_outfile_prepare(rep_out) != AL_OK) {
-		cli_error("%s: %s", a.replicates, strerror(errno));
+		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
 		goto out;
 	}
 	if (rej_out && al_outfile_prepare(rej_out) != AL_OK) {
-		cli_error("%s: %s", a.rejects, strerror(errno));
+		cli_error("%s: %s", a.rejects, cli_reason(AL_OK));
 		goto out;
 	}
-	st = al_outfile_commit(report);
-	report = NULL;
-	if (st == AL_OK && rep_out) {
-		st = al_outfile_commit(rep_out);
-		rep_out = NULL;
+	if (a.record || (a.output && strcmp(a.output, "-") != 0)) {
+		const char *path = a.record;
+
+		if (path == NULL) {
+			snprintf(record_path, sizeof record_path,
+				 "%s.record.json", a.output);
+			path = record_path;
+		}
+		rec_out = al_outfile_open(path, &st);
+		if (rec_out == NULL ||
+		    (a.output && strcmp(a.output, "-") != 0 &&
+		     record_output(&rec, "report", a.output,
+				   al_outfile_written_path(report))) ||
+		    (rep_out && record_output(&rec, "replicates", a.replicates,
+					      al_outfile_written_path(rep_out))) ||
+		    (rej_out && record_output(&rec, "rejects", a.rejects,
+					      al_outfile_written_path(rej_out))) ||
+		    fill_record(&rec, run) != 0 ||
+		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
+		    al_outfile_prepare(rec_out) != AL_OK) {
+			cli_error("%s: cannot write the record of the run: %s",
+				  path, cli_reason(AL_OK));
+			goto out;
+		}
 	}
-	if (st == AL_OK && rej_out) {
-		st = al_outfile_commit(rej_out);
-		rej_out = NULL;
-	}
-	if (st != AL_OK) {
-		cli_error("cannot put the outputs in place: %s", strerror(errno));
-		goto out;
+	{
+		al_outfile **all[] = {&report, &rep_out, &rej_out, &rec_out};
+
+		if (cli_commit_all(all, 4) != 0)
+			goto out;
 	}
 	endpoint_warnings(run);
 	summary(run, &a, rejs.count);
@@ -711,10 +918,13 @@ out:
 	al_outfile_abort(rep_out);
 	al_outfile_abort(rej_out);
 	al_outfile_abort(report);
+	al_outfile_abort(rec_out);
 	al_assay_free(run);
 	al_spec_table_free(specs);
 	al_diags_clear(&spec_diags);
 	free_columns(&a, aliases, n_aliases);
+	al_register_free(titrants);
 	al_catalogue_free(cat);
+	record_free(&rec);
 	return rc;
 }

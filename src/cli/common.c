@@ -1,7 +1,9 @@
 /* acidlot command line: messages and option helpers.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <errno.h>
 #include <stdarg.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "cli.h"
 
@@ -98,4 +100,71 @@ cli_list_acids(const al_catalogue *cat)
 	for (size_t i = 0; i < al_catalogue_acid_count(cat); i++)
 		fprintf(stderr, " %s", al_catalogue_acid(cat, i)->name);
 	fputc('\n', stderr);
+}
+
+int
+cli_delimiter(const char *text, char *out)
+{
+	if (strcmp(text, ",") == 0 || strcmp(text, "comma") == 0)
+		*out = ',';
+	else if (strcmp(text, ";") == 0 || strcmp(text, "semicolon") == 0)
+		*out = ';';
+	else if (strcmp(text, "tab") == 0 || strcmp(text, "\t") == 0 ||
+		 strcmp(text, "\\t") == 0)
+		*out = '\t';
+	else if (strcmp(text, "auto") == 0)
+		*out = AL_CSV_AUTO;
+	else
+		return -1;
+	return 0;
+}
+
+int
+cli_same_file(const char *a, const char *b)
+{
+	struct stat sa, sb;
+
+	return stat(a, &sa) == 0 && stat(b, &sb) == 0 &&
+	       sa.st_dev == sb.st_dev && sa.st_ino == sb.st_ino;
+}
+
+const char *
+cli_reason(al_status st)
+{
+	if (st == AL_ENOMEM || errno == ENOMEM)
+		return al_strerror(AL_ENOMEM);
+	return strerror(errno);
+}
+
+int
+cli_commit_all(al_outfile **files[], size_t n)
+{
+	al_status st = AL_OK;
+
+	for (size_t i = 0; i < n; i++) {
+		if (*files[i] == NULL)
+			continue;
+		if (st == AL_OK)
+			st = al_outfile_commit(*files[i]);
+		else
+			al_outfile_abort(*files[i]);
+		*files[i] = NULL;
+	}
+	if (st != AL_OK) {
+		cli_error("cannot put the outputs in place: %s", cli_reason(st));
+		return -1;
+	}
+	return 0;
+}
+
+int
+cli_check_decimal_comma(const char *cmd, const al_csv_options *csv)
+{
+	if (csv->decimal_point == ',' &&
+	    (csv->delimiter == 0 || csv->delimiter == ','))
+		return cli_usage_error(cmd,
+				       "--decimal-comma needs a delimiter other "
+				       "than ',': add --delimiter ';' (or tab, "
+				       "or auto)");
+	return 0;
 }

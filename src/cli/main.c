@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "record.h"
 
 static void
 usage(FILE *out)
@@ -20,6 +21,11 @@ usage(FILE *out)
 	      "                  protons, g/meq, pKa, source)\n"
 	      "  convert V UNIT  convert a titratable acidity between acids\n"
 	      "                  and units\n"
+	      "  standardize FILE...  titrant concentration from primary-standard\n"
+	      "                  titrations, with its uncertainty; updates the\n"
+	      "                  titrant register\n"
+	      "  verify RECORD.json   check that a run's inputs and outputs are\n"
+	      "                  unchanged\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -40,6 +46,7 @@ main(int argc, char **argv)
 	const char *fail_at = getenv("ACIDLOT_FAIL_ALLOC_AT");
 	int rc;
 
+	record_use_library_alloc();
 	if (fail_at && *fail_at)
 		al_alloc_fail_at(strtoul(fail_at, NULL, 10));
 	else
@@ -79,5 +86,9 @@ dispatch(int argc, char **argv)
 		return cmd_acids(argc - 1, argv + 1);
 	if (strcmp(cmd, "convert") == 0)
 		return cmd_convert(argc - 1, argv + 1);
+	if (strcmp(cmd, "standardize") == 0 || strcmp(cmd, "standardise") == 0)
+		return cmd_standardize(argc - 1, argv + 1);
+	if (strcmp(cmd, "verify") == 0)
+		return cmd_verify(argc - 1, argv + 1);
 	return cli_usage_error(NULL, "unknown command '%s'", cmd);
 }

@@ -19,6 +19,9 @@ ACIDLOT=$(cd "$(dirname "$2")" && pwd)/$(basename "$2")
 SAMPLES=$3
 regen=${4:-}
 export ACIDLOT SAMPLES
+# a fixed run time (2026-12-02T00:00:00Z), so records and report ids repeat
+SOURCE_DATE_EPOCH=1796169600
+export SOURCE_DATE_EPOCH
 name=$(basename "$case_dir")
 work=$(mktemp -d)
 tools=$(mktemp -d)

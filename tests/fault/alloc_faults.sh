@@ -11,6 +11,8 @@ work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 wrap=$(cd "$(dirname "$0")/.." && pwd)/wrap.sh
 fails=0
+SOURCE_DATE_EPOCH=1796169600
+export SOURCE_DATE_EPOCH
 # every index normally; under valgrind (slow) every 7th, ASan covers the rest
 step=1
 [ -n "${ACIDLOT_VALGRIND:-}" ] && step=7
@@ -44,10 +46,20 @@ scenario() {
 	echo "$name: $total allocation failures each handled"
 }
 
+# a register for the assay scenario, outside the scratch folder
+"$bin" standardize "$samples/standardisation.csv" -o "$work/../reg-$$.csv" \
+	>/dev/null 2>&1
+reg=$work/../reg-$$.csv
+trap 'rm -rf "$work" "$reg" "$reg.record.json"' EXIT
 scenario demo assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
-	-o out.csv -r reps.csv
+	--titrants "$reg" -o out.csv -r reps.csv
+scenario standardize standardize "$samples/standardisation.csv" \
+	-o reg.csv --budget budget.csv
+cp "$reg" "$work/../keep-$$.csv"
+scenario verify verify "$reg.record.json" 
 scenario rejects assay "$messy" --rejects rej.csv -o out.csv --delimiter auto \
 	--column "titrant_ml=Vol (mL)"
+rm -f "$work/../keep-$$.csv"
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
 if [ $fails -ne 0 ]; then

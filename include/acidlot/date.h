@@ -1,0 +1,14 @@
+/* acidlot: calendar dates as day numbers (ISO 8601 YYYY-MM-DD).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_DATE_H
+#define ACIDLOT_DATE_H
+
+#include <stddef.h>
+
+/* Days since 1970-01-01 of a proleptic Gregorian date, from "YYYY-MM-DD"
+ * (years 1900-9999; the day must exist). Returns 0 and sets *days, or -1. */
+int al_date_parse(const char *s, size_t len, long *days);
+/* Writes "YYYY-MM-DD" (11 bytes with the NUL) for a day number. */
+void al_date_format(long days, char buf[11]);
+
+#endif

@@ -1,0 +1,498 @@
+/* acidlot command line: the standardize command (titrant register).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <errno.h>
+#include <getopt.h>
+#include <math.h>
+#include <string.h>
+#include <sys/stat.h>
+
+#include "cli.h"
+#include "record.h"
+
+static void
+usage(FILE *out)
+{
+	fputs("Usage: " PROG " standardize [OPTION]... FILE...\n"
+	      "Concentration of each titrant lot from titrations of a primary\n"
+	      "standard (c = 1000 m P / (M V)), its uncertainty (Eurachem/CITAC\n"
+	      "QUAM example A2) and acceptance; updates the titrant register.\n"
+	      "FILE columns: titrant_lot, standard (default KHP), mass_g,\n"
+	      "purity (default the standard's), titrant_ml, blank_ml, date.\n"
+	      "\n"
+	      "  -o, --register FILE      titrant register to create or update\n"
+	      "                           (other lots in it are kept)\n"
+	      "      --budget FILE        uncertainty budget per lot (CSV)\n"
+	      "      --record FILE        record of the run (default\n"
+	      "                           REGISTER.record.json)\n"
+	      "      --analyst NAME       who ran it, for the record\n"
+	      "      --max-rsd PCT        largest RSD accepted (default 0.2)\n"
+	      "      --min-n N            fewest replicates accepted (default 3)\n"
+	      "      --valid-days D       days a standardisation stays valid\n"
+	      "                           (default 30)\n"
+	      "      --balance-linearity-g X  balance linearity, +/- g per\n"
+	      "                           weighing (default 0.00015)\n"
+	      "      --burette-tol-ml X   burette tolerance, +/- mL (default 0.03)\n"
+	      "      --temp-range-c X     lab temperature range, +/- K about the\n"
+	      "                           burette's calibration (default 3)\n"
+	      "      --k K                coverage factor (default 2)\n"
+	      "      --delimiter D, --decimal-comma   as for assay\n"
+	      "  -h, --help               this help\n"
+	      "\n"
+	      "Writes one line per lot to standard output. Exit status: 0 every\n"
+	      "lot accepted; 1 at least one not accepted (it is written to the\n"
+	      "register as not valid); 2 usage, input or I/O error.\n",
+	      out);
+}
+
+enum {
+	OPT_BUDGET = 256, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
+	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
+	OPT_DELIMITER, OPT_DECIMAL_COMMA
+};
+
+static const struct option options[] = {
+	{"register", required_argument, NULL, 'o'},
+	{"budget", required_argument, NULL, OPT_BUDGET},
+	{"record", required_argument, NULL, OPT_RECORD},
+	{"analyst", required_argument, NULL, OPT_ANALYST},
+	{"max-rsd", required_argument, NULL, OPT_MAX_RSD},
+	{"min-n", required_argument, NULL, OPT_MIN_N},
+	{"valid-days", required_argument, NULL, OPT_VALID_DAYS},
+	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
+	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
+	{"temp-range-c", required_argument, NULL, OPT_TEMP},
+	{"k", required_argument, NULL, OPT_K},
+	{"delimiter", required_argument, NULL, OPT_DELIMITER},
+	{"decimal-comma", no_argument, NULL, OPT_DECIMAL_COMMA},
+	{"help", no_argument, NULL, 'h'},
+	{NULL, 0, NULL, 0},
+};
+
+struct args {
+	const char *reg, *budget, *record, *analyst;
+	al_std_params p;
+	al_csv_options csv;
+};
+
+/* A positive option value, or -1 after a usage error. */
+static int
+positive(const char *option, double *v, int allow_zero)
+{
+	if (cli_number("standardize", option, optarg, v))
+		return -1;
+	if (allow_zero ? !(*v >= 0) : !(*v > 0)) {
+		cli_usage_error("standardize", "%s must be %s", option,
+				allow_zero ? "0 or more" : "above 0");
+		return -1;
+	}
+	return 0;
+}
+
+static int
+parse_args(int argc, char **argv, struct args *a)
+{
+	int c;
+	double v;
+
+	optind = 1;
+	opterr = 0;
+	while ((c = getopt_long(argc, argv, ":o:h", options, NULL)) != -1) {
+		switch (c) {
+		case 'o':
+			a->reg = optarg;
+			break;
+		case OPT_BUDGET:
+			a->budget = optarg;
+			break;
+		case OPT_RECORD:
+			a->record = optarg;
+			break;
+		case OPT_ANALYST:
+			a->analyst = optarg;
+			break;
+		case OPT_MAX_RSD:
+			if (positive("--max-rsd", &a->p.max_rsd_pct, 0))
+				return -1;
+			break;
+		case OPT_MIN_N:
+			if (positive("--min-n", &v, 0))
+				return -1;
+			if (v != floor(v) || v > 1000)
+				return cli_usage_error("standardize",
+						       "--min-n takes a whole "
+						       "number up to 1000"),
+				       -1;
+			a->p.min_n = (size_t)v;
+			break;
+		case OPT_VALID_DAYS:
+			if (positive("--valid-days", &v, 0))
+				return -1;
+			if (v != floor(v) || v > 3650)
+				return cli_usage_error("standardize",
+						       "--valid-days takes a "
+						       "whole number up to 3650"),
+				       -1;
+			a->p.valid_days = (long)v;
+			break;
+		case OPT_BALANCE:
+			if (positive("--balance-linearity-g",
+				     &a->p.balance_linearity_g, 1))
+				return -1;
+			break;
+		case OPT_BURETTE:
+			if (positive("--burette-tol-ml", &a->p.burette_tol_ml, 1))
+				return -1;
+			break;
+		case OPT_TEMP:
+			if (positive("--temp-range-c", &a->p.temp_range_c, 1))
+				return -1;
+			break;
+		case OPT_K:
+			if (positive("--k", &a->p.k, 0))
+				return -1;
+			break;
+		case OPT_DELIMITER:
+			if (cli_delimiter(optarg, &a->csv.delimiter))
+				return cli_usage_error("standardize",
+						       "--delimiter: '%s' is not "
+						       "',', ';', tab or auto",
+						       optarg),
+				       -1;
+			break;
+		case OPT_DECIMAL_COMMA:
+			a->csv.decimal_point = ',';
+			break;
+		case 'h':
+			usage(stdout);
+			return 1;
+		case ':':
+			return cli_usage_error("standardize",
+					       "option '%s' needs a value",
+					       argv[optind - 1]),
+			       -1;
+		default:
+			return cli_usage_error("standardize",
+					       "unknown option '%s'",
+					       argv[optind - 1]),
+			       -1;
+		}
+	}
+	if (optind >= argc)
+		return cli_usage_error("standardize",
+				       "no standardisation file given"),
+		       -1;
+	return cli_check_decimal_comma("standardize", &a->csv) ? -1 : 0;
+}
+
+static void
+number(FILE *out, double v, int sig)
+{
+	char buf[64];
+
+	snprintf(buf, sizeof buf, "%.*g", sig, v);
+	fprintf(out, ",%s", buf);
+}
+
+static void
+summary_line(FILE *out, const al_std_lot *l, const al_titrant *t, double k)
+{
+	char on[11], until[11];
+
+	al_csv_put_field(out, l->lot, ',');
+	fprintf(out, ",%s,%zu", l->standard->name, l->n);
+	number(out, l->mean, 10);
+	if (l->has_sd) {
+		number(out, l->sd, 4);
+		number(out, l->rsd_pct, 4);
+	} else
+		fputs(",,", out);
+	number(out, l->budget.u, 3);
+	number(out, l->U, 3);
+	number(out, k, 3);
+	al_date_format(t->standardised_on, on);
+	al_date_format(t->valid_until, until);
+	fprintf(out, ",%s,%s,%s,", on, until, l->valid ? "accepted" : "rejected");
+	al_csv_put_field(out, l->valid ? "" : l->why, ',');
+	putc('\n', out);
+}
+
+static void
+budget_lines(FILE *out, const al_std_lot *l)
+{
+	double total = l->budget.u * l->budget.u;
+
+	for (size_t i = 0; i < l->budget.n_items; i++) {
+		const al_budget_item *it = &l->budget.items[i];
+		/* contributions scaled to the mean of the replicates */
+		double contribution = it->contribution * l->mean / l->budget.c;
+
+		al_csv_put_field(out, l->lot, ',');
+		putc(',', out);
+		al_csv_put_field(out, it->name, ',');
+		number(out, it->value, 8);
+		fprintf(out, ",%s", it->unit);
+		number(out, it->u, 4);
+		number(out, it->sensitivity * l->mean / l->budget.c, 6);
+		number(out, contribution, 4);
+		number(out, total > 0 ? 100 * contribution * contribution / total
+				      : 0,
+		       3);
+		putc('\n', out);
+	}
+}
+
+static al_register *
+load_register(const char *path, al_status *st, int *existed)
+{
+	al_diags d = {0};
+	al_register *reg;
+	FILE *in = fopen(path, "rb");
+
+	*existed = in != NULL;
+	if (in == NULL) {
+		if (errno != ENOENT) {
+			cli_error("%s: %s", path, cli_reason(AL_OK));
+			*st = AL_EIO;
+			return NULL;
+		}
+		reg = al_register_new(st);
+		if (reg == NULL)
+			cli_error("%s", al_strerror(*st));
+		return reg;
+	}
+	reg = al_register_read(in, path, st, &d);
+	fclose(in);
+	cli_print_diags(&d);
+	al_diags_clear(&d);
+	if (reg == NULL)
+		cli_error("%s: cannot read the titrant register (%s)", path,
+			  al_strerror(*st));
+	return reg;
+}
+
+int
+cmd_standardize(int argc, char **argv)
+{
+	struct args a;
+	al_catalogue *cat = NULL;
+	al_std_run *run = NULL;
+	al_register *reg = NULL;
+	al_outfile *reg_out = NULL, *budget_out = NULL, *rec_out = NULL;
+	run_record rec;
+	char record_path[4096];
+	al_status st;
+	int rc = EXIT_TROUBLE, existed = 0, any_rejected = 0, bad = 0;
+
+	memset(&a, 0, sizeof a);
+	memset(&rec, 0, sizeof rec);
+	al_std_params_default(&a.p);
+	switch (parse_args(argc, argv, &a)) {
+	case 1:
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	case -1:
+		return EXIT_TROUBLE;
+	}
+	if (record_start(&rec, "standardize", argc, argv, a.analyst) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		goto out;
+	}
+	cat = cli_catalogue();
+	if (cat == NULL)
+		goto out;
+	run = al_std_new(cat, &a.p, rec.today, &st);
+	if (run == NULL) {
+		cli_error("%s", al_strerror(st));
+		goto out;
+	}
+	for (int i = optind; i < argc; i++) {
+		FILE *in = strcmp(argv[i], "-") == 0 ? stdin : fopen(argv[i], "rb");
+		hashing_reader h;
+		char hex[65];
+
+		if (in == NULL) {
+			cli_error("%s: %s", argv[i], cli_reason(AL_OK));
+			bad = 1;
+			continue;
+		}
+		if (a.reg && in != stdin && cli_same_file(argv[i], a.reg)) {
+			cli_usage_error("standardize",
+					"'%s' is both an input and the register",
+					argv[i]);
+			fclose(in);
+			goto out;
+		}
+		hashing_reader_init(&h, in);
+		st = al_std_read_source(run, hashing_read, &h,
+					in == stdin ? "<stdin>" : argv[i], &a.csv);
+		if (in != stdin)
+			fclose(in);
+		if (st == AL_ENOMEM) {
+			cli_error("%s", al_strerror(st));
+			goto out;
+		}
+		if (st != AL_OK)
+			bad = 1;
+		hashing_reader_hex(&h, hex);
+		if (record_input(&rec, "standardisation", argv[i], h.bytes, -1,
+				 hex) != 0) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			goto out;
+		}
+	}
+	cli_print_diags(al_std_diags(run));
+	if (bad || al_std_diags(run)->errors > 0) {
+		cli_error("%lu error%s in the input; register not changed",
+			  al_std_diags(run)->errors,
+			  al_std_diags(run)->errors == 1 ? "" : "s");
+		goto out;
+	}
+	if (al_std_finish(run) != AL_OK) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		goto out;
+	}
+	if (a.reg) {
+		char hex[65];
+		unsigned long long bytes;
+
+		reg = load_register(a.reg, &st, &existed);
+		if (reg == NULL)
+			goto out;
+		if (existed && (sha256_file(a.reg, hex, &bytes) != 0 ||
+				record_input(&rec, "previous register", a.reg,
+					     bytes, -1, hex) != 0)) {
+			cli_error("%s: cannot hash it", a.reg);
+			goto out;
+		}
+	} else if ((reg = al_register_new(&st)) == NULL) {
+		cli_error("%s", al_strerror(st));
+		goto out;
+	}
+	fputs("titrant_lot,standard,n,concentration_mol_l,sd_mol_l,rsd_pct,"
+	      "u_mol_l,U_mol_l,k,standardised_on,valid_until,status,reason\n",
+	      stdout);
+	for (size_t i = 0; i < al_std_lot_count(run); i++) {
+		const al_std_lot *l = al_std_lot_at(run, i);
+		al_titrant t;
+
+		memset(&t, 0, sizeof t);
+		t.lot = (char *)l->lot;
+		t.standard = l->standard->name;
+		t.concentration_mol_l = l->mean;
+		t.u_mol_l = l->budget.u;
+		t.n = l->n;
+		t.has_rsd = l->has_sd;
+		t.rsd_pct = l->rsd_pct;
+		t.standardised_on = l->date;
+		t.valid_until = l->date + a.p.valid_days;
+		t.valid = l->valid;
+		if (!l->valid)
+			any_rejected = 1;
+		if (al_register_put(reg, &t) != AL_OK) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			goto out;
+		}
+		summary_line(stdout, l, &t, a.p.k);
+	}
+	if (a.budget) {
+		budget_out = al_outfile_open(a.budget, &st);
+		if (budget_out == NULL) {
+			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
+			goto out;
+		}
+		fputs("titrant_lot,component,value,unit,standard_uncertainty,"
+		      "sensitivity,contribution_mol_l,share_pct\n",
+		      al_outfile_stream(budget_out));
+		for (size_t i = 0; i < al_std_lot_count(run); i++)
+			budget_lines(al_outfile_stream(budget_out),
+				     al_std_lot_at(run, i));
+		if (al_outfile_prepare(budget_out) != AL_OK) {
+			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
+			goto out;
+		}
+	}
+	if (a.reg) {
+		reg_out = al_outfile_open(a.reg, &st);
+		if (reg_out == NULL) {
+			cli_error("%s: %s", a.reg, cli_reason(AL_OK));
+			goto out;
+		}
+		if (al_register_write(al_outfile_stream(reg_out), reg) != AL_OK ||
+		    al_outfile_prepare(reg_out) != AL_OK) {
+			cli_error("%s: write error", a.reg);
+			goto out;
+		}
+	}
+	if (fflush(stdout) != 0 || ferror(stdout)) {
+		cli_error("write error on standard output");
+		goto out;
+	}
+	if (a.record || a.reg) {
+		json_t *lots = json_array(), *params;
+		const char *path = a.record;
+
+		if (path == NULL) {
+			snprintf(record_path, sizeof record_path,
+				 "%s.record.json", a.reg);
+			path = record_path;
+		}
+		params = json_pack("{s:f, s:f, s:f, s:f, s:f, s:f, s:I, s:I}",
+				   "balance_linearity_g", a.p.balance_linearity_g,
+				   "burette_tol_ml", a.p.burette_tol_ml,
+				   "temp_range_c", a.p.temp_range_c,
+				   "expansion_per_k", a.p.expansion_per_k, "k",
+				   a.p.k, "max_rsd_pct", a.p.max_rsd_pct, "min_n",
+				   (json_int_t)a.p.min_n, "valid_days",
+				   (json_int_t)a.p.valid_days);
+		for (size_t i = 0; lots && i < al_std_lot_count(run); i++) {
+			const al_std_lot *l = al_std_lot_at(run, i);
+
+			if (json_array_append_new(
+				    lots,
+				    json_pack("{s:s, s:s, s:f, s:f, s:f, s:I, s:b}",
+					      "titrant_lot", l->lot, "standard",
+					      l->standard->name,
+					      "concentration_mol_l", l->mean,
+					      "u_mol_l", l->budget.u, "U_mol_l",
+					      l->U, "n", (json_int_t)l->n,
+					      "accepted", l->valid)) != 0) {
+				json_decref(lots);
+				lots = NULL;
+			}
+		}
+		rec_out = al_outfile_open(path, &st);
+		if (lots == NULL || params == NULL || rec_out == NULL ||
+		    json_object_set_new(rec.root, "titrant_lots", lots) ||
+		    json_object_set_new(rec.root, "uncertainty_model", params) ||
+		    (budget_out &&
+		     record_output(&rec, "budget", a.budget,
+				   al_outfile_written_path(budget_out))) ||
+		    (reg_out && record_output(&rec, "register", a.reg,
+					      al_outfile_written_path(reg_out))) ||
+		    record_seal(&rec) != 0 ||
+		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
+		    al_outfile_prepare(rec_out) != AL_OK) {
+			cli_error("%s: cannot write the record: %s", path,
+				  cli_reason(AL_OK));
+			goto out;
+		}
+	}
+	{
+		al_outfile **all[] = {&budget_out, &reg_out, &rec_out};
+
+		if (cli_commit_all(all, 3) != 0)
+			goto out;
+	}
+	rc = any_rejected ? EXIT_NOT_PASS : EXIT_ALL_PASS;
+	fprintf(stderr, PROG ": %zu titrant lot%s standardised%s\n",
+		al_std_lot_count(run), al_std_lot_count(run) == 1 ? "" : "s",
+		any_rejected ? "; some not accepted (see status)" : "");
+out:
+	al_outfile_abort(reg_out);
+	al_outfile_abort(budget_out);
+	al_outfile_abort(rec_out);
+	al_register_free(reg);
+	al_std_free(run);
+	al_catalogue_free(cat);
+	record_free(&rec);
+	return rc;
+}

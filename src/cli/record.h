@@ -1,0 +1,54 @@
+/* acidlot command line: the record of a run (JSON) and file hashing.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_CLI_RECORD_H
+#define ACIDLOT_CLI_RECORD_H
+
+#include <jansson.h>
+#include <nettle/sha2.h>
+#include <stdio.h>
+
+#include "acidlot/acidlot.h"
+
+/* A source that hashes and counts what it reads, for al_csv_read. */
+typedef struct hashing_reader {
+	FILE *in;
+	struct sha256_ctx ctx;
+	unsigned long long bytes;
+} hashing_reader;
+
+void hashing_reader_init(hashing_reader *h, FILE *in);
+size_t hashing_read(void *ctx, void *buf, size_t cap, int *failed);
+void hashing_reader_hex(hashing_reader *h, char hex[65]);
+
+/* SHA-256 of a whole file; 0 on success. */
+int sha256_file(const char *path, char hex[65], unsigned long long *bytes);
+
+typedef struct run_record {
+	json_t *root;
+	json_t *inputs, *outputs;
+	long today;  /* day number of the run (UTC) */
+	char id[16]; /* the run's report id, set by record_seal */
+} run_record;
+
+/* Starts a record: program, version, command line, UTC time (or
+ * SOURCE_DATE_EPOCH when set, for reproducible tests), analyst. 0 on
+ * success, -1 out of memory. */
+int record_start(run_record *r, const char *command, int argc, char **argv,
+		 const char *analyst);
+int record_input(run_record *r, const char *role, const char *path,
+		 unsigned long long bytes, long rows, const char *sha256);
+/* Lists an output under its path, hashing the bytes now at written_path
+ * (its temporary file before the rename). */
+int record_output(run_record *r, const char *role, const char *path,
+		  const char *written_path);
+/* Derives the run's id from the time, command line and input hashes, and
+ * stores it ("report_id"). */
+int record_seal(run_record *r);
+/* Writes the record as JSON; 0 on success. */
+int record_write(run_record *r, FILE *out);
+void record_free(run_record *r);
+
+/* Sets jansson to allocate through al_malloc/al_free. */
+void record_use_library_alloc(void);
+
+#endif

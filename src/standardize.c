@@ -1,0 +1,439 @@
+/* acidlot: standardisation of a base against a primary standard.
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Model and uncertainty sources as Eurachem/CITAC QUAM (3rd ed. 2012)
+ * example A2: c = 1000 m P / (M V) with the balance (linearity, counted
+ * for the tare and the gross weighing), the purity of the standard, its
+ * molar mass (from the atomic weights), the burette (calibration
+ * tolerance, triangular) and the temperature (volume expansion of water,
+ * rectangular), and the repeatability of the replicates. */
+#include "acidlot/standardize.h"
+
+#include <gsl/gsl_statistics_double.h>
+#include <math.h>
+#include <string.h>
+
+#include "acidlot/alloc.h"
+#include "acidlot/date.h"
+#include "acidlot/number.h"
+#include "acidlot/table.h"
+
+void
+al_std_params_default(al_std_params *p)
+{
+	/* QUAM A2 (seen in its table and text): balance linearity
+	 * +/-0.15 mg; 2.1e-4 /K volume expansion of water. Burette
+	 * tolerance +/-0.03 mL and +/-3 K: QUAM A2's figures for its piston
+	 * burette and lab (from memory); set your own. */
+	p->balance_linearity_g = 0.00015;
+	p->burette_tol_ml = 0.03;
+	p->temp_range_c = 3;
+	p->expansion_per_k = 2.1e-4;
+	p->k = 2;
+	/* Replicates of a standardisation usually agree within 0.1-0.2 %;
+	 * QUAM A2's repeatability is 0.05 % (common practice). */
+	p->max_rsd_pct = 0.2;
+	p->min_n = 3;
+	p->valid_days = 30;
+}
+
+double
+al_std_concentration(double mass_g, double purity, double molar_mass,
+		     double volume_ml)
+{
+	return 1000.0 * mass_g * purity / (molar_mass * volume_ml);
+}
+
+static void
+item(al_budget *b, const char *name, const char *unit, double value,
+     double u, double sensitivity)
+{
+	al_budget_item *it = &b->items[b->n_items++];
+
+	it->name = name;
+	it->unit = unit;
+	it->value = value;
+	it->u = u;
+	it->sensitivity = sensitivity;
+	it->contribution = fabs(sensitivity) * u;
+}
+
+void
+al_std_uncertainty(const al_std_inputs *in, al_budget *b)
+{
+	double c = al_std_concentration(in->mass_g, in->purity, in->molar_mass,
+					in->volume_ml);
+	double var = 0;
+
+	memset(b, 0, sizeof *b);
+	b->c = c;
+	/* dc/dx = c/x for m and P, -c/x for M and V */
+	item(b, "repeatability", "", 1.0, in->rep_rel, c);
+	item(b, "mass of standard", "g", in->mass_g, in->u_mass_g,
+	     c / in->mass_g);
+	item(b, "purity of standard", "", in->purity, in->u_purity,
+	     c / in->purity);
+	item(b, "molar mass of standard", "g/mol", in->molar_mass,
+	     in->u_molar_mass, -c / in->molar_mass);
+	item(b, "titrant volume: burette", "mL", in->volume_ml,
+	     in->u_volume_ml, -c / in->volume_ml);
+	if (in->u_volume_temp_ml > 0)
+		item(b, "titrant volume: temperature", "mL", in->volume_ml,
+		     in->u_volume_temp_ml, -c / in->volume_ml);
+	for (size_t i = 0; i < b->n_items; i++)
+		var += b->items[i].contribution * b->items[i].contribution;
+	b->u = sqrt(var);
+	b->rel_u = b->u / c;
+}
+
+struct row {
+	double c, mass, purity, volume; /* volume net of the blank */
+	long date;
+};
+
+struct lot {
+	char *name;
+	const al_standard *standard;
+	struct row *rows;
+	size_t n, cap;
+	unsigned long first_line;
+	char *file;
+};
+
+struct al_std_run {
+	const al_catalogue *cat;
+	al_std_params p;
+	long today;
+	al_diags diags;
+	struct lot *lots;
+	size_t n_lots, cap_lots;
+	al_std_lot *results;
+	char **files;
+	size_t n_files;
+	/* per file */
+	const char *file;
+	int header_done, header_ok;
+	size_t header_fields;
+	int col[7];
+	char point;
+};
+
+enum { S_LOT, S_STANDARD, S_MASS, S_PURITY, S_TITRANT, S_BLANK, S_DATE };
+static const char *const std_cols[7] = {"titrant_lot", "standard",
+					"mass_g",      "purity",
+					"titrant_ml",  "blank_ml",
+					"date"};
+
+al_std_run *
+al_std_new(const al_catalogue *cat, const al_std_params *p, long today,
+	   al_status *status)
+{
+	al_std_run *run = al_calloc(1, sizeof *run);
+
+	if (run == NULL) {
+		*status = AL_ENOMEM;
+		return NULL;
+	}
+	run->cat = cat;
+	run->p = *p;
+	run->today = today;
+	*status = AL_OK;
+	return run;
+}
+
+void
+al_std_free(al_std_run *run)
+{
+	if (run == NULL)
+		return;
+	for (size_t i = 0; i < run->n_lots; i++) {
+		al_free(run->lots[i].name);
+		al_free(run->lots[i].rows);
+	}
+	for (size_t i = 0; i < run->n_files; i++)
+		al_free(run->files[i]);
+	al_free(run->files);
+	al_free(run->lots);
+	al_free(run->results);
+	al_diags_clear(&run->diags);
+	al_free(run);
+}
+
+al_diags *
+al_std_diags(al_std_run *run)
+{
+	return &run->diags;
+}
+
+size_t
+al_std_lot_count(const al_std_run *run)
+{
+	return run->n_lots;
+}
+
+const al_std_lot *
+al_std_lot_at(const al_std_run *run, size_t i)
+{
+	return run->results && i < run->n_lots ? &run->results[i] : NULL;
+}
+
+#define ERR(run, line, column, ...)                                           \
+	al_diags_add(&(run)->diags, AL_SEV_ERROR, (run)->file, (line),         \
+		     (column), __VA_ARGS__)
+
+static al_status
+std_header(al_std_run *run, const al_csv_row *row)
+{
+	run->header_done = 1;
+	run->header_fields = row->nfields;
+	run->header_ok = al_header_map(row, std_cols, 7, NULL, 0, run->col,
+				       run->file, &run->diags) == AL_OK;
+	for (int k = S_LOT; k <= S_TITRANT; k++) {
+		if (k == S_STANDARD || k == S_PURITY || run->col[k] >= 0)
+			continue;
+		ERR(run, row->line, NULL, "missing required column '%s'",
+		    std_cols[k]);
+		run->header_ok = 0;
+	}
+	return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+}
+
+static struct lot *
+find_lot(al_std_run *run, const char *name, size_t len)
+{
+	for (size_t i = 0; i < run->n_lots; i++)
+		if (strlen(run->lots[i].name) == len &&
+		    memcmp(run->lots[i].name, name, len) == 0)
+			return &run->lots[i];
+	return NULL;
+}
+
+static al_status
+std_row(void *ud, const al_csv_row *row)
+{
+	al_std_run *run = ud;
+	unsigned long errs = run->diags.errors, line = row->line;
+	const char *lot_name, *std_name, *date_text;
+	size_t ll, sl, dl;
+	const al_standard *standard;
+	struct row r;
+	double titrant = 0, blank = 0;
+	struct lot *lot;
+	int got;
+
+	if (!run->header_done)
+		return std_header(run, row);
+	if (!run->header_ok)
+		return AL_OK;
+	if (row->syntax_error) {
+		ERR(run, line, NULL, "%s", row->syntax_error);
+		return AL_OK;
+	}
+	if (row->nfields != run->header_fields) {
+		ERR(run, line, NULL, "%zu fields where the header has %zu",
+		    row->nfields, run->header_fields);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	memset(&r, 0, sizeof r);
+	lot_name = al_cell(row, run->col[S_LOT], &ll);
+	if (ll == 0)
+		ERR(run, line, "titrant_lot", "is empty");
+	std_name = al_cell(row, run->col[S_STANDARD], &sl);
+	{
+		char buf[64];
+
+		snprintf(buf, sizeof buf, "%.*s", (int)sl, std_name);
+		standard = al_catalogue_find_standard(run->cat,
+						      sl ? buf : "KHP");
+		if (standard == NULL)
+			ERR(run, line, "standard",
+			    "'%s' is not a known primary standard (KHP, "
+			    "sulfamic, benzoic)",
+			    buf);
+	}
+	got = al_cell_number(row, run->col[S_MASS], "mass_g", run->point,
+			     run->file, &run->diags, &r.mass);
+	if (got == 0)
+		ERR(run, line, "mass_g", "is empty");
+	else if (got == 1 && !(r.mass > 0))
+		ERR(run, line, "mass_g", "mass of standard must be above 0");
+	got = al_cell_number(row, run->col[S_TITRANT], "titrant_ml",
+			     run->point, run->file, &run->diags, &titrant);
+	if (got == 0)
+		ERR(run, line, "titrant_ml", "is empty");
+	got = al_cell_number(row, run->col[S_BLANK], "blank_ml", run->point,
+			     run->file, &run->diags, &blank);
+	if (got == 1 && blank < 0)
+		ERR(run, line, "blank_ml", "blank volume must not be negative");
+	if (!(titrant > blank) && run->diags.errors == errs)
+		ERR(run, line, "titrant_ml",
+		    "titrant volume is not above the blank");
+	r.volume = titrant - blank;
+	got = al_cell_number(row, run->col[S_PURITY], "purity", run->point,
+			     run->file, &run->diags, &r.purity);
+	if (got == 0 && standard)
+		r.purity = standard->purity;
+	else if (got == 1 && !(r.purity > 0.9 && r.purity <= 1.0001))
+		ERR(run, line, "purity",
+		    "purity %g is not a mass fraction near 1 (write 0.9995, "
+		    "not 99.95)",
+		    r.purity);
+	date_text = al_cell(row, run->col[S_DATE], &dl);
+	r.date = run->today;
+	if (dl > 0 && al_date_parse(date_text, dl, &r.date) != 0)
+		ERR(run, line, "date", "'%.*s' is not a date YYYY-MM-DD",
+		    (int)(dl > 40 ? 40 : dl), date_text);
+	if (run->diags.out_of_memory)
+		return AL_ENOMEM;
+	if (run->diags.errors != errs)
+		return AL_OK;
+	r.c = al_std_concentration(r.mass, r.purity, standard->molar_mass,
+				   r.volume);
+	lot = find_lot(run, lot_name, ll);
+	if (lot == NULL) {
+		struct lot *grown;
+
+		if (run->n_lots == run->cap_lots) {
+			size_t n = run->cap_lots ? 2 * run->cap_lots : 8;
+
+			grown = al_realloc(run->lots, n * sizeof *grown);
+			if (grown == NULL)
+				return AL_ENOMEM;
+			run->lots = grown;
+			run->cap_lots = n;
+		}
+		lot = &run->lots[run->n_lots];
+		memset(lot, 0, sizeof *lot);
+		lot->name = al_strndup(lot_name, ll);
+		if (lot->name == NULL)
+			return AL_ENOMEM;
+		run->n_lots++;
+		lot->standard = standard;
+		lot->first_line = line;
+		lot->file = run->files[run->n_files - 1];
+	} else if (lot->standard != standard) {
+		ERR(run, line, "standard",
+		    "lot '%s' was standardised against %s at line %lu: one "
+		    "lot, one standard",
+		    lot->name, lot->standard->name, lot->first_line);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (lot->n == lot->cap) {
+		size_t n = lot->cap ? 2 * lot->cap : 4;
+		struct row *grown = al_realloc(lot->rows, n * sizeof *grown);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		lot->rows = grown;
+		lot->cap = n;
+	}
+	lot->rows[lot->n++] = r;
+	return AL_OK;
+}
+
+al_status
+al_std_read(al_std_run *run, FILE *in, const char *name,
+	    const al_csv_options *csv)
+{
+	return al_std_read_source(run, al_read_stdio, in, name, csv);
+}
+
+al_status
+al_std_read_source(al_std_run *run, al_read_fn read_fn, void *ctx,
+		   const char *name, const al_csv_options *csv)
+{
+	char **files = al_realloc(run->files, (run->n_files + 1) * sizeof *files);
+	al_status st;
+
+	if (files == NULL)
+		return AL_ENOMEM;
+	run->files = files;
+	run->files[run->n_files] = al_strdup(name);
+	if (run->files[run->n_files] == NULL)
+		return AL_ENOMEM;
+	run->file = run->files[run->n_files++];
+	run->header_done = run->header_ok = 0;
+	run->point = csv && csv->decimal_point ? csv->decimal_point : '.';
+	st = al_csv_read(csv, read_fn, ctx, run->file, std_row, run,
+			 &run->diags);
+	if (st == AL_OK && !run->header_done) {
+		ERR(run, 0, NULL, "the file is empty (no header row)");
+		st = AL_EINPUT;
+	} else if (st == AL_OK && !run->header_ok)
+		st = AL_EINPUT;
+	if (run->diags.out_of_memory)
+		st = AL_ENOMEM;
+	return st;
+}
+
+al_status
+al_std_finish(al_std_run *run)
+{
+	run->results = al_calloc(run->n_lots ? run->n_lots : 1,
+				 sizeof *run->results);
+	if (run->results == NULL)
+		return AL_ENOMEM;
+	for (size_t i = 0; i < run->n_lots; i++) {
+		const struct lot *lot = &run->lots[i];
+		al_std_lot *res = &run->results[i];
+		double c[lot->n > 0 ? lot->n : 1];
+		double m = 0, v = 0, purity = 0, u_vcal, u_vtemp;
+		al_std_inputs in;
+
+		res->lot = lot->name;
+		res->standard = lot->standard;
+		res->n = lot->n;
+		res->first_line = lot->first_line;
+		res->file = lot->file;
+		res->date = lot->rows[0].date;
+		for (size_t j = 0; j < lot->n; j++) {
+			c[j] = lot->rows[j].c;
+			m += lot->rows[j].mass / (double)lot->n;
+			v += lot->rows[j].volume / (double)lot->n;
+			purity += lot->rows[j].purity / (double)lot->n;
+			if (lot->rows[j].date > res->date)
+				res->date = lot->rows[j].date;
+		}
+		res->mean = gsl_stats_mean(c, 1, lot->n);
+		if (lot->n >= 2) {
+			res->has_sd = 1;
+			res->sd = gsl_stats_sd_m(c, 1, lot->n, res->mean);
+			res->rsd_pct = 100 * res->sd / res->mean;
+		}
+		/* the budget of a typical titration (mean mass and volume),
+		 * and the repeatability of the mean, s / sqrt(n) */
+		in.mass_g = m;
+		in.u_mass_g = sqrt(2.0) * run->p.balance_linearity_g / sqrt(3.0);
+		in.purity = purity;
+		in.u_purity = lot->standard->purity_u;
+		in.molar_mass = lot->standard->molar_mass;
+		in.u_molar_mass = lot->standard->molar_mass_u;
+		in.volume_ml = v;
+		u_vcal = run->p.burette_tol_ml / sqrt(6.0);
+		u_vtemp = v * run->p.expansion_per_k * run->p.temp_range_c /
+			  sqrt(3.0);
+		in.u_volume_ml = u_vcal;
+		in.u_volume_temp_ml = u_vtemp;
+		in.rep_rel = res->has_sd ? res->sd / sqrt((double)lot->n) /
+						   res->mean
+					 : 0;
+		al_std_uncertainty(&in, &res->budget);
+		/* the budget's c is that of the mean inputs; report the mean
+		 * of the replicates, with the budget's relative uncertainty */
+		res->budget.u = res->budget.rel_u * res->mean;
+		res->U = run->p.k * res->budget.u;
+		res->valid = 1;
+		if (lot->n < run->p.min_n) {
+			res->valid = 0;
+			snprintf(res->why, sizeof res->why,
+				 "%zu replicate%s, at least %zu needed", lot->n,
+				 lot->n == 1 ? "" : "s", run->p.min_n);
+		} else if (res->has_sd && res->rsd_pct > run->p.max_rsd_pct) {
+			res->valid = 0;
+			snprintf(res->why, sizeof res->why,
+				 "RSD %.3f %% above the %.3g %% accepted",
+				 res->rsd_pct, run->p.max_rsd_pct);
+		}
+	}
+	return AL_OK;
+}
