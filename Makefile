@@ -38,13 +38,25 @@ build: deps
 
 demo: build
 	@echo
-	@echo "== acidlot assay samples/titrations.csv --spec samples/specs.csv"
+	@echo "== 1. standardise the titrants: acidlot standardize samples/standardisation.csv -o $(BUILD)/demo-register.csv"
+	@rm -f $(BUILD)/demo-register.csv
+	@$(BUILD)/acidlot standardize samples/standardisation.csv \
+	  -o $(BUILD)/demo-register.csv --budget $(BUILD)/demo-budget.csv; \
+	rc=$$?; echo "exit status $$rc (1: lot NaOH-0.1-2612 is rejected, as the demo intends)"; \
+	[ $$rc -le 1 ]
+	@echo
+	@echo "== 2. the assay: acidlot assay samples/titrations.csv --spec samples/specs.csv --titrants $(BUILD)/demo-register.csv"
 	@$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
+	  --titrants $(BUILD)/demo-register.csv --analyst "demo" \
 	  -o $(BUILD)/demo-report.csv -r $(BUILD)/demo-replicates.csv; \
 	rc=$$?; echo; cat $(BUILD)/demo-report.csv; echo; \
 	echo "report: $(BUILD)/demo-report.csv  replicates: $(BUILD)/demo-replicates.csv"; \
+	echo "record: $(BUILD)/demo-report.csv.record.json"; \
 	echo "exit status $$rc (1: some lots fail or need a retest, as the demo intends)"; \
 	[ $$rc -le 1 ]
+	@echo
+	@echo "== 3. nothing changed since: acidlot verify $(BUILD)/demo-report.csv.record.json"
+	@$(BUILD)/acidlot verify $(BUILD)/demo-report.csv.record.json
 
 test: build
 	cd $(BUILD) && ctest --output-on-failure -j$(JOBS)
