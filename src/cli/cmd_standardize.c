@@ -459,10 +459,12 @@ cmd_standardize(int argc, char **argv)
 				lots = NULL;
 			}
 		}
+		/* the _new calls take lots and params even when they fail */
+		bad = json_object_set_new(rec.root, "titrant_lots", lots) != 0;
+		bad |= json_object_set_new(rec.root, "uncertainty_model",
+					   params) != 0;
 		rec_out = al_outfile_open(path, &st);
-		if (lots == NULL || params == NULL || rec_out == NULL ||
-		    json_object_set_new(rec.root, "titrant_lots", lots) ||
-		    json_object_set_new(rec.root, "uncertainty_model", params) ||
+		if (bad || rec_out == NULL ||
 		    (budget_out &&
 		     record_output(&rec, "budget", a.budget,
 				   al_outfile_written_path(budget_out))) ||

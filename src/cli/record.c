@@ -115,6 +115,7 @@ record_start(run_record *r, const char *command, int argc, char **argv,
 	struct tm tm;
 	char when[32];
 	json_t *args;
+	int bad = 0;
 
 	memset(r, 0, sizeof r[0]);
 	gmtime_r(&now, &tm);
@@ -141,18 +142,19 @@ record_start(run_record *r, const char *command, int argc, char **argv,
 			json_decref(args);
 			return -1;
 		}
-	if (json_object_set_new(r->root, "program", json_string(PROG)) ||
-	    json_object_set_new(r->root, "version",
-				json_string(ACIDLOT_VERSION)) ||
-	    json_object_set_new(r->root, "command", json_string(command)) ||
-	    json_object_set_new(r->root, "argv", args) ||
-	    json_object_set_new(r->root, "time_utc", json_string(when)) ||
-	    json_object_set_new(r->root, "analyst",
-				analyst ? json_string(analyst) : json_null()) ||
-	    json_object_set(r->root, "inputs", r->inputs) ||
-	    json_object_set(r->root, "outputs", r->outputs))
-		return -1;
-	return 0;
+	/* every _new call takes its value even when it fails: no || here,
+	 * so that nothing is left unowned */
+	bad |= json_object_set_new(r->root, "program", json_string(PROG));
+	bad |= json_object_set_new(r->root, "version",
+				   json_string(ACIDLOT_VERSION));
+	bad |= json_object_set_new(r->root, "command", json_string(command));
+	bad |= json_object_set_new(r->root, "argv", args);
+	bad |= json_object_set_new(r->root, "time_utc", json_string(when));
+	bad |= json_object_set_new(r->root, "analyst",
+				   analyst ? json_string(analyst) : json_null());
+	bad |= json_object_set(r->root, "inputs", r->inputs);
+	bad |= json_object_set(r->root, "outputs", r->outputs);
+	return bad ? -1 : 0;
 }
 
 int
