@@ -86,6 +86,8 @@ cmd_verify(int argc, char **argv)
 		json_t *root;
 		int a, b;
 
+		/* jansson does not fill every byte of err on every path */
+		memset(&err, 0, sizeof err);
 		errno = 0;
 		root = json_load_file(argv[i], 0, &err);
 		/* jansson reports some failed allocations as syntax errors;
