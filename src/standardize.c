@@ -15,6 +15,7 @@
 
 #include "acidlot/alloc.h"
 #include "acidlot/date.h"
+#include "acidlot/gum.h"
 #include "acidlot/number.h"
 #include "acidlot/table.h"
 
@@ -44,46 +45,37 @@ al_std_concentration(double mass_g, double purity, double molar_mass,
 	return 1000.0 * mass_g * purity / (molar_mass * volume_ml);
 }
 
-static void
-item(al_budget *b, const char *name, const char *unit, double value,
-     double u, double sensitivity)
-{
-	al_budget_item *it = &b->items[b->n_items++];
-
-	it->name = name;
-	it->unit = unit;
-	it->value = value;
-	it->u = u;
-	it->sensitivity = sensitivity;
-	it->contribution = fabs(sensitivity) * u;
-}
-
 void
 al_std_uncertainty(const al_std_inputs *in, al_budget *b)
 {
-	double c = al_std_concentration(in->mass_g, in->purity, in->molar_mass,
-					in->volume_ml);
-	double var = 0;
+	al_gum_term t[6] = {
+		{"repeatability", "", 1.0, in->rep_rel, 1, 0, 0},
+		{"mass of standard", "g", in->mass_g, in->u_mass_g, 1, 0, 0},
+		{"purity of standard", "", in->purity, in->u_purity, 1, 0, 0},
+		{"molar mass of standard", "g/mol", in->molar_mass,
+		 in->u_molar_mass, -1, 0, 0},
+		{"titrant volume: burette", "mL", in->volume_ml, in->u_volume_ml,
+		 -1, 0, 0},
+		{"titrant volume: temperature", "mL", in->volume_ml,
+		 in->u_volume_temp_ml, -1, 0, 0},
+	};
+	size_t n = in->u_volume_temp_ml > 0 ? 6 : 5;
 
 	memset(b, 0, sizeof *b);
-	b->c = c;
-	/* dc/dx = c/x for m and P, -c/x for M and V */
-	item(b, "repeatability", "", 1.0, in->rep_rel, c);
-	item(b, "mass of standard", "g", in->mass_g, in->u_mass_g,
-	     c / in->mass_g);
-	item(b, "purity of standard", "", in->purity, in->u_purity,
-	     c / in->purity);
-	item(b, "molar mass of standard", "g/mol", in->molar_mass,
-	     in->u_molar_mass, -c / in->molar_mass);
-	item(b, "titrant volume: burette", "mL", in->volume_ml,
-	     in->u_volume_ml, -c / in->volume_ml);
-	if (in->u_volume_temp_ml > 0)
-		item(b, "titrant volume: temperature", "mL", in->volume_ml,
-		     in->u_volume_temp_ml, -c / in->volume_ml);
-	for (size_t i = 0; i < b->n_items; i++)
-		var += b->items[i].contribution * b->items[i].contribution;
-	b->u = sqrt(var);
-	b->rel_u = b->u / c;
+	b->c = al_std_concentration(in->mass_g, in->purity, in->molar_mass,
+				    in->volume_ml);
+	b->u = al_gum_product(b->c, t, n);
+	b->rel_u = b->u / b->c;
+	for (size_t i = 0; i < n; i++) {
+		al_budget_item *it = &b->items[b->n_items++];
+
+		it->name = t[i].name;
+		it->unit = t[i].unit;
+		it->value = t[i].value;
+		it->u = t[i].u;
+		it->sensitivity = t[i].sensitivity;
+		it->contribution = t[i].contribution;
+	}
 }
 
 struct row {
@@ -403,15 +395,16 @@ al_std_finish(al_std_run *run)
 		/* the budget of a typical titration (mean mass and volume),
 		 * and the repeatability of the mean, s / sqrt(n) */
 		in.mass_g = m;
-		in.u_mass_g = sqrt(2.0) * run->p.balance_linearity_g / sqrt(3.0);
+		in.u_mass_g =
+			sqrt(2.0) * al_gum_rectangular(run->p.balance_linearity_g);
 		in.purity = purity;
 		in.u_purity = lot->standard->purity_u;
 		in.molar_mass = lot->standard->molar_mass;
 		in.u_molar_mass = lot->standard->molar_mass_u;
 		in.volume_ml = v;
-		u_vcal = run->p.burette_tol_ml / sqrt(6.0);
-		u_vtemp = v * run->p.expansion_per_k * run->p.temp_range_c /
-			  sqrt(3.0);
+		u_vcal = al_gum_triangular(run->p.burette_tol_ml);
+		u_vtemp = al_gum_rectangular(v * run->p.expansion_per_k *
+					     run->p.temp_range_c);
 		in.u_volume_ml = u_vcal;
 		in.u_volume_temp_ml = u_vtemp;
 		in.rep_rel = res->has_sd ? res->sd / sqrt((double)lot->n) /

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "acidlot/date.h"
+#include "acidlot/gum.h"
 #include "acidlot/register.h"
 #include "acidlot/standardize.h"
 
@@ -44,6 +45,82 @@ quam_a2(void **state)
 	for (size_t i = 0; i < b.n_items; i++)
 		assert_true(b.items[i].contribution <= b.items[4].contribution);
 	assert_true(b.items[0].contribution > b.items[1].contribution);
+}
+
+/* QUAM 2012 (3rd ed.) A2 with its detailed inputs (A2.4; as re-computed
+ * by the GTC documentation, seen): balance linearity 0.15 mg rectangular
+ * in the tare and the gross weighing, purity +/-0.0005 rectangular,
+ * atomic weights C 12.0107(8), H 1.00794(7), O 15.9994(3), K 39.0983(1)
+ * rectangular, burette +/-0.03 mL triangular, temperature u 0.006 mL,
+ * repeatability 0.0005 -> c = 0.102136159706, u = 0.000100500722. */
+static void
+quam_a2_2012(void **state)
+{
+	al_std_inputs in = {0};
+	al_budget b;
+	double s3 = sqrt(3.0);
+
+	(void)state;
+	in.mass_g = 0.3888;
+	in.u_mass_g = sqrt(2.0) * al_gum_rectangular(0.15e-3);
+	in.purity = 1.0;
+	in.u_purity = al_gum_rectangular(0.0005);
+	in.molar_mass = 8 * 12.0107 + 5 * 1.00794 + 4 * 15.9994 + 39.0983;
+	in.u_molar_mass = sqrt(pow(8 * 0.0008 / s3, 2) + pow(5 * 0.00007 / s3, 2) +
+			       pow(4 * 0.0003 / s3, 2) + pow(0.0001 / s3, 2));
+	in.volume_ml = 18.64;
+	in.u_volume_ml = al_gum_triangular(0.03);
+	in.u_volume_temp_ml = 0.006;
+	in.rep_rel = 0.0005;
+	al_std_uncertainty(&in, &b);
+	assert_rel(in.molar_mass, 204.2212, 1e-12);
+	assert_rel(b.c, 0.102136159706, 1e-11);
+	assert_rel(b.u, 0.000100500722124, 1e-9);
+	/* the budget as published: V_T cal 6.71088e-5, R 5.10681e-5,
+	 * V_T temp 3.28764e-5, P 2.94842e-5 mol/L */
+	assert_rel(b.items[4].contribution, 6.71088e-5, 1e-5);
+	assert_rel(b.items[0].contribution, 5.10681e-5, 1e-5);
+	assert_rel(b.items[5].contribution, 3.28764e-5, 1e-5);
+	assert_rel(b.items[2].contribution, 2.94842e-5, 1e-5);
+}
+
+/* QUAM 2012 A3, HCl against the NaOH of A2 (as re-computed by the GTC
+ * documentation, seen): c = 1000 m P V_T2 / (V_T1 M V_HCl) = 0.10139
+ * mol/L, u = 0.0001843 mol/L, with each volume's calibration (0.03 mL
+ * burette, 0.02 mL pipette, triangular) and temperature (+/-4 K x 2.1e-4
+ * /K, rectangular; 15 mL for V_T2 and V_HCl, 19 mL for V_T1) and
+ * repeatability 0.001. */
+static void
+quam_a3_2012(void **state)
+{
+	double s3 = sqrt(3.0), c, u;
+	double m_u = sqrt(2.0) * al_gum_rectangular(0.15e-3);
+	double vt2_u = hypot(al_gum_triangular(0.03), al_gum_rectangular(15 * 2.1e-4 * 4));
+	double vt1_u = hypot(al_gum_triangular(0.03), al_gum_rectangular(19 * 2.1e-4 * 4));
+	double vhcl_u = hypot(al_gum_triangular(0.02), al_gum_rectangular(15 * 2.1e-4 * 4));
+	double m_khp = 8 * 12.0107 + 5 * 1.00794 + 4 * 15.9994 + 39.0983;
+	double u_m_khp = sqrt(pow(8 * 0.0008 / s3, 2) + pow(5 * 0.00007 / s3, 2) +
+			      pow(4 * 0.0003 / s3, 2) + pow(0.0001 / s3, 2));
+	al_gum_term t[7] = {
+		{"repeatability", "", 1.0, 0.001, 1, 0, 0},
+		{"m", "g", 0.3888, m_u, 1, 0, 0},
+		{"P", "", 1.0, al_gum_rectangular(0.0005), 1, 0, 0},
+		{"V_T2", "mL", 14.89, vt2_u, 1, 0, 0},
+		{"V_T1", "mL", 18.64, vt1_u, -1, 0, 0},
+		{"M", "g/mol", m_khp, u_m_khp, -1, 0, 0},
+		{"V_HCl", "mL", 15, vhcl_u, -1, 0, 0},
+	};
+
+	(void)state;
+	c = 1000 * 0.3888 * 1.0 * 14.89 / (18.64 * m_khp * 15);
+	u = al_gum_product(c, t, 7);
+	assert_abs(c, 0.10139, 0.000005);
+	assert_rel(u, 0.0001843, 1e-3);
+	/* its budget: repeatability 0.000101387, V_T2 9.69953e-5 */
+	assert_rel(t[0].contribution, 0.000101387, 1e-5);
+	assert_rel(t[3].contribution, 9.69953e-5, 1e-5);
+	assert_rel(t[4].contribution, 8.33653e-5, 1e-5);
+	assert_rel(t[6].contribution, 7.39151e-5, 1e-5);
 }
 
 /* KHP C8H5KO4: 204.22 g/mol (METHODS.md s.2) from the formula, and an
@@ -210,7 +287,8 @@ int
 main(void)
 {
 	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(quam_a2), cmocka_unit_test(khp),
+		cmocka_unit_test(quam_a2), cmocka_unit_test(quam_a2_2012),
+		cmocka_unit_test(quam_a3_2012), cmocka_unit_test(khp),
 		cmocka_unit_test(lots),	   cmocka_unit_test(dates),
 		cmocka_unit_test(register_round_trip),
 	};
