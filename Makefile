@@ -45,9 +45,10 @@ demo: build
 	rc=$$?; echo "exit status $$rc (1: lot NaOH-0.1-2612 is rejected, as the demo intends)"; \
 	[ $$rc -le 1 ]
 	@echo
-	@echo "== 2. the assay: acidlot assay samples/titrations.csv --spec samples/specs.csv --titrants $(BUILD)/demo-register.csv"
+	@echo "== 2. the assay: acidlot assay samples/titrations.csv --spec samples/specs.csv --titrants $(BUILD)/demo-register.csv --decision guarded"
 	@$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
-	  --titrants $(BUILD)/demo-register.csv --analyst "demo" \
+	  --titrants $(BUILD)/demo-register.csv --decision guarded \
+	  --budget $(BUILD)/demo-budget-assay.csv --analyst "demo" \
 	  -o $(BUILD)/demo-report.csv -r $(BUILD)/demo-replicates.csv; \
 	rc=$$?; echo; cat $(BUILD)/demo-report.csv; echo; \
 	echo "report: $(BUILD)/demo-report.csv  replicates: $(BUILD)/demo-replicates.csv"; \

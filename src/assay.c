@@ -10,6 +10,7 @@
 #include "acidlot/date.h"
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
+#include "evaluate.h"
 
 /* The endpoint must titrate at least this share of the protons that the
  * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
@@ -38,6 +39,20 @@ struct group {
 	double min_endpoint;
 	unsigned long first_line;
 	char *first_file; /* shared string, owned by run->files */
+	/* sums of the inputs, for the uncertainty budget at their means */
+	double sum_titrant, sum_blank, sum_conc, sum_conc_u, sum_amount;
+	double sum_made_up, sum_aliquot;
+	uint32_t n_conc_u;
+	al_basis basis;
+};
+
+/* A row used, kept for the replicate output when one is asked for. */
+struct kept_row {
+	uint32_t group, pos, file;
+	unsigned flags;
+	unsigned long line;
+	double meq, value, needed;
+	size_t replicate; /* offset in run->kept_text */
 };
 
 struct al_assay {
@@ -59,6 +74,12 @@ struct al_assay {
 	char *header_text; /* the file's header cells, trimmed, NUL-separated */
 	const al_titrant **lots_used;
 	size_t n_lots_used;
+	struct kept_row *kept;
+	size_t n_kept, cap_kept;
+	char *kept_text;
+	size_t kept_text_len, kept_text_cap;
+	al_cochran *cochran;
+	size_t n_cochran;
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
 
@@ -89,6 +110,19 @@ al_assay_new(const al_assay_options *opt, al_status *status)
 			al_catalogue_find(opt->catalogue, "citric");
 	if (run->opt.confidence == 0)
 		run->opt.confidence = 0.95;
+	{
+		al_qc_options d;
+
+		al_qc_options_default(&d);
+		if (run->opt.qc.guard_r == 0)
+			run->opt.qc.guard_r = d.guard_r;
+		if (run->opt.qc.burette_tol_ml == 0)
+			run->opt.qc.burette_tol_ml = d.burette_tol_ml;
+		if (run->opt.qc.balance_linearity_g == 0)
+			run->opt.qc.balance_linearity_g = d.balance_linearity_g;
+		if (run->opt.qc.k == 0)
+			run->opt.qc.k = d.k;
+	}
 	run->point = opt->csv.decimal_point ? opt->csv.decimal_point : '.';
 	run->row_diags.cap = 16;
 	*status = AL_OK;
@@ -112,6 +146,9 @@ al_assay_free(al_assay *run)
 	al_free(run->scratch);
 	al_free(run->header_text);
 	al_free(run->lots_used);
+	al_free(run->kept);
+	al_free(run->kept_text);
+	al_free(run->cochran);
 	al_diags_clear(&run->diags);
 	al_diags_clear(&run->row_diags);
 	al_free(run);
@@ -509,6 +546,51 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 
 static al_status row_values(al_assay *run, const al_csv_row *row);
 
+/* Keeps a used row for the replicate output of al_assay_finish. */
+static al_status
+keep_row(al_assay *run, const struct group *g, unsigned long line,
+	 double meq, double value, unsigned flags, double needed,
+	 const char *replicate)
+{
+	size_t len = strlen(replicate) + 1;
+	struct kept_row *k;
+
+	if (run->n_kept == run->cap_kept) {
+		size_t n = run->cap_kept ? 2 * run->cap_kept : 256;
+		struct kept_row *grown = al_realloc(run->kept, n * sizeof *grown);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->kept = grown;
+		run->cap_kept = n;
+	}
+	if (run->kept_text_len + len > run->kept_text_cap) {
+		size_t n = run->kept_text_cap ? 2 * run->kept_text_cap : 4096;
+		char *grown;
+
+		while (n < run->kept_text_len + len)
+			n *= 2;
+		grown = al_realloc(run->kept_text, n);
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->kept_text = grown;
+		run->kept_text_cap = n;
+	}
+	memcpy(run->kept_text + run->kept_text_len, replicate, len);
+	k = &run->kept[run->n_kept++];
+	k->group = (uint32_t)(g - run->groups);
+	k->pos = g->n - 1;
+	k->file = (uint32_t)(run->n_files - 1);
+	k->flags = flags;
+	k->line = line;
+	k->meq = meq;
+	k->value = value;
+	k->needed = needed;
+	k->replicate = run->kept_text_len;
+	run->kept_text_len += len;
+	return AL_OK;
+}
+
 /* The register entry of a row's titrant lot, checked for validity on the
  * row's date; NULL when the row names no lot (or after an error). */
 static const al_titrant *
@@ -707,7 +789,6 @@ row_values(al_assay *run, const al_csv_row *row)
 {
 	unsigned long line = row->line;
 	al_titration t;
-	al_replicate rep;
 	const char *text[5];
 	size_t tl[5];
 	const char *product, *lot, *sample, *replicate, *acid_name;
@@ -717,7 +798,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	double mass = 0, volume = 0, density = 0, endpoint = 0, value;
 	int got_mass, got_volume, got_density, got_endpoint, got;
 	unsigned flags = 0;
-	double needed = 0;
+	double needed = 0, conc_u = -1;
 	struct group *g;
 	int created;
 	al_status st;
@@ -801,6 +882,7 @@ row_values(al_assay *run, const al_csv_row *row)
 					 t.titrant_mol_l,
 					 reg_lot->concentration_mol_l, reg_lot->lot);
 			t.titrant_mol_l = reg_lot->concentration_mol_l;
+			conc_u = reg_lot->u_mol_l;
 			got = 1;
 		} else if (run->row_diags.errors > 0)
 			got = 1; /* reported by titrant_of */
@@ -880,6 +962,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (g->acid == NULL) {
 		g->acid = acid;
 		g->unit = unit;
+		g->basis = t.basis;
 	} else if (g->acid != acid) {
 		ROW_ERR(run, line, "acid",
 			"'%s' differs from '%s' of the same product, lot and "
@@ -926,24 +1009,20 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (st != AL_OK)
 		return st;
 	g->flags |= flags;
-	run->counts.rows_used++;
-
-	if (run->on_row) {
-		memset(&rep, 0, sizeof rep);
-		rep.file = run->file;
-		rep.line = line;
-		rep.product = product;
-		rep.lot = lot;
-		rep.sample = sample;
-		rep.replicate = replicate;
-		rep.meq = al_ta_meq(&t);
-		rep.value = value;
-		rep.unit = unit;
-		rep.acid = acid;
-		rep.flags = flags;
-		rep.endpoint_ph_needed = needed;
-		return run->on_row(run->ud, &rep);
+	g->sum_titrant += t.titrant_ml;
+	g->sum_blank += t.blank_ml;
+	g->sum_conc += t.titrant_mol_l;
+	g->sum_amount += t.amount;
+	g->sum_made_up += t.made_up_ml;
+	g->sum_aliquot += t.aliquot_ml;
+	if (conc_u >= 0) {
+		g->sum_conc_u += conc_u;
+		g->n_conc_u++;
 	}
+	run->counts.rows_used++;
+	if (run->on_row)
+		return keep_row(run, g, line, al_ta_meq(&t), value, flags, needed,
+				replicate);
 	return AL_OK;
 }
 
@@ -1004,12 +1083,59 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	return st;
 }
 
+/* Hands the kept rows to on_row in input order, each with the screens'
+ * flags of its value. */
+static al_status
+replay_rows(al_assay *run)
+{
+	for (size_t i = 0; i < run->n_kept; i++) {
+		const struct kept_row *k = &run->kept[i];
+		const al_group_result *r = &run->results[k->group];
+		al_replicate rep;
+		al_status st;
+
+		memset(&rep, 0, sizeof rep);
+		rep.file = run->files[k->file];
+		rep.line = k->line;
+		rep.product = r->product;
+		rep.lot = r->lot;
+		rep.sample = r->sample;
+		rep.replicate = run->kept_text + k->replicate;
+		rep.meq = k->meq;
+		rep.value = k->value;
+		rep.unit = r->unit;
+		rep.acid = r->acid;
+		rep.flags = k->flags;
+		rep.endpoint_ph_needed = k->needed;
+		if (r->has_grubbs && k->pos == r->grubbs_index)
+			rep.flags |= r->flags & (AL_FLAG_OUTLIER | AL_FLAG_STRAGGLER);
+		if (r->has_dixon && k->pos == r->dixon_index)
+			rep.flags |= r->flags & AL_FLAG_DIXON;
+		if (r->has_excluded && k->pos == r->excluded_index)
+			rep.flags |= AL_FLAG_EXCLUDED;
+		st = run->on_row(run->ud, &rep);
+		if (st != AL_OK)
+			return st;
+	}
+	return AL_OK;
+}
+
 al_status
 al_assay_finish(al_assay *run)
 {
+	size_t max_n = 1;
+	double *scratch;
+	int oom;
+
 	run->results = al_calloc(run->n_groups ? run->n_groups : 1,
 				 sizeof *run->results);
 	if (run->results == NULL)
+		return AL_ENOMEM;
+	for (size_t i = 0; i < run->n_groups; i++)
+		if (run->groups[i].n > max_n)
+			max_n = run->groups[i].n;
+	scratch = al_malloc(max_n * sizeof *scratch);
+	if (scratch == NULL)
 		return AL_ENOMEM;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
@@ -1017,7 +1143,8 @@ al_assay_finish(al_assay *run)
 		struct group *g = &run->groups[i];
 		al_group_result *r = &run->results[i];
 		const char *k = run->arena + g->key;
-		unsigned why;
+		al_eval_inputs in;
+		double n = g->n ? (double)g->n : 1;
 
 		if (g->acid == NULL) {
 			/* every row of it was rejected: name it as its spec or
@@ -1035,20 +1162,20 @@ al_assay_finish(al_assay *run)
 		r->unit = g->unit;
 		r->spec = g->spec;
 		r->values = g->values;
-		al_stats_summarise(g->values, g->n, run->opt.confidence,
-				   &r->stats);
-		r->verdict = al_judge(g->spec, &r->stats, &why);
+		r->n_values = g->n;
 		r->flags = g->flags;
-		if (g->n == 1)
-			r->flags |= AL_FLAG_SINGLE;
-		if (why & AL_WHY_FEW)
-			r->flags |= AL_FLAG_FEW;
-		if (why & AL_WHY_RSD)
-			r->flags |= AL_FLAG_RSD;
-		if (why & AL_WHY_BELOW_MIN)
-			r->flags |= AL_FLAG_BELOW_MIN;
-		if (why & AL_WHY_ABOVE_MAX)
-			r->flags |= AL_FLAG_ABOVE_MAX;
+		memset(&in, 0, sizeof in);
+		in.titrant_ml = g->sum_titrant / n;
+		in.blank_ml = g->sum_blank / n;
+		in.conc = g->sum_conc / n;
+		in.amount = g->sum_amount / n;
+		in.made_up_ml = g->sum_made_up / n;
+		in.aliquot_ml = g->sum_aliquot / n;
+		in.all_conc_u = g->n > 0 && g->n_conc_u == g->n;
+		in.conc_u = g->n_conc_u ? g->sum_conc_u / g->n_conc_u : 0;
+		in.basis = g->basis;
+		in.n = g->n;
+		al_eval_result(&run->opt, &in, scratch, r);
 		if (g->flags & AL_FLAG_ENDPOINT_LOW) {
 			r->endpoint_ph = g->min_endpoint;
 			if (al_endpoint_ph_needed(g->acid->pka, g->acid->n_pka,
@@ -1058,9 +1185,27 @@ al_assay_finish(al_assay *run)
 			    AL_OK)
 				r->endpoint_ph_needed = 14;
 		}
-		run->counts.by_verdict[r->verdict]++;
 	}
-	return AL_OK;
+	al_free(scratch);
+	run->cochran = al_eval_cochran(run->results, run->n_groups,
+				       &run->n_cochran, &oom);
+	if (oom)
+		return AL_ENOMEM;
+	for (size_t i = 0; i < run->n_groups; i++)
+		run->counts.by_verdict[run->results[i].verdict]++;
+	return run->on_row ? replay_rows(run) : AL_OK;
+}
+
+size_t
+al_assay_cochran_count(const al_assay *run)
+{
+	return run->n_cochran;
+}
+
+const al_cochran *
+al_assay_cochran_at(const al_assay *run, size_t i)
+{
+	return i < run->n_cochran ? &run->cochran[i] : NULL;
 }
 
 const al_titrant *
@@ -1086,6 +1231,14 @@ al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 		{AL_FLAG_DENSITY, "density-converted"},
 		{AL_FLAG_IMPLAUSIBLE, "implausible-value"},
 		{AL_FLAG_REJECTED, "rows-rejected"},
+		{AL_FLAG_OUTLIER, "grubbs-outlier"},
+		{AL_FLAG_STRAGGLER, "grubbs-straggler"},
+		{AL_FLAG_DIXON, "dixon-outlier"},
+		{AL_FLAG_EXCLUDED, "outlier-excluded"},
+		{AL_FLAG_RANGE, "range-over-critical"},
+		{AL_FLAG_COCHRAN_OUTLIER, "cochran-outlier"},
+		{AL_FLAG_COCHRAN_STRAGGLER, "cochran-straggler"},
+		{AL_FLAG_NO_TITRANT_U, "u-without-titrant"},
 	};
 	size_t len = 0;
 

@@ -118,10 +118,12 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 	header(out,
 	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
-				"flags,report_id"
+				"flags,median,grubbs_g,dixon_q,range,"
+				"critical_range,horrat,u,U,k,report_id"
 			      : "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
-				"flags",
+				"flags,median,grubbs_g,dixon_q,range,"
+				"critical_range,horrat,u,U,k",
 	       opt);
 	for (size_t i = 0; i < n; i++) {
 		const al_group_result *r = al_assay_result(run, i);
@@ -147,6 +149,16 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
 		al_csv_put_field(out, flags, d);
+		number(out, r->stats.n > 0, r->median, dec, opt);
+		/* screens are ratios: never rounded to the report's decimals */
+		number(out, r->has_grubbs, r->grubbs_g, -1, opt);
+		number(out, r->has_dixon, r->dixon_q, -1, opt);
+		number(out, r->stats.n > 1, r->range, dec, opt);
+		number(out, r->has_critical_range, r->critical_range, dec, opt);
+		number(out, r->has_horrat, r->horrat, -1, opt);
+		number(out, r->has_u, r->u, -1, opt);
+		number(out, r->has_u, r->U, -1, opt);
+		number(out, r->has_u, r->k, -1, opt);
 		if (opt->report_id)
 			fprintf(out, "%c%s-%04zu", d, opt->report_id, i + 1);
 		putc('\n', out);
@@ -206,5 +218,41 @@ al_rejects_row(FILE *out, const char *file, unsigned long line,
 	 * from the input unless raw_text */
 	al_csv_put_text(out, raw, raw_len, opt);
 	putc('\n', out);
+	return ferror(out) ? AL_EIO : AL_OK;
+}
+
+al_status
+al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
+{
+	char d = delim_of(opt);
+
+	header(out,
+	       "product,lot,sample,component,value,unit,standard_uncertainty,"
+	       "sensitivity,contribution,share_pct",
+	       opt);
+	for (size_t i = 0; i < al_assay_group_count(run); i++) {
+		const al_group_result *r = al_assay_result(run, i);
+
+		for (size_t j = 0; r->has_u && j < r->n_budget; j++) {
+			const al_gum_term *t = &r->budget[j];
+
+			al_csv_put_text(out, r->product, strlen(r->product), opt);
+			text(out, r->lot, opt);
+			text(out, r->sample, opt);
+			putc(d, out);
+			al_csv_put_field(out, t->name, d);
+			number(out, 1, t->value, -1, opt);
+			fprintf(out, "%c%s", d, t->unit);
+			number(out, 1, t->u, -1, opt);
+			number(out, 1, t->sensitivity, -1, opt);
+			number(out, 1, t->contribution, -1, opt);
+			number(out, 1,
+			       r->u > 0 ? 100 * t->contribution * t->contribution /
+						  (r->u * r->u)
+					: 0,
+			       3, opt);
+			putc('\n', out);
+		}
+	}
 	return ferror(out) ? AL_EIO : AL_OK;
 }

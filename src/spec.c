@@ -12,9 +12,11 @@ struct al_spec_table {
 	size_t count, alloc;
 };
 
-enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_COUNT };
+enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_SR,
+       C_R, C_COUNT };
 static const char *const spec_cols[C_COUNT] = {
-	"product", "acid", "unit", "min", "max", "max_rsd_pct", "min_n"};
+	"product", "acid", "unit", "min", "max", "max_rsd_pct", "min_n", "sr",
+	"r"};
 
 struct spec_reader {
 	const al_catalogue *cat;
@@ -160,6 +162,29 @@ spec_row(void *ud, const al_csv_row *row)
 		} else
 			s.min_n = (size_t)v;
 	}
+	{
+		double sr = 0, rl = 0;
+		int got_sr = al_cell_number(row, r->col[C_SR], "sr", r->point,
+					    r->file, r->diags, &sr);
+		int got_r = al_cell_number(row, r->col[C_R], "r", r->point,
+					   r->file, r->diags, &rl);
+
+		if (got_sr < 0 || got_r < 0)
+			r->bad = 1;
+		else if (got_sr == 1 && got_r == 1) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     "r", "give sr or r, not both");
+			r->bad = 1;
+		} else if ((got_sr == 1 && !(sr > 0)) || (got_r == 1 && !(rl > 0))) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     got_sr == 1 ? "sr" : "r", "must be above 0");
+			r->bad = 1;
+		} else if (got_sr == 1 || got_r == 1) {
+			s.has_sr = 1;
+			/* ISO 5725-6 3.7: r = 2.8 sr (1.96 sqrt 2 rounded) */
+			s.sr = got_sr == 1 ? sr : rl / 2.8;
+		}
+	}
 	if (!s.has_min && !s.has_max && !limit_bad) {
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
 			     "needs a min or a max (or both)");
@@ -267,7 +292,8 @@ const char *
 al_verdict_name(al_verdict v)
 {
 	static const char *const names[AL_VERDICT_COUNT] = {
-		"pass", "fail", "retest", "no-spec"};
+		"pass",	   "fail",	       "retest",
+		"no-spec", "conditional-pass", "conditional-fail"};
 
 	return (unsigned)v < AL_VERDICT_COUNT ? names[v] : "?";
 }
@@ -295,4 +321,30 @@ al_judge(const al_spec *spec, const al_summary *s, unsigned *why)
 	if (*why & (AL_WHY_BELOW_MIN | AL_WHY_ABOVE_MAX))
 		return AL_VERDICT_FAIL;
 	return AL_VERDICT_PASS;
+}
+
+al_verdict
+al_judge_rule(const al_spec *spec, const al_summary *s, al_decision_rule rule,
+	      double guard, int range_exceeded, unsigned *why)
+{
+	al_verdict v = al_judge(spec, s, why);
+	double w = rule == AL_DECISION_GUARDED && guard > 0 ? guard : 0;
+	int inside;
+
+	if (spec == NULL)
+		return v;
+	if (range_exceeded && s->n > 0) {
+		*why |= AL_WHY_RANGE;
+		return AL_VERDICT_RETEST;
+	}
+	if (v == AL_VERDICT_RETEST || w == 0)
+		return v;
+	inside = v == AL_VERDICT_PASS;
+	if ((!spec->has_min || s->mean >= spec->min + w) &&
+	    (!spec->has_max || s->mean <= spec->max - w))
+		return AL_VERDICT_PASS;
+	if ((spec->has_min && s->mean < spec->min - w) ||
+	    (spec->has_max && s->mean > spec->max + w))
+		return AL_VERDICT_FAIL;
+	return inside ? AL_VERDICT_COND_PASS : AL_VERDICT_COND_FAIL;
 }

@@ -12,11 +12,32 @@
 
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/gum.h"
 #include "acidlot/register.h"
 #include "acidlot/spec.h"
 #include "acidlot/stats.h"
 #include "acidlot/table.h"
 #include "acidlot/units.h"
+
+/* Replicate QC: screens, uncertainty and the decision rule. Zero fields
+ * take the defaults of al_qc_options_default. */
+typedef struct al_qc_options {
+	al_decision_rule decision; /* simple (default) or guarded */
+	double guard_r;            /* guard band w = guard_r U; 1 */
+	int exclude_outliers;      /* leave 1 % Grubbs outliers out of the
+				      mean (flagged, never lost) */
+	double burette_tol_ml;     /* +/- mL, triangular; 0.05 (class A
+				      50 mL burette, ISO 385) */
+	double balance_linearity_g;/* +/- g per weighing, rectangular,
+				      tare and gross; 0.00015 (QUAM A2) */
+	int has_titrant_u;
+	double titrant_u;          /* standard uncertainty of the titrant
+				      concentration, mol/L, for rows whose
+				      lot is not in a register */
+	double k;                  /* coverage factor; 2 */
+} al_qc_options;
+
+void al_qc_options_default(al_qc_options *q);
 
 typedef struct al_assay_options {
 	const al_catalogue *catalogue; /* required */
@@ -50,6 +71,7 @@ typedef struct al_assay_options {
 	 * `today` when the row has none). NULL: not used. */
 	const al_register *titrants;
 	long today; /* day number (al_date_parse) */
+	al_qc_options qc;
 } al_assay_options;
 
 /* Flags on a titration row and on a group (a group carries the union of
@@ -66,7 +88,15 @@ enum {
 					   specification; the spec's is used */
 	AL_FLAG_DENSITY = 1u << 7,      /* converted mass <-> volume basis */
 	AL_FLAG_IMPLAUSIBLE = 1u << 8,  /* a value outside the usual range */
-	AL_FLAG_REJECTED = 1u << 9      /* rows of this result were rejected */
+	AL_FLAG_REJECTED = 1u << 9,     /* rows of this result were rejected */
+	AL_FLAG_STRAGGLER = 1u << 10,   /* Grubbs at 5 % (ISO 5725-2) */
+	AL_FLAG_OUTLIER = 1u << 11,     /* Grubbs at 1 % */
+	AL_FLAG_DIXON = 1u << 12,       /* Dixon r10 at 95 % */
+	AL_FLAG_RANGE = 1u << 13,       /* range above f(n) sr (ISO 5725-6) */
+	AL_FLAG_COCHRAN_STRAGGLER = 1u << 14, /* Cochran at 5 % */
+	AL_FLAG_COCHRAN_OUTLIER = 1u << 15,   /* Cochran at 1 % */
+	AL_FLAG_EXCLUDED = 1u << 16,    /* a Grubbs outlier left out of the mean */
+	AL_FLAG_NO_TITRANT_U = 1u << 17 /* u without the titrant's uncertainty */
 };
 
 /* Plausibility limits: beyond them a value is possible but unusual, and
@@ -105,8 +135,35 @@ typedef struct al_group_result {
 	unsigned flags;       /* AL_FLAG_ bits */
 	double endpoint_ph;   /* lowest endpoint pH among its rows, if flagged */
 	double endpoint_ph_needed;
-	const double *values; /* the n replicate values, in input order */
+	const double *values; /* the replicate values, in input order */
+	size_t n_values;      /* all of them (stats.n leaves out an excluded
+				 outlier) */
+	double median;
+	int has_grubbs, has_dixon;
+	double grubbs_g, dixon_q;
+	size_t grubbs_index, dixon_index; /* in values */
+	double range;
+	int has_critical_range;
+	double critical_range; /* f(n) sr */
+	int has_horrat;
+	double horrat;         /* RSD / Horwitz predicted RSD */
+	int has_u;
+	double u, U, k;        /* standard and expanded uncertainty, in unit */
+	al_gum_term budget[8];
+	size_t n_budget;
+	int has_excluded;
+	size_t excluded_index;
 } al_group_result;
+
+/* Cochran's test over the results of one product with the same n. */
+typedef struct al_cochran {
+	const char *product;
+	size_t l, n;          /* results, replicates each */
+	double c, crit5, crit1;
+	size_t result;        /* index of the result with the largest variance */
+} al_cochran;
+
+
 
 typedef struct al_assay_counts {
 	unsigned long rows_read; /* data rows, blank lines not counted */
@@ -125,8 +182,9 @@ al_assay *al_assay_new(const al_assay_options *opt, al_status *status);
 void al_assay_free(al_assay *run);
 
 /* Reads one titration file. Every row is used or reported: problems go
- * to the run's diagnostics with file, line and column. on_row (may be
- * NULL) sees each row used. Returns AL_OK when the file could be read
+ * to the run's diagnostics with file, line and column. When on_row is not
+ * NULL the rows used are kept and handed to it by al_assay_finish, in
+ * input order, with the screens' flags of each row. Returns AL_OK when the file could be read
  * to its end even if rows were bad (see al_assay_counts), else AL_ESYNTAX,
  * AL_EINPUT (a header problem), AL_EIO, AL_ENOMEM or what on_row
  * returned. */
@@ -139,8 +197,8 @@ al_status al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 			       const char *name, al_replicate_fn on_row,
 			       void *ud);
 
-/* Computes statistics and verdicts for every group; call once, after the
- * last al_assay_read. */
+/* Computes statistics, screens, uncertainty and verdicts for every group,
+ * then hands the kept rows to on_row; call once, after the last read. */
 al_status al_assay_finish(al_assay *run);
 
 size_t al_assay_group_count(const al_assay *run);
@@ -148,6 +206,10 @@ size_t al_assay_group_count(const al_assay *run);
 const al_group_result *al_assay_result(const al_assay *run, size_t i);
 al_assay_counts al_assay_get_counts(const al_assay *run);
 al_diags *al_assay_diags(al_assay *run);
+/* Cochran's tests of the run (one per product with two or more results
+ * of the same n); valid after finish. */
+size_t al_assay_cochran_count(const al_assay *run);
+const al_cochran *al_assay_cochran_at(const al_assay *run, size_t i);
 
 /* The titrant lots rows took their concentration from, in order of first
  * use; NULL past the end. */

@@ -39,7 +39,8 @@ int al_csv_put_text(FILE *out, const char *s, size_t len,
 
 /* The report: a header line and one line per result in order of first
  * appearance. Columns: product, lot, sample, acid, unit, n, mean, sd,
- * rsd_pct, ci95_low, ci95_high, spec_min, spec_max, status, flags, and
+ * rsd_pct, ci95_low, ci95_high, spec_min, spec_max, status, flags,
+ * median, grubbs_g, dixon_q, range, critical_range, horrat, u, U, k, and
  * report_id when opt->report_id is set.
  * Undefined numbers (sd for n = 1) are empty cells. AL_EIO when writing
  * fails. */
@@ -52,6 +53,12 @@ al_status al_report_write(FILE *out, const al_assay *run,
 al_status al_replicates_header(FILE *out, al_report_options *opt);
 al_status al_replicates_row(FILE *out, const al_replicate *rep,
 			    al_report_options *opt);
+
+/* The uncertainty budget of every result: product, lot, sample,
+ * component, value, unit, standard_uncertainty, sensitivity,
+ * contribution, share_pct. */
+al_status al_budget_write(FILE *out, const al_assay *run,
+			  al_report_options *opt);
 
 /* Rejected rows: header, then one row each: file, line, reason, record
  * (the record's bytes as read, in one field). */

@@ -21,6 +21,9 @@ typedef struct al_spec {
 	int has_max_rsd;
 	double max_rsd_pct;
 	size_t min_n;        /* 2 when not given */
+	int has_sr;
+	double sr;           /* repeatability standard deviation, in unit
+				(from sr, or r / 2.8 as ISO 5725-6 defines r) */
 	unsigned long line;  /* where it stands in its file */
 } al_spec;
 
@@ -28,7 +31,8 @@ typedef struct al_spec {
 typedef struct al_spec_table al_spec_table;
 
 /* Reads a specification CSV: columns product (required, unique), acid,
- * unit, min, max (at least one of the two per row), max_rsd_pct, min_n.
+ * unit, min, max (at least one of the two per row), max_rsd_pct, min_n,
+ * sr or r (repeatability, in unit).
  * Problems go to diags with file, line and column; the result is then
  * NULL with *status AL_EINPUT (or AL_ESYNTAX, AL_EIO, AL_ENOMEM). */
 al_spec_table *al_spec_table_read(const al_catalogue *cat,
@@ -46,8 +50,15 @@ typedef enum al_verdict {
 	AL_VERDICT_FAIL,
 	AL_VERDICT_RETEST,
 	AL_VERDICT_NO_SPEC,
+	AL_VERDICT_COND_PASS, /* guarded rule: inside the limits, within w */
+	AL_VERDICT_COND_FAIL, /* guarded rule: outside the limits, within w */
 	AL_VERDICT_COUNT
 } al_verdict;
+
+typedef enum al_decision_rule {
+	AL_DECISION_SIMPLE = 0, /* ILAC G8:09/2019 4.2.1 */
+	AL_DECISION_GUARDED     /* ILAC G8:09/2019 4.2.2, w = r U */
+} al_decision_rule;
 
 const char *al_verdict_name(al_verdict v);
 
@@ -56,7 +67,8 @@ enum {
 	AL_WHY_FEW = 1u << 0,       /* n below min_n */
 	AL_WHY_RSD = 1u << 1,       /* RSD above max_rsd_pct */
 	AL_WHY_BELOW_MIN = 1u << 2, /* mean below the minimum */
-	AL_WHY_ABOVE_MAX = 1u << 3  /* mean above the maximum */
+	AL_WHY_ABOVE_MAX = 1u << 3, /* mean above the maximum */
+	AL_WHY_RANGE = 1u << 4      /* range above the ISO 5725-6 critical range */
 };
 
 /* Simple acceptance (ILAC G8:09/2019 s.4.2.1): retest when n < min_n or
@@ -64,5 +76,13 @@ enum {
  * no-spec without a specification. *why gets the AL_WHY_ bits. The mean
  * is compared at full precision, before any rounding for the report. */
 al_verdict al_judge(const al_spec *spec, const al_summary *s, unsigned *why);
+
+/* The same under a stated rule. guard is the guard band w (r U) for the
+ * guarded rule, ignored for simple: pass inside [min + w, max - w], fail
+ * outside [min - w, max + w], conditional-pass or conditional-fail in
+ * between (inside or outside the limits). range_exceeded adds a retest. */
+al_verdict al_judge_rule(const al_spec *spec, const al_summary *s,
+			 al_decision_rule rule, double guard,
+			 int range_exceeded, unsigned *why);
 
 #endif

@@ -45,6 +45,21 @@ usage(FILE *out)
 	      "                          REPORT.record.json with -o)\n"
 	      "      --analyst NAME      who ran it, for the record\n"
 	      "\n"
+	      "Replicate QC and decision:\n"
+	      "      --decision RULE     simple (default: the mean against the\n"
+	      "                          limits) or guarded[:R] (guard band\n"
+	      "                          w = R x U, R default 1; ILAC G8)\n"
+	      "      --exclude-outliers  leave 1 %% Grubbs outliers out of the\n"
+	      "                          mean (flagged, kept in --replicates)\n"
+	      "      --budget FILE       uncertainty budget of every result (CSV)\n"
+	      "      --titrant-u U       standard uncertainty of the titrant\n"
+	      "                          concentration, mol/L, for rows whose lot\n"
+	      "                          is not in --titrants\n"
+	      "      --burette-tol-ml X  burette tolerance, +/- mL (default 0.05)\n"
+	      "      --balance-linearity-g X  balance linearity, +/- g (default\n"
+	      "                          0.00015)\n"
+	      "      --k K               coverage factor (default 2)\n"
+	      "\n"
 	      "Reading:\n"
 	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
 	      "                          from the header; ambiguous is an error)\n"
@@ -102,7 +117,8 @@ enum {
 	OPT_ACID = 256, OPT_UNIT, OPT_BLANK, OPT_TITRANT, OPT_DENSITY,
 	OPT_ENDPOINT, OPT_DECIMALS, OPT_REJECTS, OPT_DELIMITER,
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
-	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST
+	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
+	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K
 };
 
 static const struct option options[] = {
@@ -127,6 +143,13 @@ static const struct option options[] = {
 	{"titrants", required_argument, NULL, OPT_TITRANTS},
 	{"record", required_argument, NULL, OPT_RECORD},
 	{"analyst", required_argument, NULL, OPT_ANALYST},
+	{"decision", required_argument, NULL, OPT_DECISION},
+	{"exclude-outliers", no_argument, NULL, OPT_EXCLUDE},
+	{"budget", required_argument, NULL, OPT_BUDGET},
+	{"titrant-u", required_argument, NULL, OPT_TITRANT_U},
+	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
+	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
+	{"k", required_argument, NULL, OPT_K},
 	{"help", no_argument, NULL, 'h'},
 	{NULL, 0, NULL, 0},
 };
@@ -142,7 +165,7 @@ static const char *const column_names[] = {
 
 struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
-	const char *columns_file, *titrants, *record, *analyst;
+	const char *columns_file, *titrants, *record, *analyst, *budget;
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
 	al_assay_options aopt;
@@ -317,6 +340,68 @@ parse_args(int argc, char **argv, struct args *a)
 		case OPT_ANALYST:
 			a->analyst = optarg;
 			break;
+		case OPT_DECISION:
+			if (strcmp(optarg, "simple") == 0)
+				a->aopt.qc.decision = AL_DECISION_SIMPLE;
+			else if (strncmp(optarg, "guarded", 7) == 0 &&
+				 (optarg[7] == '\0' || optarg[7] == ':')) {
+				a->aopt.qc.decision = AL_DECISION_GUARDED;
+				a->aopt.qc.guard_r = 1;
+				if (optarg[7] == ':' &&
+				    (al_number_parse(optarg + 8, strlen(optarg + 8),
+						     '.', &v) != AL_NUM_OK ||
+				     !(v > 0 && v <= 10)))
+					return cli_usage_error(
+						       "assay",
+						       "--decision guarded:R takes R "
+						       "above 0 and at most 10"),
+					       -1;
+				if (optarg[7] == ':')
+					a->aopt.qc.guard_r = v;
+			} else
+				return cli_usage_error("assay",
+						       "--decision takes simple or "
+						       "guarded[:R]"),
+				       -1;
+			break;
+		case OPT_EXCLUDE:
+			a->aopt.qc.exclude_outliers = 1;
+			break;
+		case OPT_BUDGET:
+			a->budget = optarg;
+			break;
+		case OPT_TITRANT_U:
+			if (opt_number("--titrant-u", &v))
+				return -1;
+			if (!(v >= 0 && v < 1))
+				return cli_usage_error("assay",
+						       "--titrant-u is a standard "
+						       "uncertainty in mol/L, from "
+						       "0 to 1"),
+				       -1;
+			a->aopt.qc.has_titrant_u = 1;
+			a->aopt.qc.titrant_u = v;
+			break;
+		case OPT_BURETTE:
+		case OPT_BALANCE:
+		case OPT_K:
+			if (opt_number(c == OPT_K ? "--k" : c == OPT_BURETTE
+							 ? "--burette-tol-ml"
+							 : "--balance-linearity-g",
+				       &v))
+				return -1;
+			if (!(v > 0 && v < 100))
+				return cli_usage_error("assay",
+						       "%s must be above 0",
+						       argv[optind - 1]),
+				       -1;
+			if (c == OPT_K)
+				a->aopt.qc.k = v;
+			else if (c == OPT_BURETTE)
+				a->aopt.qc.burette_tol_ml = v;
+			else
+				a->aopt.qc.balance_linearity_g = v;
+			break;
 		case 'h':
 			usage(stdout);
 			return 1;
@@ -339,14 +424,15 @@ parse_args(int argc, char **argv, struct args *a)
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	const char *outs[4] = {a->output, a->replicates, a->rejects, a->record};
+	const char *outs[5] = {a->output, a->replicates, a->rejects, a->record,
+			       a->budget};
 	const char *ins[3] = {a->spec, a->columns_file, a->titrants};
 	struct stat so, si;
 
-	for (int i = 0; i < 4; i++) {
+	for (int i = 0; i < 5; i++) {
 		if (outs[i] == NULL || strcmp(outs[i], "-") == 0)
 			continue;
-		for (int j = i + 1; j < 4; j++)
+		for (int j = i + 1; j < 5; j++)
 			if (outs[j] && strcmp(outs[i], outs[j]) == 0) {
 				cli_usage_error("assay",
 						"'%s' is named for two outputs",
@@ -378,14 +464,32 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 {
 	al_assay_counts c = al_assay_get_counts(run);
 
+	for (size_t i = 0; i < al_assay_cochran_count(run); i++) {
+		const al_cochran *t = al_assay_cochran_at(run, i);
+		const al_group_result *r = al_assay_result(run, t->result);
+
+		fprintf(stderr,
+			PROG ": Cochran %s: C = %.4f over %zu results of n = %zu "
+			     "(critical %.3f at 5 %%, %.3f at 1 %%)%s%s/%s\n",
+			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
+			t->c > t->crit1	  ? ": variance outlier "
+			: t->c > t->crit5 ? ": variance straggler "
+					  : ": largest variance ",
+			r->lot, r->sample);
+	}
 	fprintf(stderr,
 		PROG ": %lu result%s: %lu pass, %lu fail, %lu retest, %lu "
-		     "no-spec; %lu rows read = %lu used + %lu rejected",
+		     "no-spec",
 		c.groups, c.groups == 1 ? "" : "s",
 		c.by_verdict[AL_VERDICT_PASS], c.by_verdict[AL_VERDICT_FAIL],
 		c.by_verdict[AL_VERDICT_RETEST],
-		c.by_verdict[AL_VERDICT_NO_SPEC], c.rows_read, c.rows_used,
-		c.rows_bad);
+		c.by_verdict[AL_VERDICT_NO_SPEC]);
+	if (a->aopt.qc.decision == AL_DECISION_GUARDED)
+		fprintf(stderr, ", %lu conditional-pass, %lu conditional-fail",
+			c.by_verdict[AL_VERDICT_COND_PASS],
+			c.by_verdict[AL_VERDICT_COND_FAIL]);
+	fprintf(stderr, "; %lu rows read = %lu used + %lu rejected",
+		c.rows_read, c.rows_used, c.rows_bad);
 	if (a->ropt.guarded)
 		fprintf(stderr, "; %lu text cell%s guarded against formulas",
 			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
@@ -578,7 +682,8 @@ load_titrants(const char *path)
  * acids, specifications and titrant lots used, the decision rule,
  * counts, and each result with its report_id. */
 static int
-fill_record(run_record *rec, const al_assay *run)
+fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
+	    int exclude)
 {
 	json_t *acids = json_array(), *specs = json_array();
 	json_t *lots = json_array(), *results = json_array(), *rule, *counts;
@@ -636,14 +741,16 @@ fill_record(run_record *rec, const al_assay *run)
 				sizeof flags);
 		bad |= json_array_append_new(
 			results,
-			json_pack("{s:s, s:s, s:s, s:s, s:s, s:s, s:I, s:o, s:s, "
-				  "s:s}",
+			json_pack("{s:s, s:s, s:s, s:s, s:s, s:s, s:I, s:o, s:o, "
+				  "s:o, s:s, s:s}",
 				  "report_id", id, "product", r->product, "lot",
 				  r->lot, "sample", r->sample, "acid",
 				  r->acid->name, "unit", al_unit_name(r->unit),
 				  "n", (json_int_t)r->stats.n, "mean",
 				  r->stats.n ? json_real(r->stats.mean)
 					     : json_null(),
+				  "u", r->has_u ? json_real(r->u) : json_null(),
+				  "U", r->has_u ? json_real(r->U) : json_null(),
 				  "status", al_verdict_name(r->verdict), "flags",
 				  flags));
 	}
@@ -660,12 +767,27 @@ fill_record(run_record *rec, const al_assay *run)
 					t->u_mol_l, "standardised_on", on,
 					"valid_until", until));
 	}
-	rule = json_pack("{s:s, s:s, s:s}", "name", "simple acceptance",
-			 "reference", "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
-			 "statement",
-			 "pass when min <= mean <= max (limits inclusive, the "
-			 "unrounded mean, measurement uncertainty not "
-			 "subtracted); retest when n < min_n or RSD > max_rsd_pct");
+	rule = guarded
+		       ? json_pack("{s:s, s:s, s:f, s:b, s:s}", "name",
+				   "guarded acceptance", "reference",
+				   "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
+				   "guard_band_r", guard_r, "outliers_excluded",
+				   exclude,
+				   "statement",
+				   "w = r U: pass inside [min + w, max - w], fail "
+				   "outside [min - w, max + w], conditional-pass "
+				   "or conditional-fail in between; retest when "
+				   "n < min_n, RSD > max_rsd_pct or the range "
+				   "exceeds f(n) sr (ISO 5725-6)")
+		       : json_pack("{s:s, s:s, s:b, s:s}", "name",
+				   "simple acceptance", "reference",
+				   "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
+				   "outliers_excluded", exclude, "statement",
+				   "pass when min <= mean <= max (limits "
+				   "inclusive, the unrounded mean, measurement "
+				   "uncertainty not subtracted); retest when n < "
+				   "min_n, RSD > max_rsd_pct or the range exceeds "
+				   "f(n) sr (ISO 5725-6)");
 	counts = json_pack("{s:I, s:I, s:I, s:I, s:I, s:I, s:I, s:I}",
 			   "rows_read", (json_int_t)c.rows_read, "rows_used",
 			   (json_int_t)c.rows_used, "rows_rejected",
@@ -680,6 +802,23 @@ fill_record(run_record *rec, const al_assay *run)
 	bad |= json_object_set_new(rec->root, "specifications", specs) != 0;
 	bad |= json_object_set_new(rec->root, "titrant_lots", lots) != 0;
 	bad |= json_object_set_new(rec->root, "results", results) != 0;
+	{
+		json_t *cochran = json_array();
+
+		for (size_t i = 0; cochran && i < al_assay_cochran_count(run);
+		     i++) {
+			const al_cochran *ct = al_assay_cochran_at(run, i);
+
+			bad |= json_array_append_new(
+				cochran,
+				json_pack("{s:s, s:I, s:I, s:f, s:f, s:f}",
+					  "product", ct->product, "results",
+					  (json_int_t)ct->l, "n", (json_int_t)ct->n,
+					  "C", ct->c, "critical_5pct", ct->crit5,
+					  "critical_1pct", ct->crit1));
+		}
+		bad |= json_object_set_new(rec->root, "cochran", cochran) != 0;
+	}
 	bad |= rule == NULL ||
 	       json_object_set_new(rec->root, "decision_rule", rule) != 0;
 	bad |= counts == NULL ||
@@ -695,7 +834,7 @@ cmd_assay(int argc, char **argv)
 	al_spec_table *specs = NULL;
 	al_assay *run = NULL;
 	al_outfile *rep_out = NULL, *rej_out = NULL, *report = NULL;
-	al_outfile *rec_out = NULL;
+	al_outfile *rec_out = NULL, *budget_out = NULL;
 	al_column_alias *aliases = NULL;
 	al_register *titrants = NULL;
 	size_t n_aliases = 0;
@@ -860,6 +999,17 @@ cmd_assay(int argc, char **argv)
 		cli_error("%s: write error", out_name);
 		goto out;
 	}
+	if (a.budget) {
+		budget_out = open_output(a.budget, NULL, &a.ropt);
+		if (budget_out == NULL)
+			goto out;
+		if (al_budget_write(al_outfile_stream(budget_out), run, &a.ropt) !=
+			    AL_OK ||
+		    al_outfile_prepare(budget_out) != AL_OK) {
+			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
+			goto out;
+		}
+	}
 	/* every output checked before any of them appears */
 	if (al_outfile_prepare(report) != AL_OK) {
 		cli_error("%s: %s", out_name, cli_reason(AL_OK));
@@ -890,7 +1040,12 @@ cmd_assay(int argc, char **argv)
 					      al_outfile_written_path(rep_out))) ||
 		    (rej_out && record_output(&rec, "rejects", a.rejects,
 					      al_outfile_written_path(rej_out))) ||
-		    fill_record(&rec, run) != 0 ||
+		    (budget_out &&
+		     record_output(&rec, "budget", a.budget,
+				   al_outfile_written_path(budget_out))) ||
+		    fill_record(&rec, run,
+				a.aopt.qc.decision == AL_DECISION_GUARDED,
+				a.aopt.qc.guard_r, a.aopt.qc.exclude_outliers) != 0 ||
 		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
 		    al_outfile_prepare(rec_out) != AL_OK) {
 			cli_error("%s: cannot write the record of the run: %s",
@@ -899,9 +1054,10 @@ cmd_assay(int argc, char **argv)
 		}
 	}
 	{
-		al_outfile **all[] = {&report, &rep_out, &rej_out, &rec_out};
+		al_outfile **all[] = {&report, &rep_out, &rej_out, &budget_out,
+				      &rec_out};
 
-		if (cli_commit_all(all, 4) != 0)
+		if (cli_commit_all(all, 5) != 0)
 			goto out;
 	}
 	endpoint_warnings(run);
@@ -909,8 +1065,11 @@ cmd_assay(int argc, char **argv)
 	{
 		al_assay_counts c = al_assay_get_counts(run);
 
+		/* conditional statements are not a pass (ILAC G8 4.2.2) */
 		rc = c.by_verdict[AL_VERDICT_FAIL] ||
-				     c.by_verdict[AL_VERDICT_RETEST]
+				     c.by_verdict[AL_VERDICT_RETEST] ||
+				     c.by_verdict[AL_VERDICT_COND_PASS] ||
+				     c.by_verdict[AL_VERDICT_COND_FAIL]
 			     ? EXIT_NOT_PASS
 			     : EXIT_ALL_PASS;
 	}
@@ -919,6 +1078,7 @@ out:
 	al_outfile_abort(rej_out);
 	al_outfile_abort(report);
 	al_outfile_abort(rec_out);
+	al_outfile_abort(budget_out);
 	al_assay_free(run);
 	al_spec_table_free(specs);
 	al_diags_clear(&spec_diags);

@@ -1,0 +1,281 @@
+/* acidlot: evaluation of one result: replicate statistics, screens,
+ * measurement uncertainty and the verdict under the decision rule.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include "evaluate.h"
+
+#include <gsl/gsl_sort.h>
+#include <gsl/gsl_statistics_double.h>
+#include <math.h>
+#include <string.h>
+
+#include "acidlot/alloc.h"
+#include "acidlot/screens.h"
+
+void
+al_qc_options_default(al_qc_options *q)
+{
+	memset(q, 0, sizeof *q);
+	q->decision = AL_DECISION_SIMPLE;
+	q->guard_r = 1;
+	/* ISO 385 class A 50 mL burette, +/-0.05 mL (issue 5; from memory) */
+	q->burette_tol_ml = 0.05;
+	/* analytical balance linearity, QUAM 2012 A2 (seen) */
+	q->balance_linearity_g = 0.00015;
+	q->k = 2;
+}
+
+/* Class A tolerances, +/- mL, by nominal volume: bulb pipettes ISO 648
+ * and volumetric flasks ISO 1042 (from memory). A volume between
+ * nominals takes the next larger; above the largest, in proportion. */
+static double
+tolerance(const double (*table)[2], size_t n, double v)
+{
+	for (size_t i = 0; i < n; i++)
+		if (v <= table[i][0] * 1.000001)
+			return table[i][1];
+	return table[n - 1][1] * v / table[n - 1][0];
+}
+
+static const double pipettes[][2] = {
+	{1, 0.008},  {2, 0.010},  {5, 0.015},  {10, 0.020},
+	{20, 0.030}, {25, 0.030}, {50, 0.050}, {100, 0.080},
+};
+static const double flasks[][2] = {
+	{10, 0.025},  {25, 0.040},  {50, 0.060},  {100, 0.100},
+	{200, 0.150}, {250, 0.150}, {500, 0.250}, {1000, 0.400},
+};
+
+static void
+term(al_group_result *r, const char *name, const char *unit, double value,
+     double u, int power)
+{
+	al_gum_term *t = &r->budget[r->n_budget++];
+
+	memset(t, 0, sizeof *t);
+	t->name = name;
+	t->unit = unit;
+	t->value = value;
+	t->u = u;
+	t->power = power;
+}
+
+/* GUM product/quotient model of TA = (V - Vb) c E DF per / m at the mean
+ * inputs, with the repeatability of the mean s / sqrt n. */
+static void
+uncertainty(const al_assay_options *opt, const al_eval_inputs *in,
+	    al_group_result *r)
+{
+	const al_qc_options *q = &opt->qc;
+	double u_v = al_gum_triangular(q->burette_tol_ml);
+	double net = in->titrant_ml - in->blank_ml;
+	/* the titrant and the blank are two burette readings */
+	double u_net = in->blank_ml > 0 ? sqrt(2.0) * u_v : u_v;
+	double u_conc = in->all_conc_u ? in->conc_u
+			: q->has_titrant_u ? q->titrant_u
+					   : 0;
+
+	r->n_budget = 0;
+	if (r->stats.n == 0 || !(net > 0))
+		return;
+	term(r, "titrant volume (net of blank)", "mL", net, u_net, 1);
+	term(r, "titrant concentration", "mol/L", in->conc, u_conc, 1);
+	if (u_conc == 0)
+		r->flags |= AL_FLAG_NO_TITRANT_U;
+	if (in->basis == AL_BASIS_MASS)
+		term(r, "sample mass", "g", in->amount,
+		     sqrt(2.0) * al_gum_rectangular(q->balance_linearity_g), -1);
+	else
+		term(r, "sample volume (pipette)", "mL", in->amount,
+		     al_gum_triangular(tolerance(pipettes, 8, in->amount)), -1);
+	if (in->made_up_ml > 0) {
+		term(r, "made-up volume (flask)", "mL", in->made_up_ml,
+		     al_gum_triangular(tolerance(flasks, 8, in->made_up_ml)), 1);
+		term(r, "aliquot (pipette)", "mL", in->aliquot_ml,
+		     al_gum_triangular(tolerance(pipettes, 8, in->aliquot_ml)),
+		     -1);
+	}
+	if (r->stats.has_sd)
+		term(r, "repeatability of the mean", "", 1.0,
+		     r->stats.sd / sqrt((double)r->stats.n) / r->stats.mean, 1);
+	r->u = al_gum_product(r->stats.mean, r->budget, r->n_budget);
+	r->k = q->k;
+	r->U = r->k * r->u;
+	r->has_u = 1;
+}
+
+/* The acid's mass fraction for Horwitz: per 100 g (or 100 mL, taken as
+ * 100 g: juices are near 1 g/mL) over 100, per kg (L) over 1000. */
+static double
+mass_fraction(const al_group_result *r)
+{
+	double per = al_unit_per(r->unit);
+	double grams = al_unit_is_meq(r->unit) ? r->stats.mean * r->acid->g_per_meq
+					       : r->stats.mean;
+
+	return grams / per;
+}
+
+void
+al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
+	       double *scratch, al_group_result *r)
+{
+	const al_qc_options *q = &opt->qc;
+	size_t n = r->n_values, used = n;
+	double lo, hi;
+	unsigned why;
+	int range_exceeded = 0;
+
+	al_stats_summarise(r->values, n, opt->confidence, &r->stats);
+	if (n >= 3 && r->stats.has_sd) {
+		double g = al_grubbs_g(r->values, n, r->stats.mean, r->stats.sd,
+				       &r->grubbs_index);
+
+		r->has_grubbs = 1;
+		r->grubbs_g = g;
+		if (g > al_grubbs_critical(n, 0.01))
+			r->flags |= AL_FLAG_OUTLIER;
+		else if (g > al_grubbs_critical(n, 0.05))
+			r->flags |= AL_FLAG_STRAGGLER;
+	}
+	if (n >= 3 && n <= 10) {
+		r->has_dixon = 1;
+		r->dixon_q = al_dixon_q(r->values, n, &r->dixon_index);
+		if (r->dixon_q > al_dixon_critical(n, 0.95))
+			r->flags |= AL_FLAG_DIXON;
+	}
+	/* the values the result is made of: all, or all but an excluded
+	 * outlier (ISO 5725-2 keeps it in the record; so do we) */
+	for (size_t i = 0, k = 0; i < n; i++) {
+		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
+		    i == r->grubbs_index)
+			continue;
+		scratch[k++] = r->values[i];
+	}
+	if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+		used = n - 1;
+		r->has_excluded = 1;
+		r->excluded_index = r->grubbs_index;
+		r->flags |= AL_FLAG_EXCLUDED;
+		al_stats_summarise(scratch, used, opt->confidence, &r->stats);
+	}
+	if (used > 0) {
+		gsl_sort(scratch, 1, used);
+		r->median = gsl_stats_median_from_sorted_data(scratch, 1, used);
+		lo = scratch[0];
+		hi = scratch[used - 1];
+		r->range = hi - lo;
+	}
+	if (r->spec && r->spec->has_sr && used >= 2) {
+		r->has_critical_range = 1;
+		r->critical_range = al_critical_range_factor(used) * r->spec->sr;
+		if (r->range > r->critical_range) {
+			range_exceeded = 1;
+			r->flags |= AL_FLAG_RANGE;
+		}
+	}
+	if (r->stats.has_rsd) {
+		double c = mass_fraction(r);
+
+		if (c > 0) {
+			r->has_horrat = 1;
+			r->horrat = r->stats.rsd_pct / al_horwitz_rsd(c);
+		}
+	}
+	uncertainty(opt, in, r);
+	r->verdict = al_judge_rule(r->spec, &r->stats, q->decision,
+				   r->has_u ? q->guard_r * r->U : 0,
+				   range_exceeded, &why);
+	if (r->stats.n == 1)
+		r->flags |= AL_FLAG_SINGLE;
+	if (why & AL_WHY_FEW)
+		r->flags |= AL_FLAG_FEW;
+	if (why & AL_WHY_RSD)
+		r->flags |= AL_FLAG_RSD;
+	if (why & AL_WHY_BELOW_MIN)
+		r->flags |= AL_FLAG_BELOW_MIN;
+	if (why & AL_WHY_ABOVE_MAX)
+		r->flags |= AL_FLAG_ABOVE_MAX;
+}
+
+al_cochran *
+al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
+		int *oom)
+{
+	al_cochran *out = NULL;
+	size_t n_found = 0;
+	double *var = NULL;
+	size_t *idx = NULL;
+
+	*n_out = 0;
+	*oom = 0;
+	if (count < 2)
+		return NULL;
+	var = al_malloc(count * sizeof *var);
+	idx = al_malloc(count * sizeof *idx);
+	if (var == NULL || idx == NULL)
+		goto nomem;
+	for (size_t i = 0; i < count; i++) {
+		const char *product = results[i].product;
+		size_t best_n = 0, best_count = 0, l = 0, at;
+		int seen = 0;
+		al_cochran *grown;
+		double c;
+
+		for (size_t j = 0; j < i && !seen; j++)
+			seen = strcmp(results[j].product, product) == 0;
+		if (seen)
+			continue;
+		/* the modal n of this product's results with a variance */
+		for (size_t j = i; j < count; j++) {
+			size_t nj = results[j].stats.n, same = 0;
+
+			if (strcmp(results[j].product, product) != 0 ||
+			    !results[j].stats.has_sd)
+				continue;
+			for (size_t k = i; k < count; k++)
+				same += strcmp(results[k].product, product) == 0 &&
+					results[k].stats.n == nj;
+			if (same > best_count ||
+			    (same == best_count && nj > best_n)) {
+				best_count = same;
+				best_n = nj;
+			}
+		}
+		if (best_count < 2)
+			continue;
+		for (size_t j = i; j < count; j++)
+			if (strcmp(results[j].product, product) == 0 &&
+			    results[j].stats.n == best_n &&
+			    results[j].stats.has_sd) {
+				var[l] = results[j].stats.sd * results[j].stats.sd;
+				idx[l++] = j;
+			}
+		c = al_cochran_c(var, l, &at);
+		grown = al_realloc(out, (n_found + 1) * sizeof *grown);
+		if (grown == NULL)
+			goto nomem;
+		out = grown;
+		out[n_found].product = product;
+		out[n_found].l = l;
+		out[n_found].n = best_n;
+		out[n_found].c = c;
+		out[n_found].crit5 = al_cochran_critical(l, best_n, 0.05);
+		out[n_found].crit1 = al_cochran_critical(l, best_n, 0.01);
+		out[n_found].result = idx[at];
+		if (c > out[n_found].crit1)
+			results[idx[at]].flags |= AL_FLAG_COCHRAN_OUTLIER;
+		else if (c > out[n_found].crit5)
+			results[idx[at]].flags |= AL_FLAG_COCHRAN_STRAGGLER;
+		n_found++;
+	}
+	al_free(var);
+	al_free(idx);
+	*n_out = n_found;
+	return out;
+nomem:
+	al_free(var);
+	al_free(idx);
+	al_free(out);
+	*oom = 1;
+	return NULL;
+}
