@@ -506,6 +506,16 @@ endpoint_warnings(const al_assay *run)
 		const al_group_result *r = al_assay_result(run, i);
 		double got;
 
+		if (r->flags & AL_FLAG_RANGE)
+			fprintf(stderr,
+				PROG ": warning: %s/%s/%s: the range %.4g of %zu "
+				     "results exceeds the critical range %.4g = "
+				     "f(%zu) sr (ISO 5725-6): take further results; "
+				     "if the range of all of them still exceeds its "
+				     "critical range, report the median\n",
+				r->product, r->lot, r->sample, r->range, r->stats.n,
+				r->critical_range, r->stats.n);
+
 		if (!(r->flags & AL_FLAG_ENDPOINT_LOW))
 			continue;
 		got = al_protons_titrated(r->acid->pka, r->acid->n_pka,
