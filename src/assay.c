@@ -8,6 +8,7 @@
 
 #include "acidlot/alloc.h"
 #include "acidlot/date.h"
+#include "acidlot/juice.h"
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
 #include "evaluate.h"
@@ -19,13 +20,13 @@
 enum {
 	C_SAMPLE, C_TITRANT, C_MASS, C_VOLUME, C_PRODUCT, C_LOT, C_REPLICATE,
 	C_BLANK, C_CONC, C_MADE_UP, C_ALIQUOT, C_ACID, C_DENSITY, C_ENDPOINT,
-	C_TITRANT_LOT, C_DATE, C_COUNT
+	C_TITRANT_LOT, C_DATE, C_BRIX, C_WATER, C_COUNT
 };
 static const char *const cols[C_COUNT] = {
 	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph",	 "titrant_lot", "date"};
+	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct"};
 
 struct group {
 	size_t key;     /* offset in the arena: product \0 lot \0 sample \0 */
@@ -44,6 +45,9 @@ struct group {
 	double sum_made_up, sum_aliquot;
 	uint32_t n_conc_u;
 	al_basis basis;
+	double sum_brix, sum_water, sum_density;
+	uint32_t n_brix, n_water, n_density;
+	int anhydrous;
 };
 
 /* A row used, kept for the replicate output when one is asked for. */
@@ -798,7 +802,8 @@ row_values(al_assay *run, const al_csv_row *row)
 	double mass = 0, volume = 0, density = 0, endpoint = 0, value;
 	int got_mass, got_volume, got_density, got_endpoint, got;
 	unsigned flags = 0;
-	double needed = 0, conc_u = -1;
+	double needed = 0, conc_u = -1, brix = 0, water = 0;
+	int got_brix, got_water;
 	struct group *g;
 	int created;
 	al_status st;
@@ -915,6 +920,16 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (got_endpoint == 1 && !(endpoint >= 0 && endpoint <= 14))
 		ROW_ERR(run, line, "endpoint_ph",
 			"endpoint pH %g is outside 0 to 14", endpoint);
+	got_brix = al_cell_number(row, run->col[C_BRIX], "brix", run->point,
+				  run->file, &run->row_diags, &brix);
+	if (got_brix == 1 && !(brix >= 0 && brix <= 100))
+		ROW_ERR(run, line, "brix", "Brix %g is outside 0 to 100", brix);
+	got_water = al_cell_number(row, run->col[C_WATER], "water_pct",
+				   run->point, run->file, &run->row_diags,
+				   &water);
+	if (got_water == 1 && !(water >= 0 && water < 100))
+		ROW_ERR(run, line, "water_pct",
+			"water %g %% is outside 0 to below 100", water);
 
 	if (run->row_diags.errors == 0) {
 		al_ta_problem probs[8];
@@ -963,6 +978,8 @@ row_values(al_assay *run, const al_csv_row *row)
 		g->acid = acid;
 		g->unit = unit;
 		g->basis = t.basis;
+		g->anhydrous = spec && spec->has_basis ? spec->anhydrous
+						       : run->opt.anhydrous;
 	} else if (g->acid != acid) {
 		ROW_ERR(run, line, "acid",
 			"'%s' differs from '%s' of the same product, lot and "
@@ -972,6 +989,19 @@ row_values(al_assay *run, const al_csv_row *row)
 		return AL_OK;
 	}
 	unit = g->unit;
+	if (al_unit_basis(unit) != t.basis && got_density != 1 &&
+	    got_brix == 1) {
+		/* the sucrose density of its Brix (NBS), when none is given */
+		if (al_density_from_brix(brix, &density) == AL_OK) {
+			got_density = 1;
+			flags |= AL_FLAG_DENSITY_BRIX;
+		} else {
+			ROW_ERR(run, line, "brix",
+				"a density from Brix needs 0 to 40 Brix (the NBS "
+				"sucrose table's range); give density_g_ml");
+			return AL_OK;
+		}
+	}
 	if (al_unit_basis(unit) != t.basis) {
 		if (got_density != 1) {
 			ROW_ERR(run, line,
@@ -991,6 +1021,22 @@ row_values(al_assay *run, const al_csv_row *row)
 		return AL_OK;
 	}
 	flags |= plausibility(run, line, &t);
+	if (g->anhydrous) {
+		if (got_water != 1) {
+			ROW_ERR(run, line, "water_pct",
+				"is needed for a result on the anhydrous basis");
+			return AL_OK;
+		}
+		if (al_unit_basis(unit) != AL_BASIS_MASS) {
+			ROW_ERR(run, line, NULL,
+				"the anhydrous basis needs a per-mass unit, not "
+				"%s",
+				al_unit_name(unit));
+			return AL_OK;
+		}
+		/* assay = meq E 100 / (m (1 - water/100)) (METHODS.md s.6) */
+		al_anhydrous(value, water, &value);
+	}
 	if (got_endpoint == 1 && acid->n_pka > 0) {
 		double titrated =
 			al_protons_titrated(acid->pka, acid->n_pka, endpoint);
@@ -1018,6 +1064,18 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (conc_u >= 0) {
 		g->sum_conc_u += conc_u;
 		g->n_conc_u++;
+	}
+	if (got_brix == 1) {
+		g->sum_brix += brix;
+		g->n_brix++;
+	}
+	if (got_water == 1) {
+		g->sum_water += water;
+		g->n_water++;
+	}
+	if (got_density == 1) {
+		g->sum_density += density;
+		g->n_density++;
 	}
 	run->counts.rows_used++;
 	if (run->on_row)
@@ -1175,6 +1233,12 @@ al_assay_finish(al_assay *run)
 		in.conc_u = g->n_conc_u ? g->sum_conc_u / g->n_conc_u : 0;
 		in.basis = g->basis;
 		in.n = g->n;
+		in.has_brix = g->n_brix > 0;
+		in.brix = g->n_brix ? g->sum_brix / g->n_brix : 0;
+		in.has_water = g->n_water > 0;
+		in.water_pct = g->n_water ? g->sum_water / g->n_water : 0;
+		in.density = g->n_density ? g->sum_density / g->n_density : 0;
+		r->anhydrous = g->anhydrous;
 		al_eval_result(&run->opt, &in, scratch, r);
 		if (g->flags & AL_FLAG_ENDPOINT_LOW) {
 			r->endpoint_ph = g->min_endpoint;
@@ -1239,6 +1303,15 @@ al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 		{AL_FLAG_COCHRAN_OUTLIER, "cochran-outlier"},
 		{AL_FLAG_COCHRAN_STRAGGLER, "cochran-straggler"},
 		{AL_FLAG_NO_TITRANT_U, "u-without-titrant"},
+		{AL_FLAG_BRIX_LOW, "brix-below-min"},
+		{AL_FLAG_BRIX_HIGH, "brix-above-max"},
+		{AL_FLAG_RATIO_LOW, "ratio-below-min"},
+		{AL_FLAG_RATIO_HIGH, "ratio-above-max"},
+		{AL_FLAG_WATER_LOW, "water-below-min"},
+		{AL_FLAG_WATER_HIGH, "water-above-max"},
+		{AL_FLAG_NO_BRIX, "no-brix-or-water-values"},
+		{AL_FLAG_DENSITY_BRIX, "density-from-brix"},
+		{AL_FLAG_BRIX_UNCORRECTED, "brix-not-acid-corrected"},
 	};
 	size_t len = 0;
 

@@ -18,6 +18,8 @@ extern const unsigned char al_ref_acids[];
 extern const size_t al_ref_acids_len;
 extern const unsigned char al_ref_standards[];
 extern const size_t al_ref_standards_len;
+extern const unsigned char al_ref_bases[];
+extern const size_t al_ref_bases_len;
 
 struct al_catalogue {
 	al_element *elements;
@@ -26,6 +28,8 @@ struct al_catalogue {
 	size_t n_acids;
 	al_standard *standards;
 	size_t n_standards;
+	al_base *bases;
+	size_t n_bases;
 };
 
 /* Column lookup shared by both tables: index of `name` in the header. */
@@ -246,6 +250,43 @@ standard_row(struct table *t, const al_csv_row *row)
 	return AL_OK;
 }
 
+enum { B_NAME, B_ALIASES, B_FORMULA, B_EQUIV, B_SOURCE };
+static const char *const base_cols[] = {"name", "aliases", "formula",
+					"hydroxide_equivalents", "source"};
+
+static al_status
+base_row(struct table *t, const al_csv_row *row)
+{
+	al_catalogue *cat = t->cat;
+	al_base *b, *grown;
+	const char *why = NULL;
+	double eq;
+	al_status st;
+
+	grown = al_realloc(cat->bases, (cat->n_bases + 1) * sizeof *grown);
+	if (grown == NULL)
+		return AL_ENOMEM;
+	cat->bases = grown;
+	b = &cat->bases[cat->n_bases];
+	memset(b, 0, sizeof *b);
+	cat->n_bases++;
+	b->name = al_strdup(cell(t, row, B_NAME));
+	b->aliases = al_strdup(cell(t, row, B_ALIASES));
+	b->formula = al_strdup(cell(t, row, B_FORMULA));
+	b->source = al_strdup(cell(t, row, B_SOURCE));
+	if (!b->name || !b->aliases || !b->formula || !b->source)
+		return AL_ENOMEM;
+	if ((st = parse_double(t, row, B_EQUIV, &eq)) != AL_OK)
+		return st;
+	b->equivalents = (int)eq;
+	st = al_formula_mass(cat, b->formula, &b->molar_mass, &why);
+	if (st == AL_ENOMEM)
+		return st;
+	if (st != AL_OK)
+		return bad(t, row->line, why, b->formula);
+	return AL_OK;
+}
+
 static al_status
 load_table(al_catalogue *cat, const unsigned char *data, size_t len,
 	   const char *file, const char *const *names, size_t n_names,
@@ -286,6 +327,10 @@ al_catalogue_new(al_status *status, al_diags *diags)
 		st = load_table(cat, al_ref_standards, al_ref_standards_len,
 				"reference/standards.csv", standard_cols, 7,
 				standard_row, diags);
+	if (st == AL_OK)
+		st = load_table(cat, al_ref_bases, al_ref_bases_len,
+				"reference/bases.csv", base_cols, 5, base_row,
+				diags);
 	if (st != AL_OK) {
 		al_catalogue_free(cat);
 		*status = st;
@@ -321,6 +366,13 @@ al_catalogue_free(al_catalogue *cat)
 		al_free(a->formula);
 		al_free(a->source);
 	}
+	for (size_t i = 0; i < cat->n_bases; i++) {
+		al_free(cat->bases[i].name);
+		al_free(cat->bases[i].aliases);
+		al_free(cat->bases[i].formula);
+		al_free(cat->bases[i].source);
+	}
+	al_free(cat->bases);
 	al_free(cat->standards);
 	al_free(cat->elements);
 	al_free(cat->acids);
@@ -587,4 +639,25 @@ al_catalogue_find_standard(const al_catalogue *cat, const char *name)
 				  cat->standards[i].aliases))
 			return &cat->standards[i];
 	return NULL;
+}
+
+const al_base *
+al_catalogue_find_base(const al_catalogue *cat, const char *name)
+{
+	for (size_t i = 0; i < cat->n_bases; i++)
+		if (entry_matches(name, cat->bases[i].name, cat->bases[i].aliases))
+			return &cat->bases[i];
+	return NULL;
+}
+
+size_t
+al_catalogue_base_count(const al_catalogue *cat)
+{
+	return cat->n_bases;
+}
+
+const al_base *
+al_catalogue_base(const al_catalogue *cat, size_t i)
+{
+	return i < cat->n_bases ? &cat->bases[i] : NULL;
 }

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/juice.h"
 #include "acidlot/screens.h"
 
 void
@@ -115,6 +116,98 @@ mass_fraction(const al_group_result *r)
 	return grams / per;
 }
 
+/* TA as % w/w of the result's acid: per 100 g (or 100 mL over the
+ * density), meq through the factor. 0 when a volume result has no
+ * density to go by. */
+static double
+ta_pct_w_w(const al_group_result *r, double density)
+{
+	double v = al_unit_is_meq(r->unit) ? r->stats.mean * r->acid->g_per_meq
+					   : r->stats.mean;
+
+	v *= 100 / al_unit_per(r->unit);
+	if (al_unit_basis(r->unit) == AL_BASIS_VOLUME)
+		v = density > 0 ? v / density : 0;
+	return v;
+}
+
+/* Brix, the acid-corrected Brix and the ratio (Kimball 1991): the
+ * correction is for citric acid, so it applies to results expressed as
+ * citric acid (either form, taken as anhydrous citric). */
+static void
+juice(const al_eval_inputs *in, al_group_result *r)
+{
+	double pct, density = in->density;
+
+	r->has_water = in->has_water;
+	r->water_pct = in->water_pct;
+	if (!in->has_brix || r->stats.n == 0)
+		return;
+	r->has_brix = 1;
+	r->brix = in->brix;
+	if (!(density > 0) && al_density_from_brix(in->brix, &density) != AL_OK)
+		density = 0;
+	pct = ta_pct_w_w(r, density);
+	if (!(pct > 0))
+		return;
+	if (strncmp(r->acid->name, "citric", 6) == 0) {
+		double citric = pct * 192.123 / 3 / 1000 / r->acid->g_per_meq, c;
+
+		if (al_brix_acid_correction(citric, &c) == AL_OK) {
+			r->has_brix_corrected = 1;
+			r->brix_corrected = in->brix + c;
+		}
+	} else
+		r->flags |= AL_FLAG_BRIX_UNCORRECTED;
+	r->has_ratio = 1;
+	r->ratio = (r->has_brix_corrected ? r->brix_corrected : r->brix) / pct;
+}
+
+/* Brix, ratio and water limits join the decision: any outside fails;
+ * limits without values to judge ask for a retest. */
+static void
+other_limits(al_group_result *r)
+{
+	const al_spec *sp = r->spec;
+	double brix = r->has_brix_corrected ? r->brix_corrected : r->brix;
+	unsigned out = 0;
+	int missing = 0;
+
+	if (sp == NULL || r->verdict == AL_VERDICT_RETEST ||
+	    r->verdict == AL_VERDICT_NO_SPEC)
+		return;
+	if (sp->has_brix_min || sp->has_brix_max) {
+		if (!r->has_brix)
+			missing = 1;
+		else if (sp->has_brix_min && brix < sp->brix_min)
+			out |= AL_FLAG_BRIX_LOW;
+		else if (sp->has_brix_max && brix > sp->brix_max)
+			out |= AL_FLAG_BRIX_HIGH;
+	}
+	if (sp->has_ratio_min || sp->has_ratio_max) {
+		if (!r->has_ratio)
+			missing = 1;
+		else if (sp->has_ratio_min && r->ratio < sp->ratio_min)
+			out |= AL_FLAG_RATIO_LOW;
+		else if (sp->has_ratio_max && r->ratio > sp->ratio_max)
+			out |= AL_FLAG_RATIO_HIGH;
+	}
+	if (sp->has_water_min || sp->has_water_max) {
+		if (!r->has_water)
+			missing = 1;
+		else if (sp->has_water_min && r->water_pct < sp->water_min)
+			out |= AL_FLAG_WATER_LOW;
+		else if (sp->has_water_max && r->water_pct > sp->water_max)
+			out |= AL_FLAG_WATER_HIGH;
+	}
+	r->flags |= out;
+	if (missing) {
+		r->flags |= AL_FLAG_NO_BRIX;
+		r->verdict = AL_VERDICT_RETEST;
+	} else if (out)
+		r->verdict = AL_VERDICT_FAIL;
+}
+
 void
 al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	       double *scratch, al_group_result *r)
@@ -195,6 +288,8 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 		r->flags |= AL_FLAG_BELOW_MIN;
 	if (why & AL_WHY_ABOVE_MAX)
 		r->flags |= AL_FLAG_ABOVE_MAX;
+	juice(in, r);
+	other_limits(r);
 }
 
 al_cochran *

@@ -12,6 +12,8 @@ typedef struct al_eval_inputs {
 	int all_conc_u;  /* every row had one */
 	al_basis basis;
 	size_t n;
+	int has_brix, has_water;
+	double brix, water_pct, density; /* means; density 0 when unknown */
 } al_eval_inputs;
 
 /* Fills r (whose values, n_values, acid, unit and spec are set) with its

@@ -119,11 +119,13 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
 				"flags,median,grubbs_g,dixon_q,range,"
-				"critical_range,horrat,u,U,k,report_id"
+				"critical_range,horrat,u,U,k,brix,brix_corrected,"
+				"brix_acid_ratio,water_pct,basis,report_id"
 			      : "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
 				"flags,median,grubbs_g,dixon_q,range,"
-				"critical_range,horrat,u,U,k",
+				"critical_range,horrat,u,U,k,brix,brix_corrected,"
+				"brix_acid_ratio,water_pct,basis",
 	       opt);
 	for (size_t i = 0; i < n; i++) {
 		const al_group_result *r = al_assay_result(run, i);
@@ -159,6 +161,11 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 		number(out, r->has_u, r->u, -1, opt);
 		number(out, r->has_u, r->U, -1, opt);
 		number(out, r->has_u, r->k, -1, opt);
+		number(out, r->has_brix, r->brix, -1, opt);
+		number(out, r->has_brix_corrected, r->brix_corrected, -1, opt);
+		number(out, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
+		number(out, r->has_water, r->water_pct, -1, opt);
+		fprintf(out, "%c%s", d, r->anhydrous ? "anhydrous" : "as-is");
 		if (opt->report_id)
 			fprintf(out, "%c%s-%04zu", d, opt->report_id, i + 1);
 		putc('\n', out);

@@ -13,10 +13,13 @@ struct al_spec_table {
 };
 
 enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_SR,
-       C_R, C_COUNT };
+       C_R, C_BRIX_MIN, C_BRIX_MAX, C_RATIO_MIN, C_RATIO_MAX, C_WATER_MIN,
+       C_WATER_MAX, C_BASIS, C_COUNT };
 static const char *const spec_cols[C_COUNT] = {
-	"product", "acid", "unit", "min", "max", "max_rsd_pct", "min_n", "sr",
-	"r"};
+	"product",   "acid",	  "unit",      "min",	    "max",
+	"max_rsd_pct", "min_n",	  "sr",	       "r",	    "brix_min",
+	"brix_max",  "ratio_min", "ratio_max", "water_min", "water_max",
+	"basis"};
 
 struct spec_reader {
 	const al_catalogue *cat;
@@ -183,6 +186,44 @@ spec_row(void *ud, const al_csv_row *row)
 			s.has_sr = 1;
 			/* ISO 5725-6 3.7: r = 2.8 sr (1.96 sqrt 2 rounded) */
 			s.sr = got_sr == 1 ? sr : rl / 2.8;
+		}
+	}
+	{
+		static const int cols[6] = {C_BRIX_MIN,	 C_BRIX_MAX,  C_RATIO_MIN,
+					    C_RATIO_MAX, C_WATER_MIN, C_WATER_MAX};
+		int *has[6] = {&s.has_brix_min,	 &s.has_brix_max,
+			       &s.has_ratio_min, &s.has_ratio_max,
+			       &s.has_water_min, &s.has_water_max};
+		double *val[6] = {&s.brix_min,	&s.brix_max,  &s.ratio_min,
+				  &s.ratio_max, &s.water_min, &s.water_max};
+
+		for (int k = 0; k < 6; k++) {
+			int g = al_cell_number(row, r->col[cols[k]],
+					       spec_cols[cols[k]], r->point,
+					       r->file, r->diags, val[k]);
+
+			if (g < 0)
+				r->bad = 1;
+			*has[k] = g == 1;
+		}
+		for (int k = 0; k < 6; k += 2)
+			if (*has[k] && *has[k + 1] && *val[k] > *val[k + 1]) {
+				al_diags_add(r->diags, AL_SEV_ERROR, r->file,
+					     row->line, spec_cols[cols[k]],
+					     "%g is above %s %g", *val[k],
+					     spec_cols[cols[k + 1]], *val[k + 1]);
+				r->bad = 1;
+			}
+		text = al_cell(row, r->col[C_BASIS], &len);
+		if (len > 0) {
+			s.has_basis = 1;
+			if (al_word_eq(text, len, "anhydrous"))
+				s.anhydrous = 1;
+			else if (!al_word_eq(text, len, "as-is") &&
+				 !al_word_eq(text, len, "as is"))
+				err(r, row->line, "basis",
+				    "is not a basis (use as-is or anhydrous)", text,
+				    len);
 		}
 	}
 	if (!s.has_min && !s.has_max && !limit_bad) {

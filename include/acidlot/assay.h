@@ -72,6 +72,8 @@ typedef struct al_assay_options {
 	const al_register *titrants;
 	long today; /* day number (al_date_parse) */
 	al_qc_options qc;
+	int anhydrous; /* results on the anhydrous basis (needs water_pct)
+			  for groups whose specification names no basis */
 } al_assay_options;
 
 /* Flags on a titration row and on a group (a group carries the union of
@@ -96,7 +98,16 @@ enum {
 	AL_FLAG_COCHRAN_STRAGGLER = 1u << 14, /* Cochran at 5 % */
 	AL_FLAG_COCHRAN_OUTLIER = 1u << 15,   /* Cochran at 1 % */
 	AL_FLAG_EXCLUDED = 1u << 16,    /* a Grubbs outlier left out of the mean */
-	AL_FLAG_NO_TITRANT_U = 1u << 17 /* u without the titrant's uncertainty */
+	AL_FLAG_NO_TITRANT_U = 1u << 17, /* u without the titrant's uncertainty */
+	AL_FLAG_BRIX_LOW = 1u << 18,     /* Brix below brix_min */
+	AL_FLAG_BRIX_HIGH = 1u << 19,    /* Brix above brix_max */
+	AL_FLAG_RATIO_LOW = 1u << 20,    /* Brix/acid ratio below ratio_min */
+	AL_FLAG_RATIO_HIGH = 1u << 21,   /* Brix/acid ratio above ratio_max */
+	AL_FLAG_WATER_LOW = 1u << 22,    /* water below water_min */
+	AL_FLAG_WATER_HIGH = 1u << 23,   /* water above water_max */
+	AL_FLAG_NO_BRIX = 1u << 24,      /* Brix or water limits, no values */
+	AL_FLAG_DENSITY_BRIX = 1u << 25, /* density from Brix (NBS sucrose) */
+	AL_FLAG_BRIX_UNCORRECTED = 1u << 26 /* acid correction not applicable */
 };
 
 /* Plausibility limits: beyond them a value is possible but unusual, and
@@ -153,6 +164,12 @@ typedef struct al_group_result {
 	size_t n_budget;
 	int has_excluded;
 	size_t excluded_index;
+	int has_brix, has_brix_corrected, has_ratio, has_water;
+	double brix;           /* mean refractometric Brix */
+	double brix_corrected; /* + Kimball's citric acid correction */
+	double ratio;          /* Brix (corrected when it can be) / TA % w/w */
+	double water_pct;      /* mean water, % w/w */
+	int anhydrous;         /* the result is on the anhydrous basis */
 } al_group_result;
 
 /* Cochran's test over the results of one product with the same n. */

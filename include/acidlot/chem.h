@@ -47,6 +47,16 @@ typedef struct al_acid {
 	char *source;
 } al_acid;
 
+/* A base for neutralising (base demand of a lot). */
+typedef struct al_base {
+	char *name;
+	char *aliases;
+	char *formula;
+	double molar_mass;  /* g/mol from the formula */
+	int equivalents;    /* H+ taken per formula unit */
+	char *source;
+} al_base;
+
 /* The reference tables built into the binary: atomic weights and acids.
  * Opaque; made by al_catalogue_new, released by al_catalogue_free. */
 typedef struct al_catalogue al_catalogue;
@@ -66,6 +76,11 @@ const al_element *al_catalogue_element(const al_catalogue *cat,
 				       const char *symbol);
 size_t al_catalogue_standard_count(const al_catalogue *cat);
 const al_standard *al_catalogue_standard(const al_catalogue *cat, size_t i);
+/* A base (NaOH, KOH, Na2CO3, Ca(OH)2) by name or alias; NULL if none. */
+const al_base *al_catalogue_find_base(const al_catalogue *cat,
+				      const char *name);
+size_t al_catalogue_base_count(const al_catalogue *cat);
+const al_base *al_catalogue_base(const al_catalogue *cat, size_t i);
 /* A primary standard by name or alias (matched like acids); NULL if none. */
 const al_standard *al_catalogue_find_standard(const al_catalogue *cat,
 					      const char *name);

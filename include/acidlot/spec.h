@@ -24,6 +24,14 @@ typedef struct al_spec {
 	int has_sr;
 	double sr;           /* repeatability standard deviation, in unit
 				(from sr, or r / 2.8 as ISO 5725-6 defines r) */
+	/* juice and food-acid limits: Brix (acid-corrected where it can be),
+	 * Brix/acid ratio, water % w/w; has_ flags as for min/max */
+	int has_brix_min, has_brix_max, has_ratio_min, has_ratio_max;
+	double brix_min, brix_max, ratio_min, ratio_max;
+	int has_water_min, has_water_max;
+	double water_min, water_max;
+	int has_basis;
+	int anhydrous;       /* results on the anhydrous basis */
 	unsigned long line;  /* where it stands in its file */
 } al_spec;
 

@@ -59,6 +59,9 @@ usage(FILE *out)
 	      "      --balance-linearity-g X  balance linearity, +/- g (default\n"
 	      "                          0.00015)\n"
 	      "      --k K               coverage factor (default 2)\n"
+	      "      --basis B           as-is (default) or anhydrous (needs\n"
+	      "                          water_pct) when the specification names\n"
+	      "                          no basis\n"
 	      "\n"
 	      "Reading:\n"
 	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
@@ -118,7 +121,8 @@ enum {
 	OPT_ENDPOINT, OPT_DECIMALS, OPT_REJECTS, OPT_DELIMITER,
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
-	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K
+	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
+	OPT_BASIS
 };
 
 static const struct option options[] = {
@@ -150,6 +154,7 @@ static const struct option options[] = {
 	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
 	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
 	{"k", required_argument, NULL, OPT_K},
+	{"basis", required_argument, NULL, OPT_BASIS},
 	{"help", no_argument, NULL, 'h'},
 	{NULL, 0, NULL, 0},
 };
@@ -159,7 +164,7 @@ static const char *const column_names[] = {
 	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph",	 "titrant_lot", "date"};
+	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct"};
 
 #define MAX_COLUMN_OPTS 32
 
@@ -366,6 +371,17 @@ parse_args(int argc, char **argv, struct args *a)
 			break;
 		case OPT_EXCLUDE:
 			a->aopt.qc.exclude_outliers = 1;
+			break;
+		case OPT_BASIS:
+			if (strcmp(optarg, "anhydrous") == 0)
+				a->aopt.anhydrous = 1;
+			else if (strcmp(optarg, "as-is") == 0)
+				a->aopt.anhydrous = 0;
+			else
+				return cli_usage_error("assay",
+						       "--basis takes as-is or "
+						       "anhydrous"),
+				       -1;
 			break;
 		case OPT_BUDGET:
 			a->budget = optarg;

@@ -22,6 +22,8 @@ usage(FILE *out)
 	      "      --to-unit UNIT     unit to write (default UNIT)\n"
 	      "      --density-g-ml D   sample density, to go between a per-mass\n"
 	      "                         and a per-volume unit\n"
+	      "      --brix B           or the density of a sucrose solution of\n"
+	      "                         B Brix (NBS table, 0-40 Brix)\n"
 	      "      --decimals N       fixed decimals (default 10 significant\n"
 	      "                         digits)\n"
 	      "  -h, --help             this help\n"
@@ -29,7 +31,8 @@ usage(FILE *out)
 	      out);
 }
 
-enum { OPT_ACID = 256, OPT_TO_ACID, OPT_TO_UNIT, OPT_DENSITY, OPT_DECIMALS };
+enum { OPT_ACID = 256, OPT_TO_ACID, OPT_TO_UNIT, OPT_DENSITY, OPT_DECIMALS,
+       OPT_BRIX };
 
 static const al_acid *
 acid_arg(const al_catalogue *cat, const char *option, const char *name)
@@ -52,6 +55,7 @@ cmd_convert(int argc, char **argv)
 		{"to-unit", required_argument, NULL, OPT_TO_UNIT},
 		{"density-g-ml", required_argument, NULL, OPT_DENSITY},
 		{"decimals", required_argument, NULL, OPT_DECIMALS},
+		{"brix", required_argument, NULL, OPT_BRIX},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
@@ -85,6 +89,18 @@ cmd_convert(int argc, char **argv)
 						       "--density-g-ml must be "
 						       "above 0");
 			break;
+		case OPT_BRIX: {
+			double brix;
+
+			if (cli_number("convert", "--brix", optarg, &brix))
+				return EXIT_TROUBLE;
+			/* the density of a sucrose solution of that Brix (NBS) */
+			if (al_density_from_brix(brix, &density) != AL_OK)
+				return cli_usage_error("convert",
+						       "--brix: a density from Brix "
+						       "needs 0 to 40 Brix");
+			break;
+		}
 		case OPT_DECIMALS:
 			if (cli_number("convert", "--decimals", optarg, &dec))
 				return EXIT_TROUBLE;
@@ -151,7 +167,7 @@ cmd_convert(int argc, char **argv)
 			    &out) != AL_OK) {
 		cli_usage_error("convert",
 				"%s is per %s and %s per %s: give the sample's "
-				"--density-g-ml",
+				"--density-g-ml or --brix",
 				al_unit_name(unit),
 				al_unit_basis(unit) == AL_BASIS_MASS ? "mass"
 								     : "volume",

@@ -26,6 +26,8 @@ usage(FILE *out)
 	      "                  titrant register\n"
 	      "  verify RECORD.json   check that a run's inputs and outputs are\n"
 	      "                  unchanged\n"
+	      "  recovery        acid present in a batch, percent recovery of a\n"
+	      "                  process step, base needed to neutralise it\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -90,5 +92,7 @@ dispatch(int argc, char **argv)
 		return cmd_standardize(argc - 1, argv + 1);
 	if (strcmp(cmd, "verify") == 0)
 		return cmd_verify(argc - 1, argv + 1);
+	if (strcmp(cmd, "recovery") == 0)
+		return cmd_recovery(argc - 1, argv + 1);
 	return cli_usage_error(NULL, "unknown command '%s'", cmd);
 }

@@ -1,0 +1,208 @@
+/* acidlot command line: the recovery command (process recovery and base
+ * demand of a lot).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#include <getopt.h>
+#include <string.h>
+
+#include "cli.h"
+
+static void
+usage(FILE *out)
+{
+	fputs("Usage: " PROG " recovery --ta V --unit UNIT --acid NAME\n"
+	      "           (--start-kg M | --start-l V [--density-g-ml D | --brix B])\n"
+	      "           [--recovered-kg R --assay PCT] [--base NAME]\n"
+	      "The acid in a starting material from its titratable acidity and\n"
+	      "its mass or volume; with --recovered-kg and --assay, the percent\n"
+	      "recovery of a process step (recovered acid / acid present x 100);\n"
+	      "with --base, the mass of that base that brings the material to\n"
+	      "the endpoint (NaOH, KOH, Na2CO3, Ca(OH)2).\n"
+	      "\n"
+	      "      --ta V             titratable acidity of the starting material\n"
+	      "      --unit UNIT        its unit (g/100g g/kg g/100mL g/L meq/100g\n"
+	      "                         meq/L)\n"
+	      "      --acid NAME        the acid it is expressed as\n"
+	      "      --start-kg M       mass of starting material, kg\n"
+	      "      --start-l V        or its volume, L\n"
+	      "      --density-g-ml D   its density, to go between mass and volume\n"
+	      "      --brix B           or the density of a sucrose solution of B\n"
+	      "                         Brix (NBS, 0-40 Brix)\n"
+	      "      --recovered-kg R   mass of product recovered, kg\n"
+	      "      --assay PCT        its assay, % of the acid (w/w)\n"
+	      "      --base NAME        a base to neutralise with\n"
+	      "  -h, --help             this help\n",
+	      out);
+}
+
+enum {
+	OPT_TA = 256, OPT_UNIT, OPT_ACID, OPT_START_KG, OPT_START_L,
+	OPT_DENSITY, OPT_BRIX, OPT_RECOVERED, OPT_ASSAY, OPT_BASE
+};
+
+int
+cmd_recovery(int argc, char **argv)
+{
+	static const struct option options[] = {
+		{"ta", required_argument, NULL, OPT_TA},
+		{"unit", required_argument, NULL, OPT_UNIT},
+		{"acid", required_argument, NULL, OPT_ACID},
+		{"start-kg", required_argument, NULL, OPT_START_KG},
+		{"start-l", required_argument, NULL, OPT_START_L},
+		{"density-g-ml", required_argument, NULL, OPT_DENSITY},
+		{"brix", required_argument, NULL, OPT_BRIX},
+		{"recovered-kg", required_argument, NULL, OPT_RECOVERED},
+		{"assay", required_argument, NULL, OPT_ASSAY},
+		{"base", required_argument, NULL, OPT_BASE},
+		{"help", no_argument, NULL, 'h'},
+		{NULL, 0, NULL, 0},
+	};
+	double ta = -1, start = -1, density = 0, recovered = -1, assay = -1, v;
+	const char *unit_name = NULL, *acid_name = NULL, *base_name = NULL;
+	const char *optname;
+	int c, by_volume = 0, rc = EXIT_TROUBLE;
+	al_unit unit;
+	al_catalogue *cat = NULL;
+	const al_acid *acid;
+	const al_base *base = NULL;
+	double meq_per, meq_total, acid_kg, per_unit_amount;
+
+	optind = 1;
+	opterr = 0;
+	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
+		if (c == 'h') {
+			usage(stdout);
+			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+		}
+		if (c == ':' || c == '?')
+			return cli_usage_error("recovery", "%s '%s'",
+					       c == ':' ? "option needs a value"
+							: "unknown option",
+					       argv[optind - 1]);
+		if (c == OPT_UNIT) {
+			unit_name = optarg;
+			continue;
+		}
+		if (c == OPT_ACID) {
+			acid_name = optarg;
+			continue;
+		}
+		if (c == OPT_BASE) {
+			base_name = optarg;
+			continue;
+		}
+		optname = argv[optind - 1];
+		if (cli_number("recovery", optname, optarg, &v))
+			return EXIT_TROUBLE;
+		if (!(v > 0) && !(c == OPT_BRIX && v == 0))
+			return cli_usage_error("recovery", "%s must be above 0",
+					       optname);
+		switch (c) {
+		case OPT_TA:
+			ta = v;
+			break;
+		case OPT_START_KG:
+			start = v;
+			by_volume = 0;
+			break;
+		case OPT_START_L:
+			start = v;
+			by_volume = 1;
+			break;
+		case OPT_DENSITY:
+			density = v;
+			break;
+		case OPT_BRIX:
+			if (al_density_from_brix(v, &density) != AL_OK)
+				return cli_usage_error("recovery",
+						       "--brix: a density from Brix "
+						       "needs 0 to 40 Brix");
+			break;
+		case OPT_RECOVERED:
+			recovered = v;
+			break;
+		case OPT_ASSAY:
+			if (v > 110)
+				return cli_usage_error("recovery",
+						       "--assay is a percentage");
+			assay = v;
+			break;
+		}
+	}
+	if (optind < argc)
+		return cli_usage_error("recovery", "unexpected argument '%s'",
+				       argv[optind]);
+	if (ta < 0 || unit_name == NULL || acid_name == NULL || start < 0)
+		return cli_usage_error("recovery",
+				       "give --ta, --unit, --acid and --start-kg "
+				       "or --start-l");
+	if ((recovered < 0) != (assay < 0))
+		return cli_usage_error("recovery",
+				       "--recovered-kg and --assay go together");
+	if (recovered < 0 && base_name == NULL)
+		return cli_usage_error("recovery",
+				       "say what to compute: --recovered-kg with "
+				       "--assay, or --base");
+	if (al_unit_parse(unit_name, &unit) != AL_OK)
+		return cli_usage_error("recovery", "unknown unit '%s' (use %s)",
+				       unit_name, al_unit_list());
+	cat = cli_catalogue();
+	if (cat == NULL)
+		return EXIT_TROUBLE;
+	acid = al_catalogue_find(cat, acid_name);
+	if (acid == NULL) {
+		cli_usage_error("recovery", "unknown acid '%s'", acid_name);
+		cli_list_acids(cat);
+		goto out;
+	}
+	if (base_name && (base = al_catalogue_find_base(cat, base_name)) == NULL) {
+		cli_usage_error("recovery",
+				"unknown base '%s' (NaOH, KOH, Na2CO3, Ca(OH)2)",
+				base_name);
+		goto out;
+	}
+	/* meq per g or per mL of material, then over the whole of it */
+	meq_per = ta / al_unit_per(unit);
+	if (!al_unit_is_meq(unit))
+		meq_per /= acid->g_per_meq;
+	per_unit_amount = start * 1000; /* kg to g, or L to mL */
+	if ((al_unit_basis(unit) == AL_BASIS_VOLUME) != by_volume) {
+		if (!(density > 0)) {
+			cli_usage_error("recovery",
+					"%s is per %s but the material is given "
+					"by %s: add --density-g-ml or --brix",
+					al_unit_name(unit),
+					al_unit_basis(unit) == AL_BASIS_MASS ? "mass"
+									     : "volume",
+					by_volume ? "volume" : "mass");
+			goto out;
+		}
+		/* per g x g/mL = per mL; per mL / (g/mL) = per g */
+		meq_per = by_volume ? meq_per * density : meq_per / density;
+	}
+	meq_total = meq_per * per_unit_amount;
+	acid_kg = meq_total * acid->g_per_meq / 1000;
+	printf("acid present: %.6g kg as %s (%.6g mol H+ titratable)\n", acid_kg,
+	       acid->name, meq_total / 1000);
+	if (recovered >= 0) {
+		double got = recovered * assay / 100;
+
+		printf("acid recovered: %.6g kg (%.6g kg at %.6g %%)\n", got,
+		       recovered, assay);
+		printf("recovery: %.4g %%\n", 100 * got / acid_kg);
+	}
+	if (base) {
+		double mol_base = meq_total / 1000 / base->equivalents;
+
+		printf("base demand: %.6g kg %s (%.6g mol H+ / %d H+ per %s = "
+		       "%.6g mol x %.3f g/mol)\n",
+		       mol_base * base->molar_mass / 1000, base->name,
+		       meq_total / 1000, base->equivalents, base->formula,
+		       mol_base, base->molar_mass);
+	}
+	rc = fflush(stdout) == 0 && !ferror(stdout) ? 0 : EXIT_TROUBLE;
+	if (rc)
+		cli_error("write error on standard output");
+out:
+	al_catalogue_free(cat);
+	return rc;
+}
