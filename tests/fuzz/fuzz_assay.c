@@ -21,6 +21,11 @@ static const char spec_text[] =
 	"LEM,citric,g/100g,4.5,6.5,1.0,2\n"
 	"APJ,malic,g/L,3,7,1.5,2\n"
 	"GRM,tartaric,meq/L,60,120,,1\n";
+static const char spec_more[] =
+	"product,acid,unit,min,max,min_n,sr,brix_min,ratio_min,water_max,basis\n"
+	"OJ,citric,g/100g,0.7,1.1,2,0.01,10,12,,\n"
+	"CIT,citric,g/100g,99.5,100.5,1,,,,0.5,anhydrous\n";
+static al_spec_table *specs2;
 
 static al_status
 reject(void *ud, const char *file, unsigned long line, const char *reason,
@@ -64,14 +69,22 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		specs = al_spec_table_read(cat, NULL, f, "spec", &st, &d);
 		fclose(f);
 		al_diags_clear(&d);
-		if (cat == NULL || specs == NULL)
+		f = fmemopen((void *)spec_more, sizeof spec_more - 1, "r");
+		specs2 = al_spec_table_read(cat, NULL, f, "spec2", &st, &d);
+		fclose(f);
+		al_diags_clear(&d);
+		if (cat == NULL || specs == NULL || specs2 == NULL)
 			__builtin_trap();
 	}
 	if (size < 1)
 		return 0;
 	memset(&opt, 0, sizeof opt);
 	opt.catalogue = cat;
-	opt.specs = specs;
+	opt.specs = (data[0] & 64) ? specs2 : specs;
+	opt.qc.decision = (data[0] & 128) ? AL_DECISION_GUARDED : AL_DECISION_SIMPLE;
+	opt.qc.exclude_outliers = (data[0] >> 1) & 1;
+	opt.qc.has_titrant_u = 1;
+	opt.qc.titrant_u = 0.0001;
 	opt.csv.delimiter = delims[data[0] & 3];
 	if (data[0] & 4) {
 		opt.on_reject = reject;
@@ -102,6 +115,7 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 			memset(&ropt, 0, sizeof ropt);
 			ropt.decimals = -1;
 			al_report_write(out, run, &ropt);
+			al_budget_write(out, run, &ropt);
 			fclose(out);
 		}
 		free(buf);
