@@ -62,6 +62,11 @@ scenario rejects assay "$messy" --rejects rej.csv -o out.csv --delimiter auto \
 rm -f "$work/../keep-$$.csv"
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
+scenario recovery recovery --ta 4.8 --unit g/100g --acid citric --start-kg 1000 \
+	--recovered-kg 44.5 --assay 99.8 --base NaOH
+scenario guarded assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
+	--titrants "$reg" --decision guarded --exclude-outliers --budget b.csv \
+	-o out.csv
 if [ $fails -ne 0 ]; then
 	echo "$fails failures"
 	exit 1
