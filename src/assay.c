@@ -345,6 +345,22 @@ check_header(al_assay *run, const al_csv_row *row)
 
 	run->header_done = 1;
 	run->header_fields = row->nfields;
+	if (row->nfields == 1 && run->opt.csv.delimiter != AL_CSV_AUTO &&
+	    (memchr(row->fields[0], ';', row->lens[0]) ||
+	     memchr(row->fields[0], '\t', row->lens[0]))) {
+		int semi = memchr(row->fields[0], ';', row->lens[0]) != NULL;
+
+		/* the one message that helps: column errors would only
+		 * repeat the whole line */
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+			 "the header is one field holding %s: the file is "
+			 "delimited by %s; try --delimiter %s (or --delimiter "
+			 "auto)",
+			 semi ? "';'" : "tabs", semi ? "';'" : "tabs",
+			 semi ? "';'" : "tab");
+		run->header_ok = 0;
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
+	}
 	{
 		size_t need = 0, pos = 0;
 
@@ -392,17 +408,6 @@ check_header(al_assay *run, const al_csv_row *row)
 				 "%s)",
 				 cols[k], have);
 		ok = 0;
-	}
-	if (row->nfields == 1 && run->opt.csv.delimiter != AL_CSV_AUTO &&
-	    (memchr(row->fields[0], ';', row->lens[0]) ||
-	     memchr(row->fields[0], '\t', row->lens[0]))) {
-		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
-			 "the header is one field holding '%s': is the file "
-			 "delimited by '%s'? try --delimiter %s",
-			 memchr(row->fields[0], ';', row->lens[0]) ? ";" : "tab",
-			 memchr(row->fields[0], ';', row->lens[0]) ? ";" : "tab",
-			 memchr(row->fields[0], ';', row->lens[0]) ? "';'"
-								   : "tab");
 	}
 	if (run->col[C_MASS] < 0 && run->col[C_VOLUME] < 0) {
 		const char *near = al_header_closest(row, "mass_g");
@@ -1089,8 +1094,15 @@ on_csv_row(void *ud, const al_csv_row *row)
 {
 	al_assay *run = ud;
 
-	if (!run->header_done)
-		return check_header(run, row) == AL_ENOMEM ? AL_ENOMEM : AL_OK;
+	if (!run->header_done) {
+		al_status st = check_header(run, row);
+
+		/* a file whose header cannot be read is not read further:
+		 * its rows would only add noise to the real problem */
+		if (st == AL_ENOMEM)
+			return st;
+		return run->header_ok ? AL_OK : AL_EINPUT;
+	}
 	if (!run->header_ok)
 		return AL_OK;
 	return data_row(run, row);

@@ -58,12 +58,11 @@ spec_row(void *ud, const al_csv_row *row)
 		if (al_header_map(row, spec_cols, C_COUNT, NULL, 0, r->col, r->file,
 				  r->diags) != AL_OK)
 			r->bad = 1;
-		if (r->point == ',' && row->delimiter == ',') {
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     NULL, "the file is delimited by ',', which "
-					   "cannot go with --decimal-comma");
-			r->bad = 1;
-		}
+		/* the specification's delimiter is told from its header: a
+		 * comma-delimited one has '.' decimals, whatever the
+		 * titration files use */
+		if (row->delimiter == ',')
+			r->point = '.';
 		if (r->col[C_PRODUCT] < 0) {
 			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 				     NULL, "missing required column 'product'");

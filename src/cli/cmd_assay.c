@@ -572,13 +572,19 @@ load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
 {
 	al_status st;
 	al_spec_table *specs;
+	al_csv_options csv;
 	FILE *in = fopen(a->spec, "rb");
 
 	if (in == NULL) {
 		cli_error("%s: %s", a->spec, cli_reason(AL_OK));
 		return NULL;
 	}
-	specs = al_spec_table_read(cat, &a->aopt.csv, in, a->spec, &st, d);
+	/* the specification is a file of our own: its delimiter is told
+	 * from its header, whatever --delimiter says for the titrations */
+	csv = a->aopt.csv;
+	csv.delimiter = AL_CSV_AUTO;
+	csv.recover = 0;
+	specs = al_spec_table_read(cat, &csv, in, a->spec, &st, d);
 	fclose(in);
 	cli_print_diags(d);
 	if (specs == NULL) {
