@@ -22,10 +22,10 @@
 void
 al_std_params_default(al_std_params *p)
 {
-	/* QUAM A2 (seen in its table and text): balance linearity
-	 * +/-0.15 mg; 2.1e-4 /K volume expansion of water. Burette
-	 * tolerance +/-0.03 mL and +/-3 K: QUAM A2's figures for its piston
-	 * burette and lab (from memory); set your own. */
+	/* QUAM 2012 A2 (seen through its published re-computation):
+	 * balance linearity +/-0.15 mg, burette +/-0.03 mL triangular,
+	 * 2.1e-4 /K volume expansion of water. The +/-3 K lab temperature
+	 * range is common practice (QUAM A3 uses +/-4 K); set your own. */
 	p->balance_linearity_g = 0.00015;
 	p->burette_tol_ml = 0.03;
 	p->temp_range_c = 3;
