@@ -7,17 +7,19 @@
 #   make valgrind   every test under valgrind (memcheck)
 #   make regen      rewrite the CLI cases' expected output (review the diff)
 #   make fuzz       every libFuzzer target for FUZZ_SECONDS (default 60) each
+#   make bench      timing against the libcsv floor and GNU datamash
 
 BUILD      ?= build
 ASAN_BUILD ?= build-asan
 FUZZ_BUILD ?= build-fuzz
 FUZZ_SECONDS ?= 60
+BENCH_ROWS ?= 100000 1000000 10000000
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
                   libjansson-dev nettle-dev
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
-.PHONY: all deps build demo check test asan valgrind regen fuzz clean
+.PHONY: all deps build demo check test asan valgrind regen fuzz bench clean
 
 all: build
 
@@ -86,6 +88,12 @@ fuzz: deps
 	CC=clang cmake -S . -B $(FUZZ_BUILD) -DACIDLOT_FUZZ=ON >/dev/null
 	cmake --build $(FUZZ_BUILD) -j$(JOBS)
 	sh tests/fuzz/run.sh $(FUZZ_BUILD) $(FUZZ_SECONDS)
+
+bench: build
+	@for p in datamash time; do \
+	  dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' \
+	    || { $(SUDO) apt-get update -qq; $(SUDO) apt-get install -y -qq $$p; }; done
+	sh bench/run.sh $(BUILD) $(BENCH_ROWS)
 
 clean:
 	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)

@@ -6,6 +6,7 @@
 #include <gsl/gsl_sort.h>
 #include <gsl/gsl_statistics_double.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
@@ -292,12 +293,30 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	other_limits(r);
 }
 
+/* Sorting results by product, then n, groups each product's results
+ * of the same n together: O(N log N) for any number of results. */
+static const al_group_result *sort_base;
+
+static int
+by_product_n(const void *a, const void *b)
+{
+	const al_group_result *x = &sort_base[*(const size_t *)a];
+	const al_group_result *y = &sort_base[*(const size_t *)b];
+	int c = strcmp(x->product, y->product);
+
+	if (c != 0)
+		return c;
+	if (x->stats.n != y->stats.n)
+		return x->stats.n < y->stats.n ? -1 : 1;
+	return *(const size_t *)a < *(const size_t *)b ? -1 : 1;
+}
+
 al_cochran *
 al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
 		int *oom)
 {
 	al_cochran *out = NULL;
-	size_t n_found = 0;
+	size_t n_found = 0, m = 0;
 	double *var = NULL;
 	size_t *idx = NULL;
 
@@ -309,58 +328,58 @@ al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
 	idx = al_malloc(count * sizeof *idx);
 	if (var == NULL || idx == NULL)
 		goto nomem;
-	for (size_t i = 0; i < count; i++) {
-		const char *product = results[i].product;
-		size_t best_n = 0, best_count = 0, l = 0, at;
-		int seen = 0;
+	for (size_t i = 0; i < count; i++)
+		if (results[i].stats.has_sd)
+			idx[m++] = i;
+	sort_base = results;
+	qsort(idx, m, sizeof *idx, by_product_n);
+	for (size_t start = 0; start < m;) {
+		const char *product = results[idx[start]].product;
+		size_t end = start, best_from = start, best_len = 0, at;
 		al_cochran *grown;
 		double c;
 
-		for (size_t j = 0; j < i && !seen; j++)
-			seen = strcmp(results[j].product, product) == 0;
-		if (seen)
-			continue;
-		/* the modal n of this product's results with a variance */
-		for (size_t j = i; j < count; j++) {
-			size_t nj = results[j].stats.n, same = 0;
+		while (end < m && strcmp(results[idx[end]].product, product) == 0)
+			end++;
+		/* the modal n (the larger on a tie): runs of equal n */
+		for (size_t a = start; a < end;) {
+			size_t b = a;
 
-			if (strcmp(results[j].product, product) != 0 ||
-			    !results[j].stats.has_sd)
-				continue;
-			for (size_t k = i; k < count; k++)
-				same += strcmp(results[k].product, product) == 0 &&
-					results[k].stats.n == nj;
-			if (same > best_count ||
-			    (same == best_count && nj > best_n)) {
-				best_count = same;
-				best_n = nj;
+			while (b < end &&
+			       results[idx[b]].stats.n == results[idx[a]].stats.n)
+				b++;
+			if (b - a >= best_len) {
+				best_len = b - a;
+				best_from = a;
 			}
+			a = b;
 		}
-		if (best_count < 2)
+		start = end;
+		if (best_len < 2)
 			continue;
-		for (size_t j = i; j < count; j++)
-			if (strcmp(results[j].product, product) == 0 &&
-			    results[j].stats.n == best_n &&
-			    results[j].stats.has_sd) {
-				var[l] = results[j].stats.sd * results[j].stats.sd;
-				idx[l++] = j;
-			}
-		c = al_cochran_c(var, l, &at);
+		for (size_t k = 0; k < best_len; k++) {
+			const al_summary *st = &results[idx[best_from + k]].stats;
+
+			var[k] = st->sd * st->sd;
+		}
+		c = al_cochran_c(var, best_len, &at);
 		grown = al_realloc(out, (n_found + 1) * sizeof *grown);
 		if (grown == NULL)
 			goto nomem;
 		out = grown;
 		out[n_found].product = product;
-		out[n_found].l = l;
-		out[n_found].n = best_n;
+		out[n_found].l = best_len;
+		out[n_found].n = results[idx[best_from]].stats.n;
 		out[n_found].c = c;
-		out[n_found].crit5 = al_cochran_critical(l, best_n, 0.05);
-		out[n_found].crit1 = al_cochran_critical(l, best_n, 0.01);
-		out[n_found].result = idx[at];
+		out[n_found].crit5 = al_cochran_critical(best_len, out[n_found].n,
+							 0.05);
+		out[n_found].crit1 = al_cochran_critical(best_len, out[n_found].n,
+							 0.01);
+		out[n_found].result = idx[best_from + at];
 		if (c > out[n_found].crit1)
-			results[idx[at]].flags |= AL_FLAG_COCHRAN_OUTLIER;
+			results[out[n_found].result].flags |= AL_FLAG_COCHRAN_OUTLIER;
 		else if (c > out[n_found].crit5)
-			results[idx[at]].flags |= AL_FLAG_COCHRAN_STRAGGLER;
+			results[out[n_found].result].flags |= AL_FLAG_COCHRAN_STRAGGLER;
 		n_found++;
 	}
 	al_free(var);

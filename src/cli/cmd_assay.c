@@ -486,7 +486,7 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 
 		fprintf(stderr,
 			PROG ": Cochran %s: C = %.4f over %zu results of n = %zu "
-			     "(critical %.3f at 5 %%, %.3f at 1 %%)%s%s/%s\n",
+			     "(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s\n",
 			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
 			t->c > t->crit1	  ? ": variance outlier "
 			: t->c > t->crit5 ? ": variance straggler "
@@ -713,6 +713,8 @@ load_titrants(const char *path)
 /* Adds to the record what a reviewer needs to re-derive each result:
  * acids, specifications and titrant lots used, the decision rule,
  * counts, and each result with its report_id. */
+#define RECORD_RESULTS_MAX 10000
+
 static int
 fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	    int exclude)
@@ -727,14 +729,18 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	for (size_t i = 0; !bad && i < n; i++) {
 		const al_group_result *r = al_assay_result(run, i);
 		char id[64], flags[512];
-		int seen_acid = 0, seen_spec = 0;
+		int seen_acid = 0, seen_spec = r->spec == NULL;
 
-		for (size_t j = 0; j < i; j++) {
-			const al_group_result *q = al_assay_result(run, j);
-
-			seen_acid |= q->acid == r->acid;
-			seen_spec |= r->spec == NULL || q->spec == r->spec;
-		}
+		/* the acids and specifications already listed: few, whatever
+		 * the number of results */
+		for (size_t j = 0; j < json_array_size(acids) && !seen_acid; j++)
+			seen_acid = strcmp(json_string_value(json_object_get(
+						   json_array_get(acids, j), "name")),
+					   r->acid->name) == 0;
+		for (size_t j = 0; j < json_array_size(specs) && !seen_spec; j++)
+			seen_spec = strcmp(json_string_value(json_object_get(
+						   json_array_get(specs, j), "product")),
+					   r->spec->product) == 0;
 		if (!seen_acid)
 			bad |= json_array_append_new(
 				acids,
@@ -768,6 +774,10 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 					  "min_n", (json_int_t)sp->min_n, "line",
 					  (json_int_t)sp->line));
 		}
+		/* each result in the record for a lab-sized run; past that the
+		 * report itself, hashed in outputs, carries them */
+		if (i >= RECORD_RESULTS_MAX)
+			continue;
 		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
@@ -834,6 +844,12 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	bad |= json_object_set_new(rec->root, "specifications", specs) != 0;
 	bad |= json_object_set_new(rec->root, "titrant_lots", lots) != 0;
 	bad |= json_object_set_new(rec->root, "results", results) != 0;
+	if (n > RECORD_RESULTS_MAX)
+		bad |= json_object_set_new(
+			       rec->root, "results_note",
+			       json_sprintf("the first %d of %zu results; the "
+					    "report lists all (see outputs)",
+					    RECORD_RESULTS_MAX, n)) != 0;
 	{
 		json_t *cochran = json_array();
 
