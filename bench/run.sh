@@ -25,7 +25,7 @@ measure() {
 	: >"$work/times"
 	i=0
 	while [ $i -lt "$runs" ]; do
-		/usr/bin/time -f "%e %M" -o "$work/one" "$@" >/dev/null 2>&1
+		/usr/bin/time -q -f "%e %M" -o "$work/one" "$@" >/dev/null 2>&1
 		cat "$work/one" >>"$work/times"
 		i=$((i + 1))
 	done
@@ -58,8 +58,10 @@ for rows in "$@"; do
 		awk -v r="$rows" -v t="$t" -v s="$s" -v kb="$kb" -v mb="$mb" \
 		    -v fl="$floor_s" -v dm="$dm_s" 'BEGIN {
 			if (s <= 0) s = 0.005
-			printf "%-10d %-9s %9.3f %12.0f %8.1f %9.1f %9.2f %10s\n",
-			       r, t, s, r / s, mb / s, kb / 1024, s / (fl > 0 ? fl : 0.005),
-			       dm > 0 ? sprintf("%.2f", s / dm) : "-" }'
+			if (fl <= 0) fl = 0.005
+			xd = "-"
+			if (dm > 0) xd = sprintf("%.2f", s / dm)
+			printf("%-10d %-9s %9.3f %12.0f %8.1f %9.1f %9.2f %10s\n",
+			       r, t, s, r / s, mb / s, kb / 1024, s / fl, xd) }'
 	done
 done
