@@ -130,6 +130,30 @@ bad_record(struct reader *r, unsigned long line, const char *msg)
 		snprintf(r->record_error, sizeof r->record_error, "%s", msg);
 }
 
+static int
+grow_fields(struct reader *r, size_t n)
+{
+	size_t *off, *lens;
+	const char **ptrs;
+
+	if (n <= r->fields_cap)
+		return 1;
+	off = al_realloc(r->offsets, n * sizeof *off);
+	if (off == NULL)
+		return 0;
+	r->offsets = off;
+	lens = al_realloc(r->lens, n * sizeof *lens);
+	if (lens == NULL)
+		return 0;
+	r->lens = lens;
+	ptrs = al_realloc(r->ptrs, n * sizeof *ptrs);
+	if (ptrs == NULL)
+		return 0;
+	r->ptrs = ptrs;
+	r->fields_cap = n;
+	return 1;
+}
+
 static void
 on_field(void *data, size_t len, void *ud)
 {
@@ -159,30 +183,10 @@ on_field(void *data, size_t len, void *ud)
 		bad_record(r, r->cur_line, msg);
 		return;
 	}
-	if (r->nfields == r->fields_cap) {
-		size_t n = r->fields_cap ? 2 * r->fields_cap : 32;
-		size_t *off = al_realloc(r->offsets, n * sizeof *off);
-		size_t *lens;
-		const char **ptrs;
-
-		if (off == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return;
-		}
-		r->offsets = off;
-		lens = al_realloc(r->lens, n * sizeof *lens);
-		if (lens == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return;
-		}
-		r->lens = lens;
-		ptrs = al_realloc(r->ptrs, n * sizeof *ptrs);
-		if (ptrs == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return;
-		}
-		r->ptrs = ptrs;
-		r->fields_cap = n;
+	if (r->nfields == r->fields_cap &&
+	    !grow_fields(r, r->fields_cap ? 2 * r->fields_cap : 32)) {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return;
 	}
 	if (r->buf_len + len + 1 > r->buf_cap) {
 		size_t n = r->buf_cap ? r->buf_cap : 1024;
@@ -404,8 +408,97 @@ restart(struct reader *r, struct csv_parser *p, const char *msg,
 		fail(r, AL_ENOMEM, 0, NULL);
 }
 
+/* The fast path for the common record: one whole line, at a record
+ * boundary, with no quote and no NUL, shorter than the field cap (so no
+ * field can pass it) and not blank. libcsv (strict, our blank function)
+ * gives such a line's fields as the pieces between delimiters with
+ * blanks (space and tab, unless the delimiter) trimmed from both ends;
+ * so does this, without the per-byte callbacks. Returns 0 when the line
+ * must go through libcsv. The test suite checks that both paths give
+ * the same records (tests/unit/test_csv.c). */
+static int
+fast_record(struct reader *r, const char *line, size_t len, char term)
+{
+	const char d = r->delimiter;
+	size_t nf = 1, k = 0, start = 0;
+	int content = 0;
+	al_csv_row row;
+	al_status st;
+	char *b;
+
+	if (r->opt->no_fast_path || len == 0 || len >= r->max_field ||
+	    len > AL_CSV_MAX_RECORD)
+		return 0;
+	for (size_t i = 0; i < len; i++) {
+		char c = line[i];
+
+		if (c == '"' || c == '\0')
+			return 0;
+		if (c == d)
+			nf++;
+		else if (c != ' ' && c != '\t')
+			content = 1;
+	}
+	if (!content || nf > AL_CSV_MAX_FIELDS)
+		return 0;
+	if (!grow_fields(r, nf)) {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return 1;
+	}
+	if (len + 1 > r->buf_cap) {
+		size_t n = r->buf_cap ? r->buf_cap : 1024;
+		char *grown;
+
+		while (n < len + 1)
+			n *= 2;
+		grown = al_realloc(r->buf, n);
+		if (grown == NULL) {
+			fail(r, AL_ENOMEM, 0, NULL);
+			return 1;
+		}
+		r->buf = grown;
+		r->buf_cap = n;
+	}
+	b = r->buf;
+	memcpy(b, line, len);
+	b[len] = '\0';
+	for (size_t i = 0; i <= len; i++) {
+		size_t a, e;
+
+		if (i < len && b[i] != d)
+			continue;
+		a = start;
+		e = i;
+		while (a < e && (b[a] == ' ' || b[a] == '\t') && b[a] != d)
+			a++;
+		while (e > a && (b[e - 1] == ' ' || b[e - 1] == '\t') &&
+		       b[e - 1] != d)
+			e--;
+		b[e] = '\0';
+		r->ptrs[k] = b + a;
+		r->lens[k] = e - a;
+		k++;
+		start = i + 1;
+	}
+	memset(&row, 0, sizeof row);
+	row.nfields = k;
+	row.fields = r->ptrs;
+	row.lens = r->lens;
+	row.line = r->cur_line;
+	row.delimiter = d;
+	row.raw = line;
+	row.raw_len = len;
+	st = r->row_fn(r->ud, &row);
+	if (st != AL_OK && r->stop == AL_OK)
+		r->stop = st;
+	r->cur_line++;
+	r->last_term = (unsigned char)term;
+	return 1;
+}
+
 /* Feeds one chunk to libcsv a line at a time, so that each record's raw
- * bytes are known and an error's line is exact. */
+ * bytes are known and an error's line is exact; plain whole lines take
+ * the fast path. */
 static int
 feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
      unsigned long *phys_line, int *prev_cr)
@@ -419,6 +512,19 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 			q++;
 		if (q < n)
 			q++;
+		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
+		    q - pos > 1 && (data[q - 1] == '\n' || data[q - 1] == '\r') &&
+		    fast_record(r, data + pos, q - pos - 1, data[q - 1])) {
+			if (r->stop != AL_OK)
+				break;
+			if (data[q - 1] == '\r')
+				(*phys_line)++;
+			else if (!(*prev_cr && q - pos == 1))
+				(*phys_line)++;
+			*prev_cr = data[q - 1] == '\r';
+			pos = q;
+			continue;
+		}
 		keep_raw(r, data + pos, q - pos);
 		if (r->stop != AL_OK)
 			break;

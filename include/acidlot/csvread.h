@@ -15,6 +15,9 @@ typedef struct al_csv_options {
 	int recover;        /* on a malformed record, hand it to the row
 			       callback with syntax_error set and go on with
 			       the next line, instead of stopping */
+	int no_fast_path;   /* every record through libcsv, none through
+			       the reader's own path for plain lines (for
+			       tests that compare the two) */
 } al_csv_options;
 
 #define AL_CSV_MAX_FIELD 4096

@@ -2,6 +2,8 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "testutil.h"
 
+#include <stdint.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "acidlot/csvread.h"
@@ -208,6 +210,128 @@ utf8(void **state)
 		assert_false(al_utf8_valid(bad[i], strlen(bad[i])));
 }
 
+/* A transcript of what the reader hands over: every record's line,
+ * fields and raw bytes, then the status and the messages. */
+struct transcript {
+	char *text;
+	size_t len, cap;
+};
+
+static void
+put(struct transcript *t, const char *s, size_t n)
+{
+	if (t->len + n + 1 > t->cap) {
+		t->cap = 2 * (t->len + n + 1);
+		t->text = realloc(t->text, t->cap);
+		assert_non_null(t->text);
+	}
+	memcpy(t->text + t->len, s, n);
+	t->len += n;
+	t->text[t->len] = '\0';
+}
+
+static al_status
+record_row(void *ud, const al_csv_row *row)
+{
+	struct transcript *t = ud;
+	char head[64];
+
+	snprintf(head, sizeof head, "%lu:%zu:%c:", row->line, row->nfields,
+		 row->delimiter);
+	put(t, head, strlen(head));
+	for (size_t i = 0; i < row->nfields; i++) {
+		assert_int_equal(row->fields[i][row->lens[i]], '\0');
+		put(t, row->fields[i], row->lens[i]);
+		put(t, "|", 1);
+	}
+	put(t, "raw=", 4);
+	put(t, row->raw, row->raw_len);
+	if (row->syntax_error)
+		put(t, row->syntax_error, strlen(row->syntax_error));
+	put(t, "\n", 1);
+	return AL_OK;
+}
+
+static void
+transcribe(const al_csv_options *opt, const char *data, size_t len,
+	   struct transcript *t)
+{
+	al_diags d = {0};
+	al_status st;
+	char tail[32];
+
+	t->len = 0;
+	put(t, "", 0);
+	st = al_csv_read_mem(opt, data, len, "t.csv", record_row, t, &d);
+	snprintf(tail, sizeof tail, "status %d\n", (int)st);
+	put(t, tail, strlen(tail));
+	for (size_t i = 0; i < d.count; i++) {
+		char line[32];
+
+		snprintf(line, sizeof line, "%lu: ", d.items[i].line);
+		put(t, line, strlen(line));
+		put(t, d.items[i].message, strlen(d.items[i].message));
+		put(t, "\n", 1);
+	}
+	al_diags_clear(&d);
+}
+
+/* The reader's own path for plain lines gives exactly what libcsv gives
+ * for them: random documents over an alphabet of delimiters, blanks,
+ * quotes and line ends, read both ways in every mode, must give the same
+ * transcript (libcsv is the reference). Some documents pass the 64 KiB
+ * read chunk, so lines are split across chunks too. */
+static void
+fast_path_matches_libcsv(void **state)
+{
+	static const char alphabet[] = "a1.,,;;\t  \n\n\r\"x-";
+	static const char delims[3] = {',', ';', '\t'};
+	struct transcript fast = {0}, slow = {0};
+	uint64_t x = 88172645463325252ULL;
+	size_t cap = 200000, docs = 0;
+	char *doc = malloc(cap);
+
+	(void)state;
+	assert_non_null(doc);
+	for (int round = 0; round < 6000; round++) {
+		size_t len;
+
+		x ^= x << 13;
+		x ^= x >> 7;
+		x ^= x << 17;
+		len = round % 500 == 0 ? 70000 + x % 100000 : x % 160;
+		for (size_t i = 0; i < len; i++) {
+			x ^= x << 13;
+			x ^= x >> 7;
+			x ^= x << 17;
+			/* mostly plain text, some structure */
+			doc[i] = (x >> 8) % 4 ? "abc123.5"[(x >> 16) % 8]
+					      : alphabet[(x >> 24) %
+							 (sizeof alphabet - 1)];
+		}
+		for (int mode = 0; mode < 12; mode++) {
+			al_csv_options opt;
+
+			memset(&opt, 0, sizeof opt);
+			opt.delimiter = delims[mode % 3];
+			opt.recover = (mode / 3) & 1;
+			opt.max_field = mode >= 6 ? 12 : 0;
+			transcribe(&opt, doc, len, &fast);
+			opt.no_fast_path = 1;
+			transcribe(&opt, doc, len, &slow);
+			if (strcmp(fast.text, slow.text) != 0)
+				fail_msg("document %d, mode %d:\n--- libcsv\n%s"
+					 "--- fast path\n%s",
+					 round, mode, slow.text, fast.text);
+			docs++;
+		}
+	}
+	assert_int_equal(docs, 6000 * 12);
+	free(doc);
+	free(fast.text);
+	free(slow.text);
+}
+
 int
 main(void)
 {
@@ -216,6 +340,7 @@ main(void)
 		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
 		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
 		cmocka_unit_test(chunk_boundary),
+		cmocka_unit_test(fast_path_matches_libcsv),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
