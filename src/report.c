@@ -3,6 +3,7 @@
 #include "acidlot/report.h"
 
 #include <locale.h>
+#include <stdint.h>
 #include <string.h>
 
 static char
@@ -13,6 +14,78 @@ delim_of(const al_report_options *opt)
 	return opt->delimiter;
 }
 
+/* %.10g without printf, for the values where the digits are certain;
+ * returns the length written, or 0 to leave the value to snprintf.
+ *
+ * For 1e-4 <= |v| < 1e10, %.10g prints the ten significant digits of
+ * |v| rounded to nearest, in fixed notation, trailing zeros dropped.
+ * P = |v| 10^(9-e), with 10^e <= |v| < 10^(e+1), multiplies by an exact
+ * power of ten (k = 9 - e lies in 0..13 and 10^k <= 10^22 is exact), so
+ * P is within half an ulp of the exact product: under 2^-53 P < 1.2e-6
+ * for P < 1e10. When P's fraction is more than 1e-5 away from one half,
+ * rounding P gives the same integer as rounding the exact product,
+ * hence the same digits as printf; otherwise, and when P leaves
+ * [1e9, 1e10) (a power of ten misjudged, or a carry to eleven digits),
+ * snprintf decides. tests/unit/test_report.c compares this byte for byte
+ * with snprintf on millions of values. */
+static size_t
+format_g10(double v, char *buf)
+{
+	static const double pow10[14] = {1e0, 1e1, 1e2,	 1e3,  1e4,  1e5,  1e6,
+					 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13};
+	double a = v < 0 ? -v : v, p, f;
+	uint64_t d;
+	int e = 9;
+	char digits[10];
+	size_t len = 0;
+
+	if (!(a >= 1e-4 && a < 1e10))
+		return 0;
+	while (e > -4 && (e >= 0 ? a < pow10[e] : a * pow10[-e] < 1.0))
+		e--;
+	/* e: the largest in -4..9 with 10^e <= a, give or take a rounding
+	 * of the comparison, which the range check on p catches */
+	p = a * pow10[9 - e];
+	if (!(p >= 1e9 && p < 1e10 - 1))
+		return 0;
+	d = (uint64_t)p;
+	f = p - (double)d;
+	if (f > 0.49999 && f < 0.50001)
+		return 0;
+	if (f > 0.5)
+		d++;
+	for (int i = 9; i >= 0; i--) {
+		digits[i] = (char)('0' + d % 10);
+		d /= 10;
+	}
+	if (v < 0)
+		buf[len++] = '-';
+	{
+		int last = 9;
+
+		while (last > 0 && digits[last] == '0')
+			last--;
+		if (e >= 0) {
+			for (int i = 0; i <= e; i++)
+				buf[len++] = digits[i];
+			if (last > e) {
+				buf[len++] = '.';
+				for (int i = e + 1; i <= last; i++)
+					buf[len++] = digits[i];
+			}
+		} else {
+			buf[len++] = '0';
+			buf[len++] = '.';
+			for (int i = 0; i < -e - 1; i++)
+				buf[len++] = '0';
+			for (int i = 0; i <= last; i++)
+				buf[len++] = digits[i];
+		}
+	}
+	buf[len] = '\0';
+	return len;
+}
+
 void
 al_format_number(double v, int decimals, int decimal_comma, char *buf,
 		 size_t cap)
@@ -20,6 +93,11 @@ al_format_number(double v, int decimals, int decimal_comma, char *buf,
 	const char *point;
 	char *p;
 
+	if (decimals < 0 && cap >= 32 && format_g10(v, buf) > 0) {
+		if (decimal_comma && (p = strchr(buf, '.')) != NULL)
+			*p = ',';
+		return;
+	}
 	if (decimals >= 0)
 		snprintf(buf, cap, "%.*f", decimals, v);
 	else
