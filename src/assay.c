@@ -28,26 +28,57 @@ static const char *const cols[C_COUNT] = {
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
 	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct"};
 
+/* Replicate values a group keeps: up to AL_VALUES_KEPT, the first
+ * three inside the group itself (the usual triplicate costs no
+ * allocation); past AL_VALUES_KEPT the group keeps running statistics
+ * instead, so memory stays bounded by the number of groups. */
+#define INLINE_VALUES 3
+
+/* Running statistics of a group past AL_VALUES_KEPT values: Welford's
+ * mean and sum of squared deviations (Welford 1962; Knuth TAOCP 2,
+ * 4.2.2), the two smallest and two largest values and where the
+ * extremes were. */
+struct stream {
+	double mean, m2, lo, lo2, hi, hi2;
+	uint32_t lo_i, hi_i;
+};
+
+enum {
+	G_VOLUME = 1,    /* the sample basis is volume (else mass) */
+	G_ANHYDROUS = 2, /* results on the anhydrous basis */
+	G_HEAP = 4,      /* values.heap holds the values */
+	G_STREAM = 8     /* values.stream holds running statistics */
+};
+
+/* One group, kept small: memory per group is what bounds a run of
+ * millions of samples (bench/, issue 7: 120 bytes a group in all). */
 struct group {
-	size_t key;     /* offset in the arena: product \0 lot \0 sample \0 */
-	size_t lot_off, sample_off;
-	const al_acid *acid;
-	al_unit unit;
-	const al_spec *spec;
-	double *values;
-	uint32_t n, cap;
-	unsigned flags;
-	double min_endpoint;
-	unsigned long first_line;
-	char *first_file; /* shared string, owned by run->files */
+	uint32_t key;        /* offset in the arena: product \0 lot \0 sample \0 */
+	uint32_t n;          /* values so far */
+	uint32_t flags;      /* AL_FLAG_ bits of its rows (and Cochran's) */
+	uint32_t first_line; /* where it was first seen (saturates) */
+	uint32_t extra;      /* 1 + index in run->extras; 0: none */
+	uint8_t acid;        /* 1 + index in run->acids; 0: no valid row yet */
+	uint8_t unit;
+	uint8_t bits;        /* G_ */
+	uint8_t verdict;     /* set by al_assay_finish */
 	/* sums of the inputs, for the uncertainty budget at their means */
-	double sum_titrant, sum_blank, sum_conc, sum_conc_u, sum_amount;
-	double sum_made_up, sum_aliquot;
-	uint32_t n_conc_u;
-	al_basis basis;
-	double sum_brix, sum_water, sum_density;
-	uint32_t n_brix, n_water, n_density;
-	int anhydrous;
+	double sum_titrant, sum_conc, sum_amount;
+	union {
+		double v[INLINE_VALUES];
+		struct {
+			double *p;
+			uint32_t cap;
+		} heap;
+		struct stream *stream;
+	} values;
+};
+
+/* The inputs few files have, kept only for the groups that have them. */
+struct group_extra {
+	double sum_blank, sum_made_up, sum_aliquot, sum_conc_u;
+	double sum_brix, sum_water, sum_density, min_endpoint;
+	uint32_t n_conc_u, n_brix, n_water, n_density;
 };
 
 /* A row used, kept for the replicate output when one is asked for. */
@@ -73,8 +104,21 @@ struct al_assay {
 
 	char **files;
 	size_t n_files;
+	size_t *file_groups; /* groups before each file's first one */
+	struct group_extra *extras;
+	size_t n_extras, cap_extras;
+	const al_acid *acids[255]; /* the acids of groups, by group->acid */
+	size_t n_acids;
+	uint32_t last_group; /* 1 + the group of the previous row */
+	int finished;
 
-	al_group_result *results;
+	/* al_assay_result's one evaluated result */
+	al_group_result cur;
+	size_t cur_index; /* 1 + the group in cur; 0: none */
+	double *eval_scratch;
+	const al_spec *spec_cache; /* the spec of spec_product */
+	int spec_cached;
+	char spec_product[128];
 	char *header_text; /* the file's header cells, trimmed, NUL-separated */
 	const al_titrant **lots_used;
 	size_t n_lots_used;
@@ -138,15 +182,23 @@ al_assay_free(al_assay *run)
 {
 	if (run == NULL)
 		return;
-	for (size_t i = 0; i < run->n_groups; i++)
-		al_free(run->groups[i].values);
+	for (size_t i = 0; i < run->n_groups; i++) {
+		struct group *g = &run->groups[i];
+
+		if (g->bits & G_HEAP)
+			al_free(g->values.heap.p);
+		else if (g->bits & G_STREAM)
+			al_free(g->values.stream);
+	}
 	for (size_t i = 0; i < run->n_files; i++)
 		al_free(run->files[i]);
 	al_free(run->files);
 	al_free(run->groups);
 	al_free(run->slots);
 	al_free(run->arena);
-	al_free(run->results);
+	al_free(run->file_groups);
+	al_free(run->extras);
+	al_free(run->eval_scratch);
 	al_free(run->scratch);
 	al_free(run->header_text);
 	al_free(run->lots_used);
@@ -176,10 +228,22 @@ al_assay_group_count(const al_assay *run)
 	return run->n_groups;
 }
 
+static void evaluate(al_assay *run, size_t i, al_group_result *r);
+
 const al_group_result *
 al_assay_result(const al_assay *run, size_t i)
 {
-	return run->results && i < run->n_groups ? &run->results[i] : NULL;
+	/* evaluated on demand: a run of millions of results keeps none of
+	 * them (the one returned is the run's, as the header says) */
+	al_assay *mut = (al_assay *)run;
+
+	if (!run->finished || i >= run->n_groups)
+		return NULL;
+	if (mut->cur_index != i + 1) {
+		evaluate(mut, i, &mut->cur);
+		mut->cur_index = i + 1;
+	}
+	return &mut->cur;
 }
 
 /* FNV-1a, 64 bit */
@@ -206,16 +270,29 @@ key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	return hash_bytes(h, s, sl);
 }
 
+/* The key's three parts follow each other in the arena, each ended by
+ * NUL; fields never hold NUL (the reader refuses it), so the parts and
+ * their ends compare unambiguously. */
 static int
 group_is(const al_assay *run, const struct group *g, const char *p,
 	 size_t pl, const char *l, size_t ll, const char *s, size_t sl)
 {
 	const char *k = run->arena + g->key;
 
-	return g->lot_off == pl + 1 && g->sample_off == pl + ll + 2 &&
-	       memcmp(k, p, pl) == 0 && memcmp(k + pl + 1, l, ll) == 0 &&
-	       memcmp(k + g->sample_off, s, sl) == 0 &&
-	       k[g->sample_off + sl] == '\0';
+	return memcmp(k, p, pl) == 0 && k[pl] == '\0' &&
+	       memcmp(k + pl + 1, l, ll) == 0 && k[pl + 1 + ll] == '\0' &&
+	       memcmp(k + pl + ll + 2, s, sl) == 0 &&
+	       k[pl + ll + 2 + sl] == '\0';
+}
+
+static uint64_t
+group_hash(const al_assay *run, const struct group *g)
+{
+	const char *k = run->arena + g->key;
+	size_t pl = strlen(k), ll = strlen(k + pl + 1);
+
+	return key_hash(k, pl, k + pl + 1, ll, k + pl + ll + 2,
+			strlen(k + pl + ll + 2));
 }
 
 static al_status
@@ -227,13 +304,7 @@ rehash(al_assay *run)
 	if (slots == NULL)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < run->n_groups; i++) {
-		const struct group *g = &run->groups[i];
-		const char *k = run->arena + g->key;
-		uint64_t h = key_hash(k, g->lot_off - 1, k + g->lot_off,
-				      g->sample_off - g->lot_off - 1,
-				      k + g->sample_off,
-				      strlen(k + g->sample_off));
-		size_t j = (size_t)h & (n - 1);
+		size_t j = (size_t)group_hash(run, &run->groups[i]) & (n - 1);
 
 		while (slots[j])
 			j = (j + 1) & (n - 1);
@@ -245,7 +316,9 @@ rehash(al_assay *run)
 	return AL_OK;
 }
 
-/* Finds the group of a key, or creates it; *created tells which. */
+/* Finds the group of a key, or creates it; *created tells which. The
+ * previous row's group is tried first: replicates usually follow each
+ * other. */
 static al_status
 find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	   const char *s, size_t sl, struct group **out, int *created)
@@ -255,7 +328,14 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	struct group *g;
 
 	*created = 0;
-	if (run->n_slots == 0 || 2 * (run->n_groups + 1) > run->n_slots) {
+	if (run->last_group &&
+	    group_is(run, &run->groups[run->last_group - 1], p, pl, l, ll, s,
+		     sl)) {
+		*out = &run->groups[run->last_group - 1];
+		return AL_OK;
+	}
+	/* linear probing at a load of at most 0.7 */
+	if (run->n_slots == 0 || 10 * (run->n_groups + 1) > 7 * run->n_slots) {
 		if (run->n_groups >= UINT32_MAX / 2)
 			return AL_ENOMEM;
 		if (rehash(run) != AL_OK)
@@ -266,11 +346,14 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	     j = (j + 1) & (run->n_slots - 1)) {
 		g = &run->groups[run->slots[j] - 1];
 		if (group_is(run, g, p, pl, l, ll, s, sl)) {
+			run->last_group = run->slots[j];
 			*out = g;
 			return AL_OK;
 		}
 	}
 	need = pl + ll + sl + 3;
+	if (run->arena_len + need > UINT32_MAX)
+		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
 	if (run->arena_len + need > run->arena_cap) {
 		size_t n = run->arena_cap ? run->arena_cap : 64 * 1024;
 		char *grown;
@@ -294,9 +377,7 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	}
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
-	g->key = run->arena_len;
-	g->lot_off = pl + 1;
-	g->sample_off = pl + ll + 2;
+	g->key = (uint32_t)run->arena_len;
 	memcpy(run->arena + run->arena_len, p, pl);
 	run->arena[run->arena_len + pl] = '\0';
 	memcpy(run->arena + run->arena_len + pl + 1, l, ll);
@@ -306,25 +387,173 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	run->arena_len += need;
 	run->slots[j] = (uint32_t)(run->n_groups + 1);
 	run->n_groups++;
+	run->last_group = (uint32_t)run->n_groups;
 	*out = g;
 	*created = 1;
 	return AL_OK;
 }
 
+/* The group's extra sums, made on first need; NULL when memory runs out. */
+static struct group_extra *
+extra_of(al_assay *run, struct group *g)
+{
+	struct group_extra *x;
+
+	if (g->extra)
+		return &run->extras[g->extra - 1];
+	if (run->n_extras == UINT32_MAX - 1)
+		return NULL;
+	if (run->n_extras == run->cap_extras) {
+		size_t n = run->cap_extras ? 2 * run->cap_extras : 64;
+		struct group_extra *grown =
+			al_realloc(run->extras, n * sizeof *grown);
+
+		if (grown == NULL)
+			return NULL;
+		run->extras = grown;
+		run->cap_extras = n;
+	}
+	x = &run->extras[run->n_extras++];
+	memset(x, 0, sizeof *x);
+	x->min_endpoint = HUGE_VAL;
+	g->extra = (uint32_t)run->n_extras;
+	return x;
+}
+
+static const double *
+group_values(const struct group *g)
+{
+	if (g->bits & G_STREAM)
+		return NULL;
+	return g->bits & G_HEAP ? g->values.heap.p : g->values.v;
+}
+
+static void
+stream_add(struct stream *st, uint32_t n, double x)
+{
+	/* n values so far; x is value n (0-based) */
+	double d = x - st->mean;
+
+	st->mean += d / (double)(n + 1);
+	st->m2 += d * (x - st->mean);
+	if (n == 0) {
+		st->lo = st->hi = x;
+		st->lo2 = HUGE_VAL;
+		st->hi2 = -HUGE_VAL;
+		st->lo_i = st->hi_i = 0;
+		return;
+	}
+	if (x < st->lo) {
+		st->lo2 = st->lo;
+		st->lo = x;
+		st->lo_i = n;
+	} else if (x < st->lo2)
+		st->lo2 = x;
+	if (x > st->hi) {
+		st->hi2 = st->hi;
+		st->hi = x;
+		st->hi_i = n;
+	} else if (x > st->hi2)
+		st->hi2 = x;
+}
+
 static al_status
 push_value(struct group *g, double v)
 {
-	if (g->n == g->cap) {
-		uint32_t n = g->cap ? 2 * g->cap : 4;
-		double *grown = al_realloc(g->values, n * sizeof *grown);
+	if (g->bits & G_STREAM) {
+		stream_add(g->values.stream, g->n++, v);
+		return AL_OK;
+	}
+	if (g->n == AL_VALUES_KEPT) {
+		/* from here on, running statistics of all the values */
+		struct stream *st = al_malloc(sizeof *st);
+		double *kept = g->values.heap.p;
 
+		if (st == NULL)
+			return AL_ENOMEM;
+		memset(st, 0, sizeof *st);
+		for (uint32_t i = 0; i < g->n; i++)
+			stream_add(st, i, kept[i]);
+		stream_add(st, g->n, v);
+		al_free(kept);
+		g->values.stream = st;
+		g->bits = (uint8_t)((g->bits & ~G_HEAP) | G_STREAM);
+		g->n++;
+		return AL_OK;
+	}
+	if (!(g->bits & G_HEAP) && g->n == INLINE_VALUES) {
+		double *p = al_malloc(2 * INLINE_VALUES * sizeof *p);
+
+		if (p == NULL)
+			return AL_ENOMEM;
+		memcpy(p, g->values.v, sizeof g->values.v);
+		g->values.heap.p = p;
+		g->values.heap.cap = 2 * INLINE_VALUES;
+		g->bits |= G_HEAP;
+	} else if ((g->bits & G_HEAP) && g->n == g->values.heap.cap) {
+		uint32_t n = 2 * g->values.heap.cap;
+		double *grown;
+
+		if (n > AL_VALUES_KEPT)
+			n = AL_VALUES_KEPT;
+		grown = al_realloc(g->values.heap.p, n * sizeof *grown);
 		if (grown == NULL)
 			return AL_ENOMEM;
-		g->values = grown;
-		g->cap = n;
+		g->values.heap.p = grown;
+		g->values.heap.cap = n;
 	}
-	g->values[g->n++] = v;
+	if (g->bits & G_HEAP)
+		g->values.heap.p[g->n++] = v;
+	else
+		g->values.v[g->n++] = v;
 	return AL_OK;
+}
+
+/* 1 + the index of an acid in the run's table of acids (255 at most;
+ * the catalogue has far fewer); 0 when the table is full. */
+static uint8_t
+acid_slot(al_assay *run, const al_acid *acid)
+{
+	for (size_t i = 0; i < run->n_acids; i++)
+		if (run->acids[i] == acid)
+			return (uint8_t)(i + 1);
+	if (run->n_acids == sizeof run->acids / sizeof run->acids[0])
+		return 0;
+	run->acids[run->n_acids++] = acid;
+	return (uint8_t)run->n_acids;
+}
+
+static const al_acid *
+group_acid(const al_assay *run, const struct group *g)
+{
+	return g->acid ? run->acids[g->acid - 1] : NULL;
+}
+
+/* The file a group was first seen in: groups are numbered in order of
+ * creation, file by file. */
+static const char *
+group_file(const al_assay *run, const struct group *g)
+{
+	size_t i = (size_t)(g - run->groups), f = run->n_files - 1;
+
+	while (f > 0 && run->file_groups[f] > i)
+		f--;
+	return run->files[f];
+}
+
+/* The specification of a product, remembering the last one asked. */
+static const al_spec *
+spec_of(al_assay *run, const char *product)
+{
+	size_t len = strlen(product);
+
+	if (run->spec_cached && strcmp(run->spec_product, product) == 0)
+		return run->spec_cache;
+	run->spec_cache = al_spec_find(run->opt.specs, product);
+	run->spec_cached = len < sizeof run->spec_product;
+	if (run->spec_cached)
+		memcpy(run->spec_product, product, len + 1);
+	return run->spec_cache;
 }
 
 /* Adds an error for the current row (reported or rejected at its end). */
@@ -661,14 +890,11 @@ titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
 }
 
 static void
-init_group(al_assay *run, struct group *g, const al_spec *spec,
-	   unsigned long line)
+init_group(struct group *g, unsigned long line)
 {
-	g->acid = NULL; /* set by the first valid row */
-	g->spec = spec;
-	g->first_line = line;
-	g->first_file = run->files[run->n_files - 1];
-	g->min_endpoint = HUGE_VAL;
+	/* the acid is set by the first valid row; the spec is the
+	 * product's, looked up again when the result is evaluated */
+	g->first_line = line > UINT32_MAX ? UINT32_MAX : (uint32_t)line;
 }
 
 /* Possible but unusual values: a warning naming the row, and a flag. */
@@ -768,9 +994,7 @@ bad_row(al_assay *run, const al_csv_row *row)
 			st = find_group(run, text[0], tl[0], text[1], tl[1],
 					text[2], tl[2], &g, &created);
 			if (st == AL_OK && created)
-				init_group(run, g,
-					   al_spec_find(run->opt.specs, text[0]),
-					   row->line);
+				init_group(g, row->line);
 			if (st == AL_OK)
 				g->flags |= AL_FLAG_REJECTED;
 		}
@@ -946,7 +1170,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	}
 
 	/* The acid: the specification's, else the row's, else the default. */
-	spec = al_spec_find(run->opt.specs, product);
+	spec = spec_of(run, product);
 	if (tl[4] > 0) {
 		row_acid = al_catalogue_find(run->opt.catalogue, acid_name);
 		if (row_acid == NULL)
@@ -978,22 +1202,30 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (st != AL_OK)
 		return st;
 	if (created)
-		init_group(run, g, spec, line);
-	if (g->acid == NULL) {
-		g->acid = acid;
-		g->unit = unit;
-		g->basis = t.basis;
-		g->anhydrous = spec && spec->has_basis ? spec->anhydrous
-						       : run->opt.anhydrous;
-	} else if (g->acid != acid) {
+		init_group(g, line);
+	if (g->acid == 0) {
+		int anhydrous = spec && spec->has_basis ? spec->anhydrous
+							: run->opt.anhydrous;
+
+		g->acid = acid_slot(run, acid);
+		if (g->acid == 0) {
+			ROW_ERR(run, line, "acid",
+				"more than 255 different acids in one run");
+			return AL_OK;
+		}
+		g->unit = (uint8_t)unit;
+		g->bits |= (t.basis == AL_BASIS_VOLUME ? G_VOLUME : 0) |
+			   (anhydrous ? G_ANHYDROUS : 0);
+	} else if (group_acid(run, g) != acid) {
 		ROW_ERR(run, line, "acid",
 			"'%s' differs from '%s' of the same product, lot and "
 			"sample first seen at %s:%lu; one result cannot mix "
 			"acids",
-			acid->name, g->acid->name, g->first_file, g->first_line);
+			acid->name, group_acid(run, g)->name,
+			group_file(run, g), (unsigned long)g->first_line);
 		return AL_OK;
 	}
-	unit = g->unit;
+	unit = (al_unit)g->unit;
 	if (al_unit_basis(unit) != t.basis && got_density != 1 &&
 	    got_brix == 1) {
 		/* the sucrose density of its Brix (NBS), when none is given */
@@ -1026,7 +1258,7 @@ row_values(al_assay *run, const al_csv_row *row)
 		return AL_OK;
 	}
 	flags |= plausibility(run, line, &t);
-	if (g->anhydrous) {
+	if (g->bits & G_ANHYDROUS) {
 		if (got_water != 1) {
 			ROW_ERR(run, line, "water_pct",
 				"is needed for a result on the anhydrous basis");
@@ -1048,40 +1280,50 @@ row_values(al_assay *run, const al_csv_row *row)
 
 		if (titrated < ENDPOINT_SHARE * acid->protons) {
 			flags |= AL_FLAG_ENDPOINT_LOW;
-			if (endpoint < g->min_endpoint)
-				g->min_endpoint = endpoint;
 			if (al_endpoint_ph_needed(acid->pka, acid->n_pka,
 						  acid->protons, ENDPOINT_SHARE,
 						  &needed) != AL_OK)
 				needed = 14;
 		}
 	}
+	/* the inputs few rows have: a sum of zeros stays zero, so a group
+	 * gets its extra sums only when it has one of them */
+	if (t.blank_ml != 0 || t.made_up_ml != 0 || t.aliquot_ml != 0 ||
+	    conc_u >= 0 || got_brix == 1 || got_water == 1 ||
+	    got_density == 1 || (flags & AL_FLAG_ENDPOINT_LOW)) {
+		struct group_extra *x = extra_of(run, g);
+
+		if (x == NULL)
+			return AL_ENOMEM;
+		x->sum_blank += t.blank_ml;
+		x->sum_made_up += t.made_up_ml;
+		x->sum_aliquot += t.aliquot_ml;
+		if (conc_u >= 0) {
+			x->sum_conc_u += conc_u;
+			x->n_conc_u++;
+		}
+		if (got_brix == 1) {
+			x->sum_brix += brix;
+			x->n_brix++;
+		}
+		if (got_water == 1) {
+			x->sum_water += water;
+			x->n_water++;
+		}
+		if (got_density == 1) {
+			x->sum_density += density;
+			x->n_density++;
+		}
+		if ((flags & AL_FLAG_ENDPOINT_LOW) && endpoint < x->min_endpoint)
+			x->min_endpoint = endpoint;
+	}
 	st = push_value(g, value);
 	if (st != AL_OK)
 		return st;
 	g->flags |= flags;
 	g->sum_titrant += t.titrant_ml;
-	g->sum_blank += t.blank_ml;
 	g->sum_conc += t.titrant_mol_l;
 	g->sum_amount += t.amount;
-	g->sum_made_up += t.made_up_ml;
-	g->sum_aliquot += t.aliquot_ml;
-	if (conc_u >= 0) {
-		g->sum_conc_u += conc_u;
-		g->n_conc_u++;
-	}
-	if (got_brix == 1) {
-		g->sum_brix += brix;
-		g->n_brix++;
-	}
-	if (got_water == 1) {
-		g->sum_water += water;
-		g->n_water++;
-	}
-	if (got_density == 1) {
-		g->sum_density += density;
-		g->n_density++;
-	}
 	run->counts.rows_used++;
 	if (run->on_row)
 		return keep_row(run, g, line, al_ta_meq(&t), value, flags, needed,
@@ -1127,6 +1369,15 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	if (files == NULL)
 		return AL_ENOMEM;
 	run->files = files;
+	{
+		size_t *fg = al_realloc(run->file_groups,
+					(run->n_files + 1) * sizeof *fg);
+
+		if (fg == NULL)
+			return AL_ENOMEM;
+		run->file_groups = fg;
+		fg[run->n_files] = run->n_groups;
+	}
 	run->files[run->n_files] = al_strdup(name);
 	if (run->files[run->n_files] == NULL)
 		return AL_ENOMEM;
@@ -1160,7 +1411,7 @@ replay_rows(al_assay *run)
 {
 	for (size_t i = 0; i < run->n_kept; i++) {
 		const struct kept_row *k = &run->kept[i];
-		const al_group_result *r = &run->results[k->group];
+		const al_group_result *r = al_assay_result(run, k->group);
 		al_replicate rep;
 		al_status st;
 
@@ -1190,85 +1441,144 @@ replay_rows(al_assay *run)
 	return AL_OK;
 }
 
+/* Evaluates group i into r: statistics, screens, uncertainty, verdict. */
+static void
+evaluate(al_assay *run, size_t i, al_group_result *r)
+{
+	struct group *g = &run->groups[i];
+	const struct group_extra *x = g->extra ? &run->extras[g->extra - 1]
+					       : NULL;
+	const char *k = run->arena + g->key;
+	size_t pl = strlen(k), ll = strlen(k + pl + 1);
+	al_eval_inputs in;
+	al_eval_stream st;
+	double n = g->n ? (double)g->n : 1;
+	const al_spec *spec = spec_of(run, k);
+
+	memset(r, 0, sizeof *r);
+	r->product = k;
+	r->lot = k + pl + 1;
+	r->sample = k + pl + ll + 2;
+	r->spec = spec;
+	if (g->acid == 0) {
+		/* every row of it was rejected: name it as its spec or the
+		 * defaults would */
+		r->acid = spec && spec->acid ? spec->acid : run->opt.default_acid;
+		r->unit = spec && spec->has_unit ? spec->unit
+			  : run->opt.has_unit	 ? run->opt.unit
+						 : AL_UNIT_G_100G;
+	} else {
+		r->acid = group_acid(run, g);
+		r->unit = (al_unit)g->unit;
+	}
+	r->values = group_values(g);
+	r->n_values = g->n;
+	r->flags = g->flags;
+	memset(&in, 0, sizeof in);
+	if (g->bits & G_STREAM) {
+		const struct stream *s = g->values.stream;
+
+		st.mean = s->mean;
+		st.m2 = s->m2;
+		st.lo = s->lo;
+		st.lo2 = s->lo2;
+		st.hi = s->hi;
+		st.hi2 = s->hi2;
+		st.lo_i = s->lo_i;
+		st.hi_i = s->hi_i;
+		in.stream = &st;
+	}
+	in.titrant_ml = g->sum_titrant / n;
+	in.conc = g->sum_conc / n;
+	in.amount = g->sum_amount / n;
+	in.basis = g->bits & G_VOLUME ? AL_BASIS_VOLUME : AL_BASIS_MASS;
+	in.n = g->n;
+	if (x) {
+		in.blank_ml = x->sum_blank / n;
+		in.made_up_ml = x->sum_made_up / n;
+		in.aliquot_ml = x->sum_aliquot / n;
+		in.all_conc_u = g->n > 0 && x->n_conc_u == g->n;
+		in.conc_u = x->n_conc_u ? x->sum_conc_u / x->n_conc_u : 0;
+		in.has_brix = x->n_brix > 0;
+		in.brix = x->n_brix ? x->sum_brix / x->n_brix : 0;
+		in.has_water = x->n_water > 0;
+		in.water_pct = x->n_water ? x->sum_water / x->n_water : 0;
+		in.density = x->n_density ? x->sum_density / x->n_density : 0;
+	} else {
+		in.blank_ml = 0 / n;
+		in.made_up_ml = 0 / n;
+		in.aliquot_ml = 0 / n;
+	}
+	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
+	al_eval_result(&run->opt, &in, run->eval_scratch, r);
+	if ((g->flags & AL_FLAG_ENDPOINT_LOW) && x) {
+		r->endpoint_ph = x->min_endpoint;
+		if (al_endpoint_ph_needed(r->acid->pka, r->acid->n_pka,
+					  r->acid->protons, ENDPOINT_SHARE,
+					  &r->endpoint_ph_needed) != AL_OK)
+			r->endpoint_ph_needed = 14;
+	}
+}
+
+static const char *
+product_of(const void *ctx, size_t group)
+{
+	const al_assay *run = ctx;
+
+	return run->arena + run->groups[group].key;
+}
+
 al_status
 al_assay_finish(al_assay *run)
 {
-	size_t max_n = 1;
-	double *scratch;
+	al_cochran_entry *entries;
+	size_t n_entries = 0;
 	int oom;
 
-	run->results = al_calloc(run->n_groups ? run->n_groups : 1,
-				 sizeof *run->results);
-	if (run->results == NULL)
+	/* the key index is not needed any more: its memory goes to the
+	 * Cochran entries */
+	al_free(run->slots);
+	run->slots = NULL;
+	run->n_slots = 0;
+	run->last_group = 0;
+	run->eval_scratch = al_malloc(AL_VALUES_KEPT * sizeof *run->eval_scratch);
+	entries = al_malloc((run->n_groups ? run->n_groups : 1) * sizeof *entries);
+	if (run->eval_scratch == NULL || entries == NULL) {
+		al_free(entries);
 		return AL_ENOMEM;
-	for (size_t i = 0; i < run->n_groups; i++)
-		if (run->groups[i].n > max_n)
-			max_n = run->groups[i].n;
-	scratch = al_malloc(max_n * sizeof *scratch);
-	if (scratch == NULL)
-		return AL_ENOMEM;
+	}
+	run->finished = 1;
+	run->cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
 	for (size_t i = 0; i < run->n_groups; i++) {
-		struct group *g = &run->groups[i];
-		al_group_result *r = &run->results[i];
-		const char *k = run->arena + g->key;
-		al_eval_inputs in;
-		double n = g->n ? (double)g->n : 1;
+		al_group_result *r = &run->cur;
 
-		if (g->acid == NULL) {
-			/* every row of it was rejected: name it as its spec or
-			 * the defaults would */
-			g->acid = g->spec && g->spec->acid ? g->spec->acid
-							   : run->opt.default_acid;
-			g->unit = g->spec && g->spec->has_unit ? g->spec->unit
-				  : run->opt.has_unit	       ? run->opt.unit
-							       : AL_UNIT_G_100G;
+		evaluate(run, i, r);
+		if (r->stats.has_sd) {
+			entries[n_entries].variance = r->stats.sd * r->stats.sd;
+			entries[n_entries].group = (uint32_t)i;
+			entries[n_entries].n = (uint32_t)r->stats.n;
+			n_entries++;
 		}
-		r->product = k;
-		r->lot = k + g->lot_off;
-		r->sample = k + g->sample_off;
-		r->acid = g->acid;
-		r->unit = g->unit;
-		r->spec = g->spec;
-		r->values = g->values;
-		r->n_values = g->n;
-		r->flags = g->flags;
-		memset(&in, 0, sizeof in);
-		in.titrant_ml = g->sum_titrant / n;
-		in.blank_ml = g->sum_blank / n;
-		in.conc = g->sum_conc / n;
-		in.amount = g->sum_amount / n;
-		in.made_up_ml = g->sum_made_up / n;
-		in.aliquot_ml = g->sum_aliquot / n;
-		in.all_conc_u = g->n > 0 && g->n_conc_u == g->n;
-		in.conc_u = g->n_conc_u ? g->sum_conc_u / g->n_conc_u : 0;
-		in.basis = g->basis;
-		in.n = g->n;
-		in.has_brix = g->n_brix > 0;
-		in.brix = g->n_brix ? g->sum_brix / g->n_brix : 0;
-		in.has_water = g->n_water > 0;
-		in.water_pct = g->n_water ? g->sum_water / g->n_water : 0;
-		in.density = g->n_density ? g->sum_density / g->n_density : 0;
-		r->anhydrous = g->anhydrous;
-		al_eval_result(&run->opt, &in, scratch, r);
-		if (g->flags & AL_FLAG_ENDPOINT_LOW) {
-			r->endpoint_ph = g->min_endpoint;
-			if (al_endpoint_ph_needed(g->acid->pka, g->acid->n_pka,
-						  g->acid->protons,
-						  ENDPOINT_SHARE,
-						  &r->endpoint_ph_needed) !=
-			    AL_OK)
-				r->endpoint_ph_needed = 14;
-		}
+		run->groups[i].verdict = (uint8_t)r->verdict;
 	}
-	al_free(scratch);
-	run->cochran = al_eval_cochran(run->results, run->n_groups,
+	run->cochran = al_eval_cochran(entries, n_entries, product_of, run,
 				       &run->n_cochran, &oom);
+	al_free(entries);
 	if (oom)
 		return AL_ENOMEM;
+	for (size_t i = 0; i < run->n_cochran; i++) {
+		const al_cochran *c = &run->cochran[i];
+
+		if (c->c > c->crit1)
+			run->groups[c->result].flags |= AL_FLAG_COCHRAN_OUTLIER;
+		else if (c->c > c->crit5)
+			run->groups[c->result].flags |= AL_FLAG_COCHRAN_STRAGGLER;
+	}
 	for (size_t i = 0; i < run->n_groups; i++)
-		run->counts.by_verdict[run->results[i].verdict]++;
+		run->counts.by_verdict[run->groups[i].verdict]++;
+	run->cur_index = 0;
 	return run->on_row ? replay_rows(run) : AL_OK;
 }
 
@@ -1324,6 +1634,7 @@ al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 		{AL_FLAG_NO_BRIX, "no-brix-or-water-values"},
 		{AL_FLAG_DENSITY_BRIX, "density-from-brix"},
 		{AL_FLAG_BRIX_UNCORRECTED, "brix-not-acid-corrected"},
+		{AL_FLAG_MANY, "many-replicates"},
 	};
 	size_t len = 0;
 

@@ -209,6 +209,51 @@ other_limits(al_group_result *r)
 		r->verdict = AL_VERDICT_FAIL;
 }
 
+/* The statistics of a result past AL_VALUES_KEPT values, from running
+ * sums: mean and SD (Welford), Grubbs from the farther extreme, the
+ * range from the extremes; an excluded outlier comes off the sums. No
+ * median (it needs every value) and no Dixon (n > 10). */
+static void
+many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
+	    al_group_result *r, size_t *used)
+{
+	const al_qc_options *q = &opt->qc;
+	double mean = s->mean, m2 = s->m2, lo = s->lo, hi = s->hi;
+	double sd = sqrt(m2 / (double)(n - 1));
+
+	r->flags |= AL_FLAG_MANY;
+	if (sd > 0) {
+		int low = mean - s->lo > s->hi - mean ||
+			  (mean - s->lo == s->hi - mean && s->lo_i < s->hi_i);
+
+		r->has_grubbs = 1;
+		r->grubbs_index = low ? s->lo_i : s->hi_i;
+		r->grubbs_g = (low ? mean - s->lo : s->hi - mean) / sd;
+		if (r->grubbs_g > al_grubbs_critical(n, 0.01))
+			r->flags |= AL_FLAG_OUTLIER;
+		else if (r->grubbs_g > al_grubbs_critical(n, 0.05))
+			r->flags |= AL_FLAG_STRAGGLER;
+		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+			double x = low ? s->lo : s->hi;
+			double mean2 = ((double)n * mean - x) / (double)(n - 1);
+
+			m2 -= (x - mean) * (x - mean2);
+			mean = mean2;
+			if (low)
+				lo = s->lo2;
+			else
+				hi = s->hi2;
+			*used = n - 1;
+			r->has_excluded = 1;
+			r->excluded_index = r->grubbs_index;
+			r->flags |= AL_FLAG_EXCLUDED;
+		}
+	}
+	al_stats_from_moments(*used, mean, m2 > 0 ? m2 : 0, opt->confidence,
+			      &r->stats);
+	r->range = hi - lo;
+}
+
 void
 al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	       double *scratch, al_group_result *r)
@@ -219,45 +264,53 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	unsigned why;
 	int range_exceeded = 0;
 
-	al_stats_summarise(r->values, n, opt->confidence, &r->stats);
-	if (n >= 3 && r->stats.has_sd) {
-		double g = al_grubbs_g(r->values, n, r->stats.mean, r->stats.sd,
-				       &r->grubbs_index);
+	if (in->stream) {
+		many_values(opt, in->stream, n, r, &used);
+	} else {
+		al_stats_summarise(r->values, n, opt->confidence, &r->stats);
+		if (n >= 3 && r->stats.has_sd) {
+			double g = al_grubbs_g(r->values, n, r->stats.mean,
+					       r->stats.sd, &r->grubbs_index);
 
-		r->has_grubbs = 1;
-		r->grubbs_g = g;
-		if (g > al_grubbs_critical(n, 0.01))
-			r->flags |= AL_FLAG_OUTLIER;
-		else if (g > al_grubbs_critical(n, 0.05))
-			r->flags |= AL_FLAG_STRAGGLER;
-	}
-	if (n >= 3 && n <= 10) {
-		r->has_dixon = 1;
-		r->dixon_q = al_dixon_q(r->values, n, &r->dixon_index);
-		if (r->dixon_q > al_dixon_critical(n, 0.95))
-			r->flags |= AL_FLAG_DIXON;
-	}
-	/* the values the result is made of: all, or all but an excluded
-	 * outlier (ISO 5725-2 keeps it in the record; so do we) */
-	for (size_t i = 0, k = 0; i < n; i++) {
-		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
-		    i == r->grubbs_index)
-			continue;
-		scratch[k++] = r->values[i];
-	}
-	if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
-		used = n - 1;
-		r->has_excluded = 1;
-		r->excluded_index = r->grubbs_index;
-		r->flags |= AL_FLAG_EXCLUDED;
-		al_stats_summarise(scratch, used, opt->confidence, &r->stats);
-	}
-	if (used > 0) {
-		gsl_sort(scratch, 1, used);
-		r->median = gsl_stats_median_from_sorted_data(scratch, 1, used);
-		lo = scratch[0];
-		hi = scratch[used - 1];
-		r->range = hi - lo;
+			r->has_grubbs = 1;
+			r->grubbs_g = g;
+			if (g > al_grubbs_critical(n, 0.01))
+				r->flags |= AL_FLAG_OUTLIER;
+			else if (g > al_grubbs_critical(n, 0.05))
+				r->flags |= AL_FLAG_STRAGGLER;
+		}
+		if (n >= 3 && n <= 10) {
+			r->has_dixon = 1;
+			r->dixon_q = al_dixon_q(r->values, n, &r->dixon_index);
+			if (r->dixon_q > al_dixon_critical(n, 0.95))
+				r->flags |= AL_FLAG_DIXON;
+		}
+		/* the values the result is made of: all, or all but an
+		 * excluded outlier (ISO 5725-2 keeps it in the record; so do
+		 * we) */
+		for (size_t i = 0, k = 0; i < n; i++) {
+			if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
+			    i == r->grubbs_index)
+				continue;
+			scratch[k++] = r->values[i];
+		}
+		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+			used = n - 1;
+			r->has_excluded = 1;
+			r->excluded_index = r->grubbs_index;
+			r->flags |= AL_FLAG_EXCLUDED;
+			al_stats_summarise(scratch, used, opt->confidence,
+					   &r->stats);
+		}
+		if (used > 0) {
+			gsl_sort(scratch, 1, used);
+			r->has_median = 1;
+			r->median = gsl_stats_median_from_sorted_data(scratch, 1,
+								      used);
+			lo = scratch[0];
+			hi = scratch[used - 1];
+			r->range = hi - lo;
+		}
 	}
 	if (r->spec && r->spec->has_sr && used >= 2) {
 		r->has_critical_range = 1;
@@ -293,60 +346,54 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	other_limits(r);
 }
 
-/* Sorting results by product, then n, groups each product's results
+/* Sorting the entries by product, then n, groups each product's results
  * of the same n together: O(N log N) for any number of results. */
-static const al_group_result *sort_base;
+static const char *(*sort_product)(const void *, size_t);
+static const void *sort_ctx;
 
 static int
 by_product_n(const void *a, const void *b)
 {
-	const al_group_result *x = &sort_base[*(const size_t *)a];
-	const al_group_result *y = &sort_base[*(const size_t *)b];
-	int c = strcmp(x->product, y->product);
+	const al_cochran_entry *x = a, *y = b;
+	int c = strcmp(sort_product(sort_ctx, x->group),
+		       sort_product(sort_ctx, y->group));
 
 	if (c != 0)
 		return c;
-	if (x->stats.n != y->stats.n)
-		return x->stats.n < y->stats.n ? -1 : 1;
-	return *(const size_t *)a < *(const size_t *)b ? -1 : 1;
+	if (x->n != y->n)
+		return x->n < y->n ? -1 : 1;
+	return x->group < y->group ? -1 : 1;
 }
 
 al_cochran *
-al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
-		int *oom)
+al_eval_cochran(al_cochran_entry *e, size_t m,
+		const char *(*product_of)(const void *, size_t),
+		const void *ctx, size_t *n_out, int *oom)
 {
 	al_cochran *out = NULL;
-	size_t n_found = 0, m = 0;
+	size_t n_found = 0;
 	double *var = NULL;
-	size_t *idx = NULL;
 
 	*n_out = 0;
 	*oom = 0;
-	if (count < 2)
+	if (m < 2)
 		return NULL;
-	var = al_malloc(count * sizeof *var);
-	idx = al_malloc(count * sizeof *idx);
-	if (var == NULL || idx == NULL)
-		goto nomem;
-	for (size_t i = 0; i < count; i++)
-		if (results[i].stats.has_sd)
-			idx[m++] = i;
-	sort_base = results;
-	qsort(idx, m, sizeof *idx, by_product_n);
+	sort_product = product_of;
+	sort_ctx = ctx;
+	qsort(e, m, sizeof *e, by_product_n);
 	for (size_t start = 0; start < m;) {
-		const char *product = results[idx[start]].product;
+		const char *product = product_of(ctx, e[start].group);
 		size_t end = start, best_from = start, best_len = 0, at;
 		al_cochran *grown;
 		double c;
 
-		while (end < m && strcmp(results[idx[end]].product, product) == 0)
+		while (end < m && strcmp(product_of(ctx, e[end].group), product) == 0)
 			end++;
 		/* the modal n (the larger on a tie): runs of equal n */
 		for (size_t a = start; a < end;) {
 			size_t b = a;
 
-			while (b < end &&
-			       results[idx[b]].stats.n == results[idx[a]].stats.n)
+			while (b < end && e[b].n == e[a].n)
 				b++;
 			if (b - a >= best_len) {
 				best_len = b - a;
@@ -357,11 +404,16 @@ al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
 		start = end;
 		if (best_len < 2)
 			continue;
-		for (size_t k = 0; k < best_len; k++) {
-			const al_summary *st = &results[idx[best_from + k]].stats;
+		{
+			double *grown_var =
+				al_realloc(var, best_len * sizeof *grown_var);
 
-			var[k] = st->sd * st->sd;
+			if (grown_var == NULL)
+				goto nomem;
+			var = grown_var;
 		}
+		for (size_t k = 0; k < best_len; k++)
+			var[k] = e[best_from + k].variance;
 		c = al_cochran_c(var, best_len, &at);
 		grown = al_realloc(out, (n_found + 1) * sizeof *grown);
 		if (grown == NULL)
@@ -369,26 +421,20 @@ al_eval_cochran(al_group_result *results, size_t count, size_t *n_out,
 		out = grown;
 		out[n_found].product = product;
 		out[n_found].l = best_len;
-		out[n_found].n = results[idx[best_from]].stats.n;
+		out[n_found].n = e[best_from].n;
 		out[n_found].c = c;
 		out[n_found].crit5 = al_cochran_critical(best_len, out[n_found].n,
 							 0.05);
 		out[n_found].crit1 = al_cochran_critical(best_len, out[n_found].n,
 							 0.01);
-		out[n_found].result = idx[best_from + at];
-		if (c > out[n_found].crit1)
-			results[out[n_found].result].flags |= AL_FLAG_COCHRAN_OUTLIER;
-		else if (c > out[n_found].crit5)
-			results[out[n_found].result].flags |= AL_FLAG_COCHRAN_STRAGGLER;
+		out[n_found].result = e[best_from + at].group;
 		n_found++;
 	}
 	al_free(var);
-	al_free(idx);
 	*n_out = n_found;
 	return out;
 nomem:
 	al_free(var);
-	al_free(idx);
 	al_free(out);
 	*oom = 1;
 	return NULL;

@@ -3,10 +3,21 @@
 #ifndef ACIDLOT_EVALUATE_H
 #define ACIDLOT_EVALUATE_H
 
+#include <stdint.h>
+
 #include "acidlot/assay.h"
+
+/* Running statistics of a result whose values were not all kept (more
+ * than AL_VALUES_KEPT): mean, sum of squared deviations, the two
+ * smallest and two largest values and the positions of the extremes. */
+typedef struct al_eval_stream {
+	double mean, m2, lo, lo2, hi, hi2;
+	size_t lo_i, hi_i;
+} al_eval_stream;
 
 /* Means of a result's inputs, for its uncertainty budget. */
 typedef struct al_eval_inputs {
+	const al_eval_stream *stream; /* NULL: r->values holds them all */
 	double titrant_ml, blank_ml, conc, amount, made_up_ml, aliquot_ml;
 	double conc_u;   /* mean standard uncertainty of the concentration */
 	int all_conc_u;  /* every row had one */
@@ -22,10 +33,20 @@ typedef struct al_eval_inputs {
 void al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 		    double *scratch, al_group_result *r);
 
-/* Cochran per product over results with the modal n; the caller owns the
- * returned array (count in *n); NULL with *n = 0 when none applies or
+/* A result with a standard deviation, for Cochran's test. */
+typedef struct al_cochran_entry {
+	double variance;
+	uint32_t group, n;
+} al_cochran_entry;
+
+/* Cochran per product over results with the modal n. product_of(ctx,
+ * group) names a result's product. The entries are reordered. The
+ * caller owns the returned array (count in *n), whose `result` is the
+ * group of the largest variance; NULL with *n = 0 when none applies or
  * memory runs out (then *oom is set). */
-al_cochran *al_eval_cochran(al_group_result *results, size_t count,
-			    size_t *n, int *oom);
+al_cochran *al_eval_cochran(al_cochran_entry *entries, size_t count,
+			    const char *(*product_of)(const void *ctx,
+						      size_t group),
+			    const void *ctx, size_t *n, int *oom);
 
 #endif

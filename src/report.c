@@ -229,7 +229,7 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
 		al_csv_put_field(out, flags, d);
-		number(out, r->stats.n > 0, r->median, dec, opt);
+		number(out, r->has_median, r->median, dec, opt);
 		/* screens are ratios: never rounded to the report's decimals */
 		number(out, r->has_grubbs, r->grubbs_g, -1, opt);
 		number(out, r->has_dixon, r->dixon_q, -1, opt);

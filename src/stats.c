@@ -16,6 +16,49 @@ al_stats_t_quantile(double p, double df)
 	return gsl_cdf_tdist_Pinv(p, df);
 }
 
+/* The interval's t for n values at `level`, remembered for small n:
+ * it depends only on them (PERF-NOTES.md). */
+static double
+t_for(double level, size_t n)
+{
+	static double at_level, cache[64];
+
+	if (n < 64 && level == at_level && cache[n] != 0)
+		return cache[n];
+	if (n < 64 && level != at_level) {
+		memset(cache, 0, sizeof cache);
+		at_level = level;
+	}
+	/* two-sided: the (1 + level)/2 quantile, 0.975 for 95 % */
+	double t = al_stats_t_quantile(0.5 + level / 2.0, (double)(n - 1));
+
+	if (n < 64)
+		cache[n] = t;
+	return t;
+}
+
+void
+al_stats_from_moments(size_t n, double mean, double m2, double level,
+		      al_summary *out)
+{
+	memset(out, 0, sizeof *out);
+	out->n = n;
+	if (n == 0)
+		return;
+	out->mean = mean;
+	if (n < 2)
+		return;
+	out->has_sd = 1;
+	out->sd = sqrt(m2 / (double)(n - 1));
+	if (out->mean != 0) {
+		out->has_rsd = 1;
+		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
+	}
+	out->t = t_for(level, n);
+	out->ci_low = out->mean - out->t * out->sd / sqrt((double)n);
+	out->ci_high = out->mean + out->t * out->sd / sqrt((double)n);
+}
+
 void
 al_stats_summarise(const double *x, size_t n, double level, al_summary *out)
 {
@@ -32,8 +75,7 @@ al_stats_summarise(const double *x, size_t n, double level, al_summary *out)
 		out->has_rsd = 1;
 		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
 	}
-	/* two-sided: the (1 + level)/2 quantile, 0.975 for 95 % */
-	out->t = al_stats_t_quantile(0.5 + level / 2.0, (double)(n - 1));
+	out->t = t_for(level, n);
 	out->ci_low = out->mean - out->t * out->sd / sqrt((double)n);
 	out->ci_high = out->mean + out->t * out->sd / sqrt((double)n);
 }

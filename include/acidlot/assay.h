@@ -107,8 +107,16 @@ enum {
 	AL_FLAG_WATER_HIGH = 1u << 23,   /* water above water_max */
 	AL_FLAG_NO_BRIX = 1u << 24,      /* Brix or water limits, no values */
 	AL_FLAG_DENSITY_BRIX = 1u << 25, /* density from Brix (NBS sucrose) */
-	AL_FLAG_BRIX_UNCORRECTED = 1u << 26 /* acid correction not applicable */
+	AL_FLAG_BRIX_UNCORRECTED = 1u << 26, /* acid correction not applicable */
+	AL_FLAG_MANY = 1u << 27          /* more than AL_VALUES_KEPT values:
+					    running statistics, no median */
 };
+
+/* A result keeps its replicate values up to this many; past it, mean,
+ * SD, Grubbs and range come from running sums (Welford) and there is no
+ * median and no Dixon test. No lab titrates a sample 64 times: a result
+ * that large is usually a sample identifier reused. */
+#define AL_VALUES_KEPT 64
 
 /* Plausibility limits: beyond them a value is possible but unusual, and
  * draws a warning (common practice for bench titrations with a 50 mL
@@ -146,9 +154,11 @@ typedef struct al_group_result {
 	unsigned flags;       /* AL_FLAG_ bits */
 	double endpoint_ph;   /* lowest endpoint pH among its rows, if flagged */
 	double endpoint_ph_needed;
-	const double *values; /* the replicate values, in input order */
+	const double *values; /* the replicate values, in input order; NULL
+				 with AL_FLAG_MANY */
 	size_t n_values;      /* all of them (stats.n leaves out an excluded
 				 outlier) */
+	int has_median;
 	double median;
 	int has_grubbs, has_dixon;
 	double grubbs_g, dixon_q;
@@ -214,12 +224,16 @@ al_status al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 			       const char *name, al_replicate_fn on_row,
 			       void *ud);
 
-/* Computes statistics, screens, uncertainty and verdicts for every group,
- * then hands the kept rows to on_row; call once, after the last read. */
+/* Computes statistics, screens, uncertainty and verdicts for every group
+ * (the counts and Cochran's tests), then hands the kept rows to on_row;
+ * call once, after the last read. */
 al_status al_assay_finish(al_assay *run);
 
 size_t al_assay_group_count(const al_assay *run);
-/* i-th result in order of first appearance; valid after finish. */
+/* i-th result in order of first appearance, after finish; NULL past the
+ * end. Results are evaluated when asked for, so that a run keeps none of
+ * them: the one returned belongs to the run and stays valid until the
+ * next call (copy it to keep it). */
 const al_group_result *al_assay_result(const al_assay *run, size_t i);
 al_assay_counts al_assay_get_counts(const al_assay *run);
 al_diags *al_assay_diags(al_assay *run);

@@ -21,6 +21,12 @@ typedef struct al_summary {
 void al_stats_summarise(const double *x, size_t n, double level,
 			al_summary *out);
 
+/* The same summary from running moments: n values, their mean and the
+ * sum of squared deviations from it (m2), as Welford's algorithm keeps
+ * them (Welford 1962; Knuth TAOCP vol. 2, 4.2.2). */
+void al_stats_from_moments(size_t n, double mean, double m2, double level,
+			   al_summary *out);
+
 /* Upper quantile of Student's t: the t with P(T <= t) = p, df degrees
  * of freedom (GSL gsl_cdf_tdist_Pinv). */
 double al_stats_t_quantile(double p, double df);
