@@ -99,7 +99,8 @@ struct al_assay {
 	size_t arena_len, arena_cap;
 	struct group *groups;
 	size_t n_groups, groups_cap;
-	uint32_t *slots; /* hash: group index + 1, 0 = empty */
+	uint32_t *slots; /* hash: SLOT_TAG bits of the key's hash over
+			    group index + 1; 0 = empty */
 	size_t n_slots;
 
 	char **files;
@@ -110,6 +111,10 @@ struct al_assay {
 	const al_acid *acids[255]; /* the acids of groups, by group->acid */
 	size_t n_acids;
 	uint32_t last_group; /* 1 + the group of the previous row */
+	const al_acid **acids_used; /* by the results, in their order */
+	size_t n_acids_used;
+	const al_spec **specs_used;
+	size_t n_specs_used;
 	int finished;
 
 	/* al_assay_result's one evaluated result */
@@ -197,6 +202,8 @@ al_assay_free(al_assay *run)
 	al_free(run->slots);
 	al_free(run->arena);
 	al_free(run->file_groups);
+	al_free((void *)run->acids_used);
+	al_free((void *)run->specs_used);
 	al_free(run->extras);
 	al_free(run->eval_scratch);
 	al_free(run->scratch);
@@ -295,6 +302,14 @@ group_hash(const al_assay *run, const struct group *g)
 			strlen(k + pl + ll + 2));
 }
 
+/* A slot holds 6 bits of the key's hash above the group's number, so
+ * that most probes settle without touching the group: up to 2^26 - 1
+ * groups (67 million results). */
+#define SLOT_BITS 26
+#define SLOT_INDEX(v) ((v) & ((1u << SLOT_BITS) - 1))
+#define SLOT_TAG(h) ((uint32_t)((h) >> 58) << SLOT_BITS)
+#define MAX_GROUPS ((1u << SLOT_BITS) - 1)
+
 static al_status
 rehash(al_assay *run)
 {
@@ -304,11 +319,12 @@ rehash(al_assay *run)
 	if (slots == NULL)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < run->n_groups; i++) {
-		size_t j = (size_t)group_hash(run, &run->groups[i]) & (n - 1);
+		uint64_t h = group_hash(run, &run->groups[i]);
+		size_t j = (size_t)h & (n - 1);
 
 		while (slots[j])
 			j = (j + 1) & (n - 1);
-		slots[j] = (uint32_t)(i + 1);
+		slots[j] = SLOT_TAG(h) | (uint32_t)(i + 1);
 	}
 	al_free(run->slots);
 	run->slots = slots;
@@ -336,21 +352,25 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	}
 	/* linear probing at a load of at most 0.7 */
 	if (run->n_slots == 0 || 10 * (run->n_groups + 1) > 7 * run->n_slots) {
-		if (run->n_groups >= UINT32_MAX / 2)
-			return AL_ENOMEM;
 		if (rehash(run) != AL_OK)
 			return AL_ENOMEM;
 	}
 	h = key_hash(p, pl, l, ll, s, sl);
 	for (j = (size_t)h & (run->n_slots - 1); run->slots[j];
 	     j = (j + 1) & (run->n_slots - 1)) {
-		g = &run->groups[run->slots[j] - 1];
+		uint32_t v = run->slots[j];
+
+		if ((v & ~((1u << SLOT_BITS) - 1)) != SLOT_TAG(h))
+			continue;
+		g = &run->groups[SLOT_INDEX(v) - 1];
 		if (group_is(run, g, p, pl, l, ll, s, sl)) {
-			run->last_group = run->slots[j];
+			run->last_group = SLOT_INDEX(v);
 			*out = g;
 			return AL_OK;
 		}
 	}
+	if (run->n_groups >= MAX_GROUPS)
+		return AL_ENOMEM;
 	need = pl + ll + sl + 3;
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
@@ -385,7 +405,7 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	memcpy(run->arena + run->arena_len + pl + ll + 2, s, sl);
 	run->arena[run->arena_len + pl + ll + 2 + sl] = '\0';
 	run->arena_len += need;
-	run->slots[j] = (uint32_t)(run->n_groups + 1);
+	run->slots[j] = SLOT_TAG(h) | (uint32_t)(run->n_groups + 1);
 	run->n_groups++;
 	run->last_group = (uint32_t)run->n_groups;
 	*out = g;
@@ -1520,52 +1540,65 @@ evaluate(al_assay *run, size_t i, al_group_result *r)
 	}
 }
 
-static const char *
-product_of(const void *ctx, size_t group)
+/* Adds an item to a short list of pointers in order of first
+ * appearance; 0, or -1 when memory runs out. */
+static int
+note_used(const void ***list, size_t *n, const void *item)
 {
-	const al_assay *run = ctx;
+	const void **grown;
 
-	return run->arena + run->groups[group].key;
+	if (item == NULL || (*n > 0 && (*list)[*n - 1] == item))
+		return 0;
+	for (size_t i = 0; i < *n; i++)
+		if ((*list)[i] == item)
+			return 0;
+	grown = al_realloc((void *)*list, (*n + 1) * sizeof *grown);
+	if (grown == NULL)
+		return -1;
+	grown[(*n)++] = item;
+	*list = grown;
+	return 0;
 }
 
 al_status
 al_assay_finish(al_assay *run)
 {
-	al_cochran_entry *entries;
-	size_t n_entries = 0;
-	int oom;
+	al_cochran_acc *acc;
+	int oom = 0;
 
-	/* the key index is not needed any more: its memory goes to the
-	 * Cochran entries */
+	/* the key index is not needed any more */
 	al_free(run->slots);
 	run->slots = NULL;
 	run->n_slots = 0;
 	run->last_group = 0;
 	run->eval_scratch = al_malloc(AL_VALUES_KEPT * sizeof *run->eval_scratch);
-	entries = al_malloc((run->n_groups ? run->n_groups : 1) * sizeof *entries);
-	if (run->eval_scratch == NULL || entries == NULL) {
-		al_free(entries);
+	acc = al_cochran_acc_new();
+	if (run->eval_scratch == NULL || acc == NULL) {
+		al_cochran_acc_free(acc);
 		return AL_ENOMEM;
 	}
 	run->finished = 1;
 	run->cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
-	for (size_t i = 0; i < run->n_groups; i++) {
+	for (size_t i = 0; i < run->n_groups && !oom; i++) {
 		al_group_result *r = &run->cur;
 
 		evaluate(run, i, r);
-		if (r->stats.has_sd) {
-			entries[n_entries].variance = r->stats.sd * r->stats.sd;
-			entries[n_entries].group = (uint32_t)i;
-			entries[n_entries].n = (uint32_t)r->stats.n;
-			n_entries++;
-		}
+		if (r->stats.has_sd &&
+		    al_cochran_acc_add(acc, r->product, r->stats.n,
+				       r->stats.sd * r->stats.sd, i) != 0)
+			oom = 1;
+		if (note_used((const void ***)&run->acids_used,
+			      &run->n_acids_used, r->acid) != 0 ||
+		    note_used((const void ***)&run->specs_used,
+			      &run->n_specs_used, r->spec) != 0)
+			oom = 1;
 		run->groups[i].verdict = (uint8_t)r->verdict;
 	}
-	run->cochran = al_eval_cochran(entries, n_entries, product_of, run,
-				       &run->n_cochran, &oom);
-	al_free(entries);
+	if (!oom)
+		run->cochran = al_cochran_acc_finish(acc, &run->n_cochran, &oom);
+	al_cochran_acc_free(acc);
 	if (oom)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < run->n_cochran; i++) {
@@ -1580,6 +1613,18 @@ al_assay_finish(al_assay *run)
 		run->counts.by_verdict[run->groups[i].verdict]++;
 	run->cur_index = 0;
 	return run->on_row ? replay_rows(run) : AL_OK;
+}
+
+const al_acid *
+al_assay_acid_used(const al_assay *run, size_t i)
+{
+	return i < run->n_acids_used ? run->acids_used[i] : NULL;
+}
+
+const al_spec *
+al_assay_spec_used(const al_assay *run, size_t i)
+{
+	return i < run->n_specs_used ? run->specs_used[i] : NULL;
 }
 
 size_t

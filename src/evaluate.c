@@ -346,95 +346,185 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	other_limits(r);
 }
 
-/* Sorting the entries by product, then n, groups each product's results
- * of the same n together: O(N log N) for any number of results. */
-static const char *(*sort_product)(const void *, size_t);
-static const void *sort_ctx;
+struct cochran_cell {
+	const char *product;
+	uint64_t hash;
+	size_t n, count, first, best_result;
+	double sum, best;
+};
+
+struct al_cochran_acc {
+	struct cochran_cell *cells;
+	size_t n_cells, cap_cells;
+	uint32_t *slots; /* 1 + cell, 0 empty */
+	size_t n_slots;
+	size_t last; /* 1 + the cell of the previous result */
+};
+
+al_cochran_acc *
+al_cochran_acc_new(void)
+{
+	return al_calloc(1, sizeof(al_cochran_acc));
+}
+
+void
+al_cochran_acc_free(al_cochran_acc *acc)
+{
+	if (acc == NULL)
+		return;
+	al_free(acc->cells);
+	al_free(acc->slots);
+	al_free(acc);
+}
+
+static uint64_t
+cell_hash(const char *product, size_t n)
+{
+	uint64_t h = 14695981039346656037ULL;
+
+	for (; *product; product++) {
+		h ^= (unsigned char)*product;
+		h *= 1099511628211ULL;
+	}
+	return (h ^ n) * 1099511628211ULL;
+}
+
+static int
+cell_regrow(al_cochran_acc *acc)
+{
+	size_t n = acc->n_slots ? 2 * acc->n_slots : 64;
+	uint32_t *slots = al_calloc(n, sizeof *slots);
+
+	if (slots == NULL)
+		return -1;
+	for (size_t i = 0; i < acc->n_cells; i++) {
+		size_t j = (size_t)acc->cells[i].hash & (n - 1);
+
+		while (slots[j])
+			j = (j + 1) & (n - 1);
+		slots[j] = (uint32_t)(i + 1);
+	}
+	al_free(acc->slots);
+	acc->slots = slots;
+	acc->n_slots = n;
+	return 0;
+}
+
+int
+al_cochran_acc_add(al_cochran_acc *acc, const char *product, size_t n,
+		   double variance, size_t result)
+{
+	struct cochran_cell *c = NULL;
+
+	if (acc->last) {
+		c = &acc->cells[acc->last - 1];
+		if (c->n != n || strcmp(c->product, product) != 0)
+			c = NULL;
+	}
+	if (c == NULL) {
+		uint64_t h = cell_hash(product, n);
+		size_t j;
+
+		if (2 * (acc->n_cells + 1) > acc->n_slots && cell_regrow(acc))
+			return -1;
+		for (j = (size_t)h & (acc->n_slots - 1); acc->slots[j];
+		     j = (j + 1) & (acc->n_slots - 1)) {
+			struct cochran_cell *x = &acc->cells[acc->slots[j] - 1];
+
+			if (x->hash == h && x->n == n &&
+			    strcmp(x->product, product) == 0) {
+				c = x;
+				break;
+			}
+		}
+		if (c == NULL) {
+			if (acc->n_cells == UINT32_MAX - 1)
+				return -1;
+			if (acc->n_cells == acc->cap_cells) {
+				size_t cap = acc->cap_cells ? 2 * acc->cap_cells : 16;
+				struct cochran_cell *grown =
+					al_realloc(acc->cells, cap * sizeof *grown);
+
+				if (grown == NULL)
+					return -1;
+				acc->cells = grown;
+				acc->cap_cells = cap;
+			}
+			c = &acc->cells[acc->n_cells++];
+			memset(c, 0, sizeof *c);
+			c->product = product;
+			c->hash = h;
+			c->n = n;
+			c->first = c->best_result = result;
+			acc->slots[j] = (uint32_t)acc->n_cells;
+		}
+		acc->last = (size_t)(c - acc->cells) + 1;
+	}
+	/* as al_cochran_c over the variances in result order */
+	c->sum += variance;
+	if (variance > c->best) {
+		c->best = variance;
+		c->best_result = result;
+	}
+	c->count++;
+	return 0;
+}
 
 static int
 by_product_n(const void *a, const void *b)
 {
-	const al_cochran_entry *x = a, *y = b;
-	int c = strcmp(sort_product(sort_ctx, x->group),
-		       sort_product(sort_ctx, y->group));
+	const struct cochran_cell *x = a, *y = b;
+	int c = strcmp(x->product, y->product);
 
 	if (c != 0)
 		return c;
-	if (x->n != y->n)
-		return x->n < y->n ? -1 : 1;
-	return x->group < y->group ? -1 : 1;
+	return x->n < y->n ? -1 : x->n > y->n;
 }
 
 al_cochran *
-al_eval_cochran(al_cochran_entry *e, size_t m,
-		const char *(*product_of)(const void *, size_t),
-		const void *ctx, size_t *n_out, int *oom)
+al_cochran_acc_finish(al_cochran_acc *acc, size_t *n_out, int *oom)
 {
 	al_cochran *out = NULL;
-	size_t n_found = 0;
-	double *var = NULL;
+	size_t n_found = 0, m = acc->n_cells;
+	struct cochran_cell *e = acc->cells;
 
 	*n_out = 0;
 	*oom = 0;
-	if (m < 2)
+	if (m == 0)
 		return NULL;
-	sort_product = product_of;
-	sort_ctx = ctx;
 	qsort(e, m, sizeof *e, by_product_n);
+	acc->last = 0; /* the cells moved */
 	for (size_t start = 0; start < m;) {
-		const char *product = product_of(ctx, e[start].group);
-		size_t end = start, best_from = start, best_len = 0, at;
+		size_t end = start, best = start;
+		const struct cochran_cell *c;
 		al_cochran *grown;
-		double c;
 
-		while (end < m && strcmp(product_of(ctx, e[end].group), product) == 0)
+		while (end < m && strcmp(e[end].product, e[start].product) == 0)
 			end++;
-		/* the modal n (the larger on a tie): runs of equal n */
-		for (size_t a = start; a < end;) {
-			size_t b = a;
-
-			while (b < end && e[b].n == e[a].n)
-				b++;
-			if (b - a >= best_len) {
-				best_len = b - a;
-				best_from = a;
-			}
-			a = b;
-		}
+		/* the modal n, the larger on a tie (cells in increasing n) */
+		for (size_t a = start; a < end; a++)
+			if (e[a].count >= e[best].count)
+				best = a;
 		start = end;
-		if (best_len < 2)
+		c = &e[best];
+		if (c->count < 2)
 			continue;
-		{
-			double *grown_var =
-				al_realloc(var, best_len * sizeof *grown_var);
-
-			if (grown_var == NULL)
-				goto nomem;
-			var = grown_var;
-		}
-		for (size_t k = 0; k < best_len; k++)
-			var[k] = e[best_from + k].variance;
-		c = al_cochran_c(var, best_len, &at);
 		grown = al_realloc(out, (n_found + 1) * sizeof *grown);
 		if (grown == NULL)
 			goto nomem;
 		out = grown;
-		out[n_found].product = product;
-		out[n_found].l = best_len;
-		out[n_found].n = e[best_from].n;
-		out[n_found].c = c;
-		out[n_found].crit5 = al_cochran_critical(best_len, out[n_found].n,
-							 0.05);
-		out[n_found].crit1 = al_cochran_critical(best_len, out[n_found].n,
-							 0.01);
-		out[n_found].result = e[best_from + at].group;
+		out[n_found].product = c->product;
+		out[n_found].l = c->count;
+		out[n_found].n = c->n;
+		out[n_found].c = c->sum > 0 ? c->best / c->sum : 0;
+		out[n_found].crit5 = al_cochran_critical(c->count, c->n, 0.05);
+		out[n_found].crit1 = al_cochran_critical(c->count, c->n, 0.01);
+		out[n_found].result = c->sum > 0 ? c->best_result : c->first;
 		n_found++;
 	}
-	al_free(var);
 	*n_out = n_found;
 	return out;
 nomem:
-	al_free(var);
 	al_free(out);
 	*oom = 1;
 	return NULL;

@@ -33,20 +33,21 @@ typedef struct al_eval_inputs {
 void al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 		    double *scratch, al_group_result *r);
 
-/* A result with a standard deviation, for Cochran's test. */
-typedef struct al_cochran_entry {
-	double variance;
-	uint32_t group, n;
-} al_cochran_entry;
+/* Cochran's test per product over its results with the modal n (the
+ * larger n on a tie), accumulated result by result: per (product, n)
+ * the count, the sum of the variances in result order and the largest
+ * variance (the first, on a tie), so that no per-result list is kept.
+ * Products must stay valid strings until finish. */
+typedef struct al_cochran_acc al_cochran_acc;
 
-/* Cochran per product over results with the modal n. product_of(ctx,
- * group) names a result's product. The entries are reordered. The
- * caller owns the returned array (count in *n), whose `result` is the
- * group of the largest variance; NULL with *n = 0 when none applies or
- * memory runs out (then *oom is set). */
-al_cochran *al_eval_cochran(al_cochran_entry *entries, size_t count,
-			    const char *(*product_of)(const void *ctx,
-						      size_t group),
-			    const void *ctx, size_t *n, int *oom);
+al_cochran_acc *al_cochran_acc_new(void);
+void al_cochran_acc_free(al_cochran_acc *acc);
+/* 0, or -1 when memory runs out. */
+int al_cochran_acc_add(al_cochran_acc *acc, const char *product, size_t n,
+		       double variance, size_t result);
+/* The tests, products in strcmp order; the caller owns the array (count
+ * in *n); NULL with *n = 0 when none applies or memory runs out (then
+ * *oom is set). */
+al_cochran *al_cochran_acc_finish(al_cochran_acc *acc, size_t *n, int *oom);
 
 #endif

@@ -77,6 +77,8 @@ al_outfile_open(const char *path, al_status *status)
 		errno = saved;
 		goto io;
 	}
+	/* large writes: a report of millions of lines */
+	setvbuf(f->stream, NULL, _IOFBF, 1 << 18);
 	*status = AL_OK;
 	return f;
 io:

@@ -117,83 +117,182 @@ al_format_number(double v, int decimals, int decimal_comma, char *buf,
 		*p = ',';
 }
 
-static int
-put_quoted(FILE *out, const char *s, size_t len, char delimiter, int prefix)
-{
-	int quote = 0;
+/* Output through one buffer of our own: a report line is dozens of
+ * small pieces, and stdio's per-call locking costs more than the bytes.
+ * Write errors show in ferror(out), checked once at the end. */
+struct sink {
+	FILE *out;
+	size_t len;
+	char buf[1 << 16];
+};
 
-	for (size_t i = 0; i < len; i++)
-		if (s[i] == delimiter || s[i] == '"' || s[i] == '\r' ||
-		    s[i] == '\n')
-			quote = 1;
-	if (quote && putc('"', out) == EOF)
-		return EOF;
-	if (prefix && putc('\'', out) == EOF)
-		return EOF;
-	for (size_t i = 0; i < len; i++) {
-		if (s[i] == '"' && putc('"', out) == EOF)
-			return EOF;
-		if (putc(s[i], out) == EOF)
-			return EOF;
+static void
+sink_flush(struct sink *k)
+{
+	if (k->len)
+		fwrite(k->buf, 1, k->len, k->out);
+	k->len = 0;
+}
+
+static void
+sink_put(struct sink *k, const char *s, size_t n)
+{
+	if (n > sizeof k->buf - k->len) {
+		sink_flush(k);
+		if (n >= sizeof k->buf) {
+			fwrite(s, 1, n, k->out);
+			return;
+		}
 	}
-	return quote && putc('"', out) == EOF ? EOF : 0;
+	memcpy(k->buf + k->len, s, n);
+	k->len += n;
 }
 
-int
-al_csv_put_field(FILE *out, const char *s, char delimiter)
+static void
+sink_char(struct sink *k, char c)
 {
-	return put_quoted(out, s, strlen(s), delimiter ? delimiter : ',', 0);
+	if (k->len == sizeof k->buf)
+		sink_flush(k);
+	k->buf[k->len++] = c;
 }
 
-int
-al_csv_put_text(FILE *out, const char *s, size_t len, al_report_options *opt)
+static void
+sink_str(struct sink *k, const char *s)
+{
+	sink_put(k, s, strlen(s));
+}
+
+static void
+sink_ulong(struct sink *k, unsigned long v)
+{
+	char tmp[24];
+	size_t i = sizeof tmp;
+
+	do {
+		tmp[--i] = (char)('0' + v % 10);
+		v /= 10;
+	} while (v);
+	sink_put(k, tmp + i, sizeof tmp - i);
+}
+
+static void
+put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
+	   int prefix)
+{
+	int quote = 0, quotes = 0;
+
+	for (size_t i = 0; i < len; i++) {
+		if (s[i] == delimiter || s[i] == '\r' || s[i] == '\n')
+			quote = 1;
+		else if (s[i] == '"')
+			quote = quotes = 1;
+	}
+	if (quote)
+		sink_char(k, '"');
+	if (prefix)
+		sink_char(k, '\'');
+	if (!quotes)
+		sink_put(k, s, len);
+	else
+		for (size_t i = 0; i < len; i++) {
+			if (s[i] == '"')
+				sink_char(k, '"');
+			sink_char(k, s[i]);
+		}
+	if (quote)
+		sink_char(k, '"');
+}
+
+static void
+put_text(struct sink *k, const char *s, size_t len, al_report_options *opt)
 {
 	int guard = len > 0 && !opt->raw_text && strchr("=+-@\t\r", s[0]);
 
 	if (guard)
 		opt->guarded++;
-	return put_quoted(out, s, len, delim_of(opt), guard);
+	put_quoted(k, s, len, delim_of(opt), guard);
 }
 
-static void
-text(FILE *out, const char *s, al_report_options *opt)
+int
+al_csv_put_field(FILE *out, const char *s, char delimiter)
 {
-	putc(delim_of(opt), out);
-	al_csv_put_text(out, s, strlen(s), opt);
+	struct sink k;
+
+	k.out = out;
+	k.len = 0;
+	put_quoted(&k, s, strlen(s), delimiter ? delimiter : ',', 0);
+	sink_flush(&k);
+	return ferror(out) ? EOF : 0;
+}
+
+int
+al_csv_put_text(FILE *out, const char *s, size_t len, al_report_options *opt)
+{
+	struct sink k;
+
+	k.out = out;
+	k.len = 0;
+	put_text(&k, s, len, opt);
+	sink_flush(&k);
+	return ferror(out) ? EOF : 0;
 }
 
 static void
-number(FILE *out, int defined, double v, int decimals,
+text(struct sink *k, const char *s, al_report_options *opt)
+{
+	sink_char(k, delim_of(opt));
+	put_text(k, s, strlen(s), opt);
+}
+
+static void
+field(struct sink *k, const char *s, char d)
+{
+	sink_char(k, d);
+	put_quoted(k, s, strlen(s), d, 0);
+}
+
+static void
+number(struct sink *k, int defined, double v, int decimals,
        const al_report_options *opt)
 {
 	char buf[64];
 
-	putc(delim_of(opt), out);
+	sink_char(k, delim_of(opt));
 	if (!defined)
 		return;
 	al_format_number(v, decimals, opt->decimal_comma, buf, sizeof buf);
-	fputs(buf, out);
+	sink_str(k, buf);
 }
 
 /* A header line from comma-separated names, in the delimiter asked for. */
 static void
-header(FILE *out, const char *names, const al_report_options *opt)
+header(struct sink *k, const char *names, const al_report_options *opt)
 {
 	if (opt->bom)
-		fputs("\xEF\xBB\xBF", out);
+		sink_str(k, "\xEF\xBB\xBF");
 	for (; *names; names++)
-		putc(*names == ',' ? delim_of(opt) : *names, out);
-	putc('\n', out);
+		sink_char(k, *names == ',' ? delim_of(opt) : *names);
+	sink_char(k, '\n');
+}
+
+static al_status
+done(struct sink *k)
+{
+	sink_flush(k);
+	return ferror(k->out) ? AL_EIO : AL_OK;
 }
 
 al_status
 al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
+	static struct sink k; /* 64 KiB: off the stack */
 	size_t n = al_assay_group_count(run);
 	int dec = opt->decimals;
 	char d = delim_of(opt);
 
-	header(out,
+	k.out = out;
+	k.len = 0;
+	header(&k,
 	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
 				"flags,median,grubbs_g,dixon_q,range,"
@@ -210,82 +309,100 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 		const al_spec *sp = r->spec;
 		char flags[512];
 
-		al_csv_put_text(out, r->product, strlen(r->product), opt);
-		text(out, r->lot, opt);
-		text(out, r->sample, opt);
-		putc(d, out);
-		al_csv_put_field(out, r->acid->name, d);
-		putc(d, out);
-		al_csv_put_field(out, al_unit_name(r->unit), d);
-		fprintf(out, "%c%zu", d, r->stats.n);
-		number(out, r->stats.n > 0, r->stats.mean, dec, opt);
-		number(out, r->stats.has_sd, r->stats.sd, dec, opt);
-		number(out, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
-		number(out, r->stats.has_sd, r->stats.ci_low, dec, opt);
-		number(out, r->stats.has_sd, r->stats.ci_high, dec, opt);
-		number(out, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
-		number(out, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
-		fprintf(out, "%c%s%c", d, al_verdict_name(r->verdict), d);
+		put_text(&k, r->product, strlen(r->product), opt);
+		text(&k, r->lot, opt);
+		text(&k, r->sample, opt);
+		field(&k, r->acid->name, d);
+		field(&k, al_unit_name(r->unit), d);
+		sink_char(&k, d);
+		sink_ulong(&k, (unsigned long)r->stats.n);
+		number(&k, r->stats.n > 0, r->stats.mean, dec, opt);
+		number(&k, r->stats.has_sd, r->stats.sd, dec, opt);
+		number(&k, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
+		number(&k, r->stats.has_sd, r->stats.ci_low, dec, opt);
+		number(&k, r->stats.has_sd, r->stats.ci_high, dec, opt);
+		number(&k, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
+		number(&k, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
+		sink_char(&k, d);
+		sink_str(&k, al_verdict_name(r->verdict));
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
-		al_csv_put_field(out, flags, d);
-		number(out, r->has_median, r->median, dec, opt);
+		field(&k, flags, d);
+		number(&k, r->has_median, r->median, dec, opt);
 		/* screens are ratios: never rounded to the report's decimals */
-		number(out, r->has_grubbs, r->grubbs_g, -1, opt);
-		number(out, r->has_dixon, r->dixon_q, -1, opt);
-		number(out, r->stats.n > 1, r->range, dec, opt);
-		number(out, r->has_critical_range, r->critical_range, dec, opt);
-		number(out, r->has_horrat, r->horrat, -1, opt);
-		number(out, r->has_u, r->u, -1, opt);
-		number(out, r->has_u, r->U, -1, opt);
-		number(out, r->has_u, r->k, -1, opt);
-		number(out, r->has_brix, r->brix, -1, opt);
-		number(out, r->has_brix_corrected, r->brix_corrected, -1, opt);
-		number(out, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
-		number(out, r->has_water, r->water_pct, -1, opt);
-		fprintf(out, "%c%s", d, r->anhydrous ? "anhydrous" : "as-is");
-		if (opt->report_id)
-			fprintf(out, "%c%s-%04zu", d, opt->report_id, i + 1);
-		putc('\n', out);
+		number(&k, r->has_grubbs, r->grubbs_g, -1, opt);
+		number(&k, r->has_dixon, r->dixon_q, -1, opt);
+		number(&k, r->stats.n > 1, r->range, dec, opt);
+		number(&k, r->has_critical_range, r->critical_range, dec, opt);
+		number(&k, r->has_horrat, r->horrat, -1, opt);
+		number(&k, r->has_u, r->u, -1, opt);
+		number(&k, r->has_u, r->U, -1, opt);
+		number(&k, r->has_u, r->k, -1, opt);
+		number(&k, r->has_brix, r->brix, -1, opt);
+		number(&k, r->has_brix_corrected, r->brix_corrected, -1, opt);
+		number(&k, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
+		number(&k, r->has_water, r->water_pct, -1, opt);
+		sink_char(&k, d);
+		sink_str(&k, r->anhydrous ? "anhydrous" : "as-is");
+		if (opt->report_id) {
+			char id[64];
+
+			snprintf(id, sizeof id, "%c%s-%04zu", d, opt->report_id,
+				 i + 1);
+			sink_str(&k, id);
+		}
+		sink_char(&k, '\n');
 	}
-	return ferror(out) ? AL_EIO : AL_OK;
+	return done(&k);
 }
 
 al_status
 al_replicates_header(FILE *out, al_report_options *opt)
 {
-	header(out, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
+	struct sink k;
+
+	k.out = out;
+	k.len = 0;
+	header(&k, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
 	       opt);
-	return ferror(out) ? AL_EIO : AL_OK;
+	return done(&k);
 }
 
 al_status
 al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 {
 	char flags[256], d = delim_of(opt);
+	struct sink k;
 
-	al_csv_put_text(out, rep->file, strlen(rep->file), opt);
-	fprintf(out, "%c%lu", d, rep->line);
-	text(out, rep->product, opt);
-	text(out, rep->lot, opt);
-	text(out, rep->sample, opt);
-	text(out, rep->replicate, opt);
+	k.out = out;
+	k.len = 0;
+	put_text(&k, rep->file, strlen(rep->file), opt);
+	sink_char(&k, d);
+	sink_ulong(&k, rep->line);
+	text(&k, rep->product, opt);
+	text(&k, rep->lot, opt);
+	text(&k, rep->sample, opt);
+	text(&k, rep->replicate, opt);
 	/* meq keeps full digits: it is the raw amount titrated */
-	number(out, 1, rep->meq, -1, opt);
-	number(out, 1, rep->value, opt->decimals, opt);
-	fprintf(out, "%c%s%c", d, al_unit_name(rep->unit), d);
+	number(&k, 1, rep->meq, -1, opt);
+	number(&k, 1, rep->value, opt->decimals, opt);
+	field(&k, al_unit_name(rep->unit), d);
 	al_flags_format(rep->flags, rep->endpoint_ph_needed, flags,
 			sizeof flags);
-	al_csv_put_field(out, flags, d);
-	putc('\n', out);
-	return ferror(out) ? AL_EIO : AL_OK;
+	field(&k, flags, d);
+	sink_char(&k, '\n');
+	return done(&k);
 }
 
 al_status
 al_rejects_header(FILE *out, al_report_options *opt)
 {
-	header(out, "file,line,reason,record", opt);
-	return ferror(out) ? AL_EIO : AL_OK;
+	struct sink k;
+
+	k.out = out;
+	k.len = 0;
+	header(&k, "file,line,reason,record", opt);
+	return done(&k);
 }
 
 al_status
@@ -294,24 +411,31 @@ al_rejects_row(FILE *out, const char *file, unsigned long line,
 	       al_report_options *opt)
 {
 	char d = delim_of(opt);
+	struct sink k;
 
-	al_csv_put_text(out, file, strlen(file), opt);
-	fprintf(out, "%c%lu%c", d, line, d);
-	al_csv_put_field(out, reason, d);
-	putc(d, out);
+	k.out = out;
+	k.len = 0;
+	put_text(&k, file, strlen(file), opt);
+	sink_char(&k, d);
+	sink_ulong(&k, line);
+	field(&k, reason, d);
+	sink_char(&k, d);
 	/* the record as read, in one field; guarded like any text copied
 	 * from the input unless raw_text */
-	al_csv_put_text(out, raw, raw_len, opt);
-	putc('\n', out);
-	return ferror(out) ? AL_EIO : AL_OK;
+	put_text(&k, raw, raw_len, opt);
+	sink_char(&k, '\n');
+	return done(&k);
 }
 
 al_status
 al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
+	static struct sink k;
 	char d = delim_of(opt);
 
-	header(out,
+	k.out = out;
+	k.len = 0;
+	header(&k,
 	       "product,lot,sample,component,value,unit,standard_uncertainty,"
 	       "sensitivity,contribution,share_pct",
 	       opt);
@@ -321,23 +445,23 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 		for (size_t j = 0; r->has_u && j < r->n_budget; j++) {
 			const al_gum_term *t = &r->budget[j];
 
-			al_csv_put_text(out, r->product, strlen(r->product), opt);
-			text(out, r->lot, opt);
-			text(out, r->sample, opt);
-			putc(d, out);
-			al_csv_put_field(out, t->name, d);
-			number(out, 1, t->value, -1, opt);
-			fprintf(out, "%c%s", d, t->unit);
-			number(out, 1, t->u, -1, opt);
-			number(out, 1, t->sensitivity, -1, opt);
-			number(out, 1, t->contribution, -1, opt);
-			number(out, 1,
+			put_text(&k, r->product, strlen(r->product), opt);
+			text(&k, r->lot, opt);
+			text(&k, r->sample, opt);
+			field(&k, t->name, d);
+			number(&k, 1, t->value, -1, opt);
+			sink_char(&k, d);
+			sink_str(&k, t->unit);
+			number(&k, 1, t->u, -1, opt);
+			number(&k, 1, t->sensitivity, -1, opt);
+			number(&k, 1, t->contribution, -1, opt);
+			number(&k, 1,
 			       r->u > 0 ? 100 * t->contribution * t->contribution /
 						  (r->u * r->u)
 					: 0,
 			       3, opt);
-			putc('\n', out);
+			sink_char(&k, '\n');
 		}
 	}
-	return ferror(out) ? AL_EIO : AL_OK;
+	return done(&k);
 }

@@ -242,6 +242,11 @@ al_diags *al_assay_diags(al_assay *run);
 size_t al_assay_cochran_count(const al_assay *run);
 const al_cochran *al_assay_cochran_at(const al_assay *run, size_t i);
 
+/* The acids and the specifications of the results, each once, in the
+ * order of the results; NULL past the end. Valid after finish. */
+const al_acid *al_assay_acid_used(const al_assay *run, size_t i);
+const al_spec *al_assay_spec_used(const al_assay *run, size_t i);
+
 /* The titrant lots rows took their concentration from, in order of first
  * use; NULL past the end. */
 const al_titrant *al_assay_titrant_used(const al_assay *run, size_t i);

@@ -725,59 +725,41 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	size_t n = al_assay_group_count(run);
 	const al_titrant *t;
 	int bad = !acids || !specs || !lots || !results;
+	const al_acid *acid;
+	const al_spec *sp;
 
-	for (size_t i = 0; !bad && i < n; i++) {
+	/* the acids and specifications of the results: few, whatever the
+	 * number of results */
+	for (size_t i = 0; !bad && (acid = al_assay_acid_used(run, i)); i++)
+		bad |= json_array_append_new(
+			acids,
+			json_pack("{s:s, s:s, s:f, s:i, s:f, s:s}", "name",
+				  acid->name, "formula", acid->formula,
+				  "molar_mass_g_mol", acid->molar_mass,
+				  "protons", acid->protons, "g_per_meq",
+				  acid->g_per_meq, "source", acid->source));
+	for (size_t i = 0; !bad && (sp = al_assay_spec_used(run, i)); i++)
+		bad |= json_array_append_new(
+			specs,
+			json_pack("{s:s, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
+				  "product", sp->product, "acid",
+				  sp->acid ? sp->acid->name : NULL, "unit",
+				  sp->has_unit ? al_unit_name(sp->unit) : NULL,
+				  "min",
+				  sp->has_min ? json_real(sp->min) : json_null(),
+				  "max",
+				  sp->has_max ? json_real(sp->max) : json_null(),
+				  "max_rsd_pct",
+				  sp->has_max_rsd ? json_real(sp->max_rsd_pct)
+						  : json_null(),
+				  "min_n", (json_int_t)sp->min_n, "line",
+				  (json_int_t)sp->line));
+	for (size_t i = 0; !bad && i < n && i < RECORD_RESULTS_MAX; i++) {
 		const al_group_result *r = al_assay_result(run, i);
 		char id[64], flags[512];
-		int seen_acid = 0, seen_spec = r->spec == NULL;
 
-		/* the acids and specifications already listed: few, whatever
-		 * the number of results */
-		for (size_t j = 0; j < json_array_size(acids) && !seen_acid; j++)
-			seen_acid = strcmp(json_string_value(json_object_get(
-						   json_array_get(acids, j), "name")),
-					   r->acid->name) == 0;
-		for (size_t j = 0; j < json_array_size(specs) && !seen_spec; j++)
-			seen_spec = strcmp(json_string_value(json_object_get(
-						   json_array_get(specs, j), "product")),
-					   r->spec->product) == 0;
-		if (!seen_acid)
-			bad |= json_array_append_new(
-				acids,
-				json_pack("{s:s, s:s, s:f, s:i, s:f, s:s}", "name",
-					  r->acid->name, "formula",
-					  r->acid->formula, "molar_mass_g_mol",
-					  r->acid->molar_mass, "protons",
-					  r->acid->protons, "g_per_meq",
-					  r->acid->g_per_meq, "source",
-					  r->acid->source));
-		if (!seen_spec && r->spec) {
-			const al_spec *sp = r->spec;
-
-			bad |= json_array_append_new(
-				specs,
-				json_pack("{s:s, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
-					  "product", sp->product, "acid",
-					  sp->acid ? sp->acid->name : NULL,
-					  "unit",
-					  sp->has_unit ? al_unit_name(sp->unit)
-						       : NULL,
-					  "min",
-					  sp->has_min ? json_real(sp->min)
-						      : json_null(),
-					  "max",
-					  sp->has_max ? json_real(sp->max)
-						      : json_null(),
-					  "max_rsd_pct",
-					  sp->has_max_rsd ? json_real(sp->max_rsd_pct)
-							  : json_null(),
-					  "min_n", (json_int_t)sp->min_n, "line",
-					  (json_int_t)sp->line));
-		}
 		/* each result in the record for a lab-sized run; past that the
 		 * report itself, hashed in outputs, carries them */
-		if (i >= RECORD_RESULTS_MAX)
-			continue;
 		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
