@@ -1595,6 +1595,10 @@ al_assay_finish(al_assay *run)
 			      &run->n_specs_used, r->spec) != 0)
 			oom = 1;
 		run->groups[i].verdict = (uint8_t)r->verdict;
+		/* evaluation only adds flags, so keeping them all changes no
+		 * later evaluation and lets al_assay_result_flags answer
+		 * without one */
+		run->groups[i].flags = r->flags;
 	}
 	if (!oom)
 		run->cochran = al_cochran_acc_finish(acc, &run->n_cochran, &oom);
@@ -1613,6 +1617,12 @@ al_assay_finish(al_assay *run)
 		run->counts.by_verdict[run->groups[i].verdict]++;
 	run->cur_index = 0;
 	return run->on_row ? replay_rows(run) : AL_OK;
+}
+
+unsigned
+al_assay_result_flags(const al_assay *run, size_t i)
+{
+	return run->finished && i < run->n_groups ? run->groups[i].flags : 0;
 }
 
 const al_acid *

@@ -242,6 +242,10 @@ al_diags *al_assay_diags(al_assay *run);
 size_t al_assay_cochran_count(const al_assay *run);
 const al_cochran *al_assay_cochran_at(const al_assay *run, size_t i);
 
+/* The flags of the i-th result (as in al_assay_result), without
+ * evaluating it; 0 past the end. */
+unsigned al_assay_result_flags(const al_assay *run, size_t i);
+
 /* The acids and the specifications of the results, each once, in the
  * order of the results; NULL past the end. Valid after finish. */
 const al_acid *al_assay_acid_used(const al_assay *run, size_t i);

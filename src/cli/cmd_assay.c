@@ -519,8 +519,13 @@ static void
 endpoint_warnings(const al_assay *run)
 {
 	for (size_t i = 0; i < al_assay_group_count(run); i++) {
-		const al_group_result *r = al_assay_result(run, i);
+		const al_group_result *r;
 		double got;
+
+		if (!(al_assay_result_flags(run, i) &
+		      (AL_FLAG_RANGE | AL_FLAG_ENDPOINT_LOW)))
+			continue;
+		r = al_assay_result(run, i);
 
 		if (r->flags & AL_FLAG_RANGE)
 			fprintf(stderr,
