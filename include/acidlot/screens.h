@@ -37,6 +37,9 @@ double al_critical_range_factor(size_t n);
  * (l-1)(n-1)) (ISO 5725-2 7.2.3). */
 double al_cochran_c(const double *variances, size_t l, size_t *index);
 double al_cochran_critical(size_t l, size_t n, double alpha);
+/* Upper p quantile of Fisher's F(d1, d2): GSL's inverse, or Paulson's
+ * approximation where GSL's gives no finite value (large d1 and d2). */
+double al_f_quantile_upper(double p, double d1, double d2);
 
 /* Horwitz's predicted reproducibility RSD, % (AOAC): 2 C^-0.15 with C
  * the mass fraction (0.01 for 1 %). */
