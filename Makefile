@@ -16,7 +16,7 @@ FUZZ_SECONDS ?= 60
 BENCH_ROWS ?= 100000 1000000 10000000
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
-                  libjansson-dev nettle-dev
+                  libjansson-dev nettle-dev time
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
 .PHONY: all deps build demo check test asan valgrind regen fuzz bench clean
@@ -94,6 +94,7 @@ bench: build
 	  dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' \
 	    || { $(SUDO) apt-get update -qq; $(SUDO) apt-get install -y -qq $$p; }; done
 	sh bench/run.sh $(BUILD) $(BENCH_ROWS)
+	sh bench/memory.sh $(BUILD)/acidlot $(BUILD)/tests/bench_gen
 
 clean:
 	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)

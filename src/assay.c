@@ -274,7 +274,15 @@ key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	h = hash_bytes(h, "", 1);
 	h = hash_bytes(h, l, ll);
 	h = hash_bytes(h, "", 1);
-	return hash_bytes(h, s, sl);
+	h = hash_bytes(h, s, sl);
+	/* FNV's low bits follow the last bytes closely; serial sample
+	 * numbers would cluster in linear probing: mix them in (the
+	 * splitmix64 finaliser, Steele, Lea and Flood 2014) */
+	h ^= h >> 30;
+	h *= 0xBF58476D1CE4E5B9ULL;
+	h ^= h >> 27;
+	h *= 0x94D049BB133111EBULL;
+	return h ^ (h >> 31);
 }
 
 /* The key's three parts follow each other in the arena, each ended by
