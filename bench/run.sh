@@ -34,7 +34,8 @@ measure() {
 
 printf '%-10s %-9s %9s %12s %8s %9s %9s %10s\n' rows tool median_s rows_per_s MB_per_s peak_MiB x_floor x_datamash
 for rows in "$@"; do
-	f=$work/t$rows.csv
+	# named by the generator's checksum: a changed generator makes new files
+	f=$work/t$rows-$(cksum <"$here/gen.c" | cut -d' ' -f1).csv
 	[ -s "$f" ] || "$work/gen" "$rows" >"$f"
 	mb=$(du -m "$f" | cut -f1)
 	set -- $(measure "$work/floor" "$f")
