@@ -3,6 +3,7 @@
 #include "acidlot/report.h"
 
 #include <locale.h>
+#include <math.h>
 #include <stdint.h>
 #include <string.h>
 
@@ -35,17 +36,33 @@ format_g10(double v, char *buf)
 					 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13};
 	double a = v < 0 ? -v : v, p, f;
 	uint64_t d;
-	int e = 9;
+	int e;
 	char digits[10];
 	size_t len = 0;
 
 	if (!(a >= 1e-4 && a < 1e10))
 		return 0;
-	while (e > -4 && (e >= 0 ? a < pow10[e] : a * pow10[-e] < 1.0))
-		e--;
-	/* e: the largest in -4..9 with 10^e <= a, give or take a rounding
-	 * of the comparison, which the range check on p catches */
-	p = a * pow10[9 - e];
+	/* e from the binary exponent: a in [2^b, 2^(b+1)) gives
+	 * floor(b log10 2) <= log10 a < that + 2, so e is that or one more;
+	 * try the larger first. A misjudged e leaves p outside [1e9, 1e10),
+	 * which the range check below hands to snprintf. */
+	{
+		uint64_t bits;
+		int b;
+
+		memcpy(&bits, &a, sizeof bits);
+		b = (int)((bits >> 52) & 0x7ff) - 1023;
+		e = (int)floor(b * 0.30102999566398120) + 1;
+		if (e > 9)
+			e = 9;
+		if (e < -4)
+			e = -4;
+		p = a * pow10[9 - e];
+		if (p < 1e9 && e > -4) {
+			e--;
+			p = a * pow10[9 - e];
+		}
+	}
 	if (!(p >= 1e9 && p < 1e10 - 1))
 		return 0;
 	d = (uint64_t)p;
