@@ -2,7 +2,9 @@
 # acidlot bench: times the libcsv parse-only floor, GNU datamash (mean and
 # sample SD per sample) and `acidlot assay` on the same generated files, a
 # few runs each, and prints medians, rows/s, MB/s, peak memory and the
-# ratios to the floor and to datamash, all from the same run.
+# ratios to the floor and to datamash, all from the same run. `acidlot`
+# writes the report to standard output (discarded, as datamash's output
+# is); `acidlot-o` writes it to a file with the run's record.
 # usage: bench/run.sh BUILD_DIR [ROWS...]   (default 100000 1000000 10000000)
 set -u
 build=$(cd "$1" && pwd)
@@ -32,7 +34,7 @@ measure() {
 	sort -n "$work/times" | awk -v n="$runs" 'NR == int((n + 1) / 2) { print $1, $2 }'
 }
 
-printf '%-10s %-9s %9s %12s %8s %9s %9s %10s\n' rows tool median_s rows_per_s MB_per_s peak_MiB x_floor x_datamash
+printf '%-10s %-10s %9s %12s %8s %9s %9s %10s\n' rows tool median_s rows_per_s MB_per_s peak_MiB x_floor x_datamash
 for rows in "$@"; do
 	# named by the generator's checksum: a changed generator makes new files
 	f=$work/t$rows-$(cksum <"$here/gen.c" | cut -d' ' -f1).csv
@@ -47,14 +49,20 @@ for rows in "$@"; do
 		dm_s=$1
 		dm_kb=$2
 	fi
-	set -- $(measure "$build/acidlot" assay "$f" --spec "$work/spec.csv" -o "$work/out.csv")
+	# the report to standard output, discarded as datamash's is; then to a
+	# file, with its record (SHA-256 of input and report) and fsync
+	set -- $(measure sh -c "'$build/acidlot' assay '$f' --spec '$work/spec.csv' >/dev/null")
 	al_s=$1
 	al_kb=$2
-	for t in floor datamash acidlot; do
+	set -- $(measure "$build/acidlot" assay "$f" --spec "$work/spec.csv" -o "$work/out.csv")
+	alo_s=$1
+	alo_kb=$2
+	for t in floor datamash acidlot acidlot-o; do
 		case $t in
 		floor) s=$floor_s; kb=$floor_kb ;;
 		datamash) [ $have_datamash = 1 ] || { echo "$rows datamash: not installed (apt-get install datamash)"; continue; }; s=$dm_s; kb=$dm_kb ;;
 		acidlot) s=$al_s; kb=$al_kb ;;
+		acidlot-o) s=$alo_s; kb=$alo_kb ;;
 		esac
 		awk -v r="$rows" -v t="$t" -v s="$s" -v kb="$kb" -v mb="$mb" \
 		    -v fl="$floor_s" -v dm="$dm_s" 'BEGIN {
@@ -62,7 +70,7 @@ for rows in "$@"; do
 			if (fl <= 0) fl = 0.005
 			xd = "-"
 			if (dm > 0) xd = sprintf("%.2f", s / dm)
-			printf("%-10d %-9s %9.3f %12.0f %8.1f %9.1f %9.2f %10s\n",
+			printf("%-10d %-10s %9.3f %12.0f %8.1f %9.1f %9.2f %10s\n",
 			       r, t, s, r / s, mb / s, kb / 1024, s / fl, xd) }'
 	done
 done
