@@ -264,6 +264,20 @@ hash_bytes(uint64_t h, const char *s, size_t len)
 	return h;
 }
 
+/* FNV's low bits follow the last bytes closely; serial sample numbers
+ * would cluster in linear probing: mix them in (the splitmix64
+ * finaliser, Steele, Lea and Flood 2014). */
+static uint64_t
+finalise(uint64_t h)
+{
+	h ^= h >> 30;
+	h *= 0xBF58476D1CE4E5B9ULL;
+	h ^= h >> 27;
+	h *= 0x94D049BB133111EBULL;
+	return h ^ (h >> 31);
+}
+
+/* The hash of product \0 lot \0 sample, as the arena stores the key. */
 static uint64_t
 key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	 size_t sl)
@@ -274,15 +288,7 @@ key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	h = hash_bytes(h, "", 1);
 	h = hash_bytes(h, l, ll);
 	h = hash_bytes(h, "", 1);
-	h = hash_bytes(h, s, sl);
-	/* FNV's low bits follow the last bytes closely; serial sample
-	 * numbers would cluster in linear probing: mix them in (the
-	 * splitmix64 finaliser, Steele, Lea and Flood 2014) */
-	h ^= h >> 30;
-	h *= 0xBF58476D1CE4E5B9ULL;
-	h ^= h >> 27;
-	h *= 0x94D049BB133111EBULL;
-	return h ^ (h >> 31);
+	return finalise(hash_bytes(h, s, sl));
 }
 
 /* The key's three parts follow each other in the arena, each ended by
@@ -300,14 +306,20 @@ group_is(const al_assay *run, const struct group *g, const char *p,
 	       k[pl + ll + 2 + sl] == '\0';
 }
 
+/* key_hash of a stored key in one pass: its bytes up to the third NUL. */
 static uint64_t
 group_hash(const al_assay *run, const struct group *g)
 {
-	const char *k = run->arena + g->key;
-	size_t pl = strlen(k), ll = strlen(k + pl + 1);
+	const unsigned char *k = (const unsigned char *)run->arena + g->key;
+	uint64_t h = 14695981039346656037ULL;
 
-	return key_hash(k, pl, k + pl + 1, ll, k + pl + ll + 2,
-			strlen(k + pl + ll + 2));
+	for (int ends = 0;; k++) {
+		if (*k == 0 && ++ends == 3)
+			break;
+		h ^= *k;
+		h *= 1099511628211ULL;
+	}
+	return finalise(h);
 }
 
 /* A slot holds 6 bits of the key's hash above the group's number, so
@@ -1715,9 +1727,20 @@ al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 				     "%sendpoint-low(needs pH>=%.1f)",
 				     len ? ";" : "",
 				     ceil(endpoint_needed * 10 - 1e-9) / 10);
-		else
-			w = snprintf(buf + len, cap - len, "%s%s",
-				     len ? ";" : "", names[i].name);
+		else {
+			/* what snprintf("%s%s", sep, name) would write, cut
+			 * to the room left as it cuts */
+			size_t sep = len ? 1 : 0;
+			size_t nl = strlen(names[i].name) + sep;
+			size_t room = cap - len - 1, put = nl < room ? nl : room;
+
+			if (sep && put > 0)
+				buf[len] = ';';
+			if (put > sep)
+				memcpy(buf + len + sep, names[i].name, put - sep);
+			buf[len + put] = '\0';
+			w = (int)nl;
+		}
 		if (w < 0 || (size_t)w >= cap - len)
 			break;
 		len += (size_t)w;

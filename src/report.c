@@ -71,9 +71,18 @@ format_g10(double v, char *buf)
 		return 0;
 	if (f > 0.5)
 		d++;
-	for (int i = 9; i >= 0; i--) {
-		digits[i] = (char)('0' + d % 10);
-		d /= 10;
+	/* two digits at a time */
+	for (int i = 8; i >= 0; i -= 2) {
+		static const char pairs[] =
+			"00010203040506070809101112131415161718192021222324"
+			"25262728293031323334353637383940414243444546474849"
+			"50515253545556575859606162636465666768697071727374"
+			"75767778798081828384858687888990919293949596979899";
+		unsigned two = (unsigned)(d % 100);
+
+		d /= 100;
+		digits[i] = pairs[2 * two];
+		digits[i + 1] = pairs[2 * two + 1];
 	}
 	if (v < 0)
 		buf[len++] = '-';
