@@ -34,14 +34,10 @@ static const char *const cols[C_COUNT] = {
  * instead, so memory stays bounded by the number of groups. */
 #define INLINE_VALUES 3
 
-/* Running statistics of a group past AL_VALUES_KEPT values: Welford's
- * mean and sum of squared deviations (Welford 1962; Knuth TAOCP 2,
- * 4.2.2), the two smallest and two largest values and where the
- * extremes were. */
-struct stream {
-	double mean, m2, lo, lo2, hi, hi2;
-	uint32_t lo_i, hi_i;
-};
+/* Past AL_VALUES_KEPT values a group keeps running statistics instead
+ * (al_eval_stream: Welford's mean and sum of squared deviations, Welford
+ * 1962, Knuth TAOCP 2, 4.2.2; the two smallest and two largest values
+ * and where the extremes were), the form the evaluation reads. */
 
 enum {
 	G_VOLUME = 1,    /* the sample basis is volume (else mass) */
@@ -70,7 +66,7 @@ struct group {
 			double *p;
 			uint32_t cap;
 		} heap;
-		struct stream *stream;
+		al_eval_stream *stream;
 	} values;
 };
 
@@ -306,20 +302,27 @@ group_is(const al_assay *run, const struct group *g, const char *p,
 	       k[pl + ll + 2 + sl] == '\0';
 }
 
-/* key_hash of a stored key in one pass: its bytes up to the third NUL. */
+/* The lengths of a stored key's product and lot; the key is product \0
+ * lot \0 sample \0. */
+static const char *
+key_parts(const al_assay *run, const struct group *g, size_t *pl, size_t *ll)
+{
+	const char *k = run->arena + g->key;
+
+	*pl = strlen(k);
+	*ll = strlen(k + *pl + 1);
+	return k;
+}
+
+/* key_hash of a stored key: the same bytes, contiguous in the arena. */
 static uint64_t
 group_hash(const al_assay *run, const struct group *g)
 {
-	const unsigned char *k = (const unsigned char *)run->arena + g->key;
-	uint64_t h = 14695981039346656037ULL;
+	size_t pl, ll;
+	const char *k = key_parts(run, g, &pl, &ll);
+	size_t len = pl + ll + 2 + strlen(k + pl + ll + 2);
 
-	for (int ends = 0;; k++) {
-		if (*k == 0 && ++ends == 3)
-			break;
-		h ^= *k;
-		h *= 1099511628211ULL;
-	}
-	return finalise(h);
+	return finalise(hash_bytes(14695981039346656037ULL, k, len));
 }
 
 /* A slot holds 6 bits of the key's hash above the group's number, so
@@ -469,7 +472,7 @@ group_values(const struct group *g)
 }
 
 static void
-stream_add(struct stream *st, uint32_t n, double x)
+stream_add(al_eval_stream *st, uint32_t n, double x)
 {
 	/* n values so far; x is value n (0-based) */
 	double d = x - st->mean;
@@ -506,7 +509,7 @@ push_value(struct group *g, double v)
 	}
 	if (g->n == AL_VALUES_KEPT) {
 		/* from here on, running statistics of all the values */
-		struct stream *st = al_malloc(sizeof *st);
+		al_eval_stream *st = al_malloc(sizeof *st);
 		double *kept = g->values.heap.p;
 
 		if (st == NULL)
@@ -1488,10 +1491,9 @@ evaluate(al_assay *run, size_t i, al_group_result *r)
 	struct group *g = &run->groups[i];
 	const struct group_extra *x = g->extra ? &run->extras[g->extra - 1]
 					       : NULL;
-	const char *k = run->arena + g->key;
-	size_t pl = strlen(k), ll = strlen(k + pl + 1);
+	size_t pl, ll;
+	const char *k = key_parts(run, g, &pl, &ll);
 	al_eval_inputs in;
-	al_eval_stream st;
 	double n = g->n ? (double)g->n : 1;
 	const al_spec *spec = spec_of(run, k);
 
@@ -1515,19 +1517,8 @@ evaluate(al_assay *run, size_t i, al_group_result *r)
 	r->n_values = g->n;
 	r->flags = g->flags;
 	memset(&in, 0, sizeof in);
-	if (g->bits & G_STREAM) {
-		const struct stream *s = g->values.stream;
-
-		st.mean = s->mean;
-		st.m2 = s->m2;
-		st.lo = s->lo;
-		st.lo2 = s->lo2;
-		st.hi = s->hi;
-		st.hi2 = s->hi2;
-		st.lo_i = s->lo_i;
-		st.hi_i = s->hi_i;
-		in.stream = &st;
-	}
+	if (g->bits & G_STREAM)
+		in.stream = g->values.stream;
 	in.titrant_ml = g->sum_titrant / n;
 	in.conc = g->sum_conc / n;
 	in.amount = g->sum_amount / n;
@@ -1544,10 +1535,6 @@ evaluate(al_assay *run, size_t i, al_group_result *r)
 		in.has_water = x->n_water > 0;
 		in.water_pct = x->n_water ? x->sum_water / x->n_water : 0;
 		in.density = x->n_density ? x->sum_density / x->n_density : 0;
-	} else {
-		in.blank_ml = 0 / n;
-		in.made_up_ml = 0 / n;
-		in.aliquot_ml = 0 / n;
 	}
 	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
 	al_eval_result(&run->opt, &in, run->eval_scratch, r);

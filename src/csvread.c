@@ -154,6 +154,25 @@ grow_fields(struct reader *r, size_t n)
 	return 1;
 }
 
+/* Room for need bytes in the record buffer; 0 when memory runs out. */
+static int
+grow_buf(struct reader *r, size_t need)
+{
+	size_t n = r->buf_cap ? r->buf_cap : 1024;
+	char *grown;
+
+	if (need <= r->buf_cap)
+		return 1;
+	while (n < need)
+		n *= 2;
+	grown = al_realloc(r->buf, n);
+	if (grown == NULL)
+		return 0;
+	r->buf = grown;
+	r->buf_cap = n;
+	return 1;
+}
+
 static void
 on_field(void *data, size_t len, void *ud)
 {
@@ -188,19 +207,9 @@ on_field(void *data, size_t len, void *ud)
 		fail(r, AL_ENOMEM, 0, NULL);
 		return;
 	}
-	if (r->buf_len + len + 1 > r->buf_cap) {
-		size_t n = r->buf_cap ? r->buf_cap : 1024;
-		char *grown;
-
-		while (n < r->buf_len + len + 1)
-			n *= 2;
-		grown = al_realloc(r->buf, n);
-		if (grown == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return;
-		}
-		r->buf = grown;
-		r->buf_cap = n;
+	if (!grow_buf(r, r->buf_len + len + 1)) {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return;
 	}
 	if (len > 0)
 		memcpy(r->buf + r->buf_len, data, len);
@@ -445,19 +454,9 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 		fail(r, AL_ENOMEM, 0, NULL);
 		return 1;
 	}
-	if (len + 1 > r->buf_cap) {
-		size_t n = r->buf_cap ? r->buf_cap : 1024;
-		char *grown;
-
-		while (n < len + 1)
-			n *= 2;
-		grown = al_realloc(r->buf, n);
-		if (grown == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return 1;
-		}
-		r->buf = grown;
-		r->buf_cap = n;
+	if (!grow_buf(r, len + 1)) {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return 1;
 	}
 	b = r->buf;
 	memcpy(b, line, len);
@@ -496,6 +495,20 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 	return 1;
 }
 
+/* Counts the line end of the segment data[pos..q), which ends in at most
+ * one (a CR, or an LF not right after a CR); returns q. */
+static size_t
+line_end(const char *data, size_t pos, size_t q, unsigned long *phys_line,
+	 int *prev_cr)
+{
+	if (data[q - 1] == '\r')
+		(*phys_line)++;
+	else if (data[q - 1] == '\n' && !(*prev_cr && q - pos == 1))
+		(*phys_line)++;
+	*prev_cr = data[q - 1] == '\r';
+	return q;
+}
+
 /* Feeds one chunk to libcsv a line at a time, so that each record's raw
  * bytes are known and an error's line is exact; plain whole lines take
  * the fast path. */
@@ -517,12 +530,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 		    fast_record(r, data + pos, q - pos - 1, data[q - 1])) {
 			if (r->stop != AL_OK)
 				break;
-			if (data[q - 1] == '\r')
-				(*phys_line)++;
-			else if (!(*prev_cr && q - pos == 1))
-				(*phys_line)++;
-			*prev_cr = data[q - 1] == '\r';
-			pos = q;
+			pos = line_end(data, pos, q, phys_line, prev_cr);
 			continue;
 		}
 		keep_raw(r, data + pos, q - pos);
@@ -580,13 +588,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 				fail(r, AL_ENOMEM, 0, NULL);
 			break;
 		}
-		/* the segment ends in at most one line end */
-		if (data[q - 1] == '\r')
-			(*phys_line)++;
-		else if (data[q - 1] == '\n' && !(*prev_cr && q - pos == 1))
-			(*phys_line)++;
-		*prev_cr = data[q - 1] == '\r';
-		pos = q;
+		pos = line_end(data, pos, q, phys_line, prev_cr);
 	}
 	return r->stop == AL_OK;
 }

@@ -37,6 +37,22 @@ t_for(double level, size_t n)
 	return t;
 }
 
+/* The rest of a summary of n >= 2 values once its mean and sd are known:
+ * RSD and the two-sided interval mean -/+ t sd / sqrt(n). */
+static void
+spread(al_summary *out, double sd, double level)
+{
+	out->has_sd = 1;
+	out->sd = sd;
+	if (out->mean != 0) {
+		out->has_rsd = 1;
+		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
+	}
+	out->t = t_for(level, out->n);
+	out->ci_low = out->mean - out->t * out->sd / sqrt((double)out->n);
+	out->ci_high = out->mean + out->t * out->sd / sqrt((double)out->n);
+}
+
 void
 al_stats_from_moments(size_t n, double mean, double m2, double level,
 		      al_summary *out)
@@ -48,15 +64,7 @@ al_stats_from_moments(size_t n, double mean, double m2, double level,
 	out->mean = mean;
 	if (n < 2)
 		return;
-	out->has_sd = 1;
-	out->sd = sqrt(m2 / (double)(n - 1));
-	if (out->mean != 0) {
-		out->has_rsd = 1;
-		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
-	}
-	out->t = t_for(level, n);
-	out->ci_low = out->mean - out->t * out->sd / sqrt((double)n);
-	out->ci_high = out->mean + out->t * out->sd / sqrt((double)n);
+	spread(out, sqrt(m2 / (double)(n - 1)), level);
 }
 
 void
@@ -69,13 +77,5 @@ al_stats_summarise(const double *x, size_t n, double level, al_summary *out)
 	out->mean = gsl_stats_mean(x, 1, n);
 	if (n < 2)
 		return;
-	out->has_sd = 1;
-	out->sd = gsl_stats_sd_m(x, 1, n, out->mean);
-	if (out->mean != 0) {
-		out->has_rsd = 1;
-		out->rsd_pct = 100.0 * out->sd / fabs(out->mean);
-	}
-	out->t = t_for(level, n);
-	out->ci_low = out->mean - out->t * out->sd / sqrt((double)n);
-	out->ci_high = out->mean + out->t * out->sd / sqrt((double)n);
+	spread(out, gsl_stats_sd_m(x, 1, n, out->mean), level);
 }
