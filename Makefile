@@ -77,6 +77,8 @@ check: test asan
 valgrind: build
 	@command -v valgrind >/dev/null || { $(SUDO) apt-get install -y -qq valgrind; }
 	cd $(BUILD) && ACIDLOT_VALGRIND=1 ctest --output-on-failure -j$(JOBS)
+	@# the report's two threads (src/report.c), under helgrind's race check
+	valgrind --tool=helgrind -q --error-exitcode=99 $(BUILD)/tests/test_assay >/dev/null
 
 regen: build
 	sh tests/cli/regen.sh $(BUILD)

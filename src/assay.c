@@ -86,6 +86,24 @@ struct kept_row {
 	size_t replicate; /* offset in run->kept_text */
 };
 
+/* The specification of the last product asked for. */
+struct spec_cache {
+	const al_spec *spec;
+	int cached;
+	char product[128];
+};
+
+/* An evaluator's own state: the result it evaluated last, its scratch
+ * and its spec cache; the run has one, and each al_assay_reader one, so
+ * that threads can evaluate results of a finished run side by side. */
+struct al_assay_reader {
+	const al_assay *run;
+	al_group_result cur;
+	size_t cur_index; /* 1 + the group in cur; 0: none */
+	struct spec_cache specs;
+	double scratch[AL_VALUES_KEPT];
+};
+
 struct al_assay {
 	al_assay_options opt;
 	al_diags diags;
@@ -113,13 +131,8 @@ struct al_assay {
 	size_t n_specs_used;
 	int finished;
 
-	/* al_assay_result's one evaluated result */
-	al_group_result cur;
-	size_t cur_index; /* 1 + the group in cur; 0: none */
-	double *eval_scratch;
-	const al_spec *spec_cache; /* the spec of spec_product */
-	int spec_cached;
-	char spec_product[128];
+	struct al_assay_reader own; /* al_assay_result's */
+	struct spec_cache specs;    /* the reading's */
 	char *header_text; /* the file's header cells, trimmed, NUL-separated */
 	const al_titrant **lots_used;
 	size_t n_lots_used;
@@ -201,7 +214,6 @@ al_assay_free(al_assay *run)
 	al_free((void *)run->acids_used);
 	al_free((void *)run->specs_used);
 	al_free(run->extras);
-	al_free(run->eval_scratch);
 	al_free(run->scratch);
 	al_free(run->header_text);
 	al_free(run->lots_used);
@@ -231,22 +243,49 @@ al_assay_group_count(const al_assay *run)
 	return run->n_groups;
 }
 
-static void evaluate(al_assay *run, size_t i, al_group_result *r);
+static void evaluate(const al_assay *run, struct al_assay_reader *rd,
+		     size_t i);
+
+/* Evaluated on demand: a run of millions of results keeps none of them;
+ * the one returned is the reader's. */
+static const al_group_result *
+reader_result(struct al_assay_reader *rd, size_t i)
+{
+	if (!rd->run->finished || i >= rd->run->n_groups)
+		return NULL;
+	if (rd->cur_index != i + 1) {
+		evaluate(rd->run, rd, i);
+		rd->cur_index = i + 1;
+	}
+	return &rd->cur;
+}
 
 const al_group_result *
 al_assay_result(const al_assay *run, size_t i)
 {
-	/* evaluated on demand: a run of millions of results keeps none of
-	 * them (the one returned is the run's, as the header says) */
-	al_assay *mut = (al_assay *)run;
+	return reader_result(&((al_assay *)run)->own, i);
+}
 
-	if (!run->finished || i >= run->n_groups)
-		return NULL;
-	if (mut->cur_index != i + 1) {
-		evaluate(mut, i, &mut->cur);
-		mut->cur_index = i + 1;
-	}
-	return &mut->cur;
+al_assay_reader *
+al_assay_reader_new(const al_assay *run)
+{
+	al_assay_reader *rd = al_calloc(1, sizeof *rd);
+
+	if (rd != NULL)
+		rd->run = run;
+	return rd;
+}
+
+const al_group_result *
+al_assay_reader_result(al_assay_reader *rd, size_t i)
+{
+	return reader_result(rd, i);
+}
+
+void
+al_assay_reader_free(al_assay_reader *rd)
+{
+	al_free(rd);
 }
 
 /* FNV-1a, 64 bit */
@@ -586,17 +625,17 @@ group_file(const al_assay *run, const struct group *g)
 
 /* The specification of a product, remembering the last one asked. */
 static const al_spec *
-spec_of(al_assay *run, const char *product)
+spec_of(const al_assay *run, struct spec_cache *c, const char *product)
 {
 	size_t len = strlen(product);
 
-	if (run->spec_cached && strcmp(run->spec_product, product) == 0)
-		return run->spec_cache;
-	run->spec_cache = al_spec_find(run->opt.specs, product);
-	run->spec_cached = len < sizeof run->spec_product;
-	if (run->spec_cached)
-		memcpy(run->spec_product, product, len + 1);
-	return run->spec_cache;
+	if (c->cached && strcmp(c->product, product) == 0)
+		return c->spec;
+	c->spec = al_spec_find(run->opt.specs, product);
+	c->cached = len < sizeof c->product;
+	if (c->cached)
+		memcpy(c->product, product, len + 1);
+	return c->spec;
 }
 
 /* Adds an error for the current row (reported or rejected at its end). */
@@ -1213,7 +1252,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	}
 
 	/* The acid: the specification's, else the row's, else the default. */
-	spec = spec_of(run, product);
+	spec = spec_of(run, &run->specs, product);
 	if (tl[4] > 0) {
 		row_acid = al_catalogue_find(run->opt.catalogue, acid_name);
 		if (row_acid == NULL)
@@ -1484,18 +1523,20 @@ replay_rows(al_assay *run)
 	return AL_OK;
 }
 
-/* Evaluates group i into r: statistics, screens, uncertainty, verdict. */
+/* Evaluates group i into the reader's result: statistics, screens,
+ * uncertainty, verdict. Reads the run only. */
 static void
-evaluate(al_assay *run, size_t i, al_group_result *r)
+evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 {
-	struct group *g = &run->groups[i];
+	al_group_result *r = &rd->cur;
+	const struct group *g = &run->groups[i];
 	const struct group_extra *x = g->extra ? &run->extras[g->extra - 1]
 					       : NULL;
 	size_t pl, ll;
 	const char *k = key_parts(run, g, &pl, &ll);
 	al_eval_inputs in;
 	double n = g->n ? (double)g->n : 1;
-	const al_spec *spec = spec_of(run, k);
+	const al_spec *spec = spec_of(run, &rd->specs, k);
 
 	memset(r, 0, sizeof *r);
 	r->product = k;
@@ -1537,7 +1578,7 @@ evaluate(al_assay *run, size_t i, al_group_result *r)
 		in.density = x->n_density ? x->sum_density / x->n_density : 0;
 	}
 	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
-	al_eval_result(&run->opt, &in, run->eval_scratch, r);
+	al_eval_result(&run->opt, &in, rd->scratch, r);
 	if ((g->flags & AL_FLAG_ENDPOINT_LOW) && x) {
 		r->endpoint_ph = x->min_endpoint;
 		if (al_endpoint_ph_needed(r->acid->pka, r->acid->n_pka,
@@ -1578,20 +1619,17 @@ al_assay_finish(al_assay *run)
 	run->slots = NULL;
 	run->n_slots = 0;
 	run->last_group = 0;
-	run->eval_scratch = al_malloc(AL_VALUES_KEPT * sizeof *run->eval_scratch);
 	acc = al_cochran_acc_new();
-	if (run->eval_scratch == NULL || acc == NULL) {
-		al_cochran_acc_free(acc);
+	if (acc == NULL)
 		return AL_ENOMEM;
-	}
 	run->finished = 1;
-	run->cur_index = 0;
+	run->own.run = run;
+	run->own.cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
 	for (size_t i = 0; i < run->n_groups && !oom; i++) {
-		al_group_result *r = &run->cur;
+		const al_group_result *r = reader_result(&run->own, i);
 
-		evaluate(run, i, r);
 		if (r->stats.has_sd &&
 		    al_cochran_acc_add(acc, r->product, r->stats.n,
 				       r->stats.sd * r->stats.sd, i) != 0)
@@ -1622,7 +1660,7 @@ al_assay_finish(al_assay *run)
 	}
 	for (size_t i = 0; i < run->n_groups; i++)
 		run->counts.by_verdict[run->groups[i].verdict]++;
-	run->cur_index = 0;
+	run->own.cur_index = 0;
 	return run->on_row ? replay_rows(run) : AL_OK;
 }
 

@@ -4,8 +4,11 @@
 
 #include <locale.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdint.h>
 #include <string.h>
+
+#include "acidlot/alloc.h"
 
 static char
 delim_of(const al_report_options *opt)
@@ -112,11 +115,12 @@ format_g10(double v, char *buf)
 	return len;
 }
 
-void
-al_format_number(double v, int decimals, int decimal_comma, char *buf,
-		 size_t cap)
+/* al_format_number with the locale's decimal point given (NULL: looked
+ * up), so that threads need not call localeconv. */
+static void
+format_number(double v, int decimals, int decimal_comma, const char *point,
+	      char *buf, size_t cap)
 {
-	const char *point;
 	char *p;
 
 	if (decimals < 0 && cap >= 32 && format_g10(v, buf) > 0) {
@@ -129,7 +133,8 @@ al_format_number(double v, int decimals, int decimal_comma, char *buf,
 	else
 		snprintf(buf, cap, "%.10g", v);
 	/* printf follows LC_NUMERIC; the report does not */
-	point = localeconv()->decimal_point;
+	if (point == NULL)
+		point = localeconv()->decimal_point;
 	if (point[0] != '.' || point[1] != '\0') {
 		p = strstr(buf, point);
 		if (p != NULL) {
@@ -143,19 +148,48 @@ al_format_number(double v, int decimals, int decimal_comma, char *buf,
 		*p = ',';
 }
 
+void
+al_format_number(double v, int decimals, int decimal_comma, char *buf,
+		 size_t cap)
+{
+	format_number(v, decimals, decimal_comma, NULL, buf, cap);
+}
+
 /* Output through one buffer of our own: a report line is dozens of
  * small pieces, and stdio's per-call locking costs more than the bytes.
- * Write errors show in ferror(out), checked once at the end. */
+ * Write errors show in ferror(out), checked once at the end. A sink
+ * without a file fills its buffer only, and says so in `full` when a
+ * piece did not fit (the report's second thread, below). */
 struct sink {
 	FILE *out;
-	size_t len;
-	char buf[1 << 16];
+	char *buf;
+	size_t len, cap;
+	int full;
+	unsigned long guarded; /* text cells guarded (put_text) */
+	const char *point;     /* the locale's decimal point, for printf's
+				  numbers */
 };
+
+#define SINK_BYTES (1 << 16)
+
+static void
+sink_open(struct sink *k, FILE *out, char *buf, size_t cap)
+{
+	k->out = out;
+	k->buf = buf;
+	k->len = 0;
+	k->cap = cap;
+	k->full = 0;
+	k->guarded = 0;
+	/* a sink without a file is the second thread's: its caller sets
+	 * the point (localeconv is not for threads) */
+	k->point = out ? localeconv()->decimal_point : NULL;
+}
 
 static void
 sink_flush(struct sink *k)
 {
-	if (k->len)
+	if (k->len && k->out)
 		fwrite(k->buf, 1, k->len, k->out);
 	k->len = 0;
 }
@@ -163,9 +197,13 @@ sink_flush(struct sink *k)
 static void
 sink_put(struct sink *k, const char *s, size_t n)
 {
-	if (n > sizeof k->buf - k->len) {
+	if (n > k->cap - k->len) {
+		if (k->out == NULL) {
+			k->full = 1;
+			return;
+		}
 		sink_flush(k);
-		if (n >= sizeof k->buf) {
+		if (n >= k->cap) {
 			fwrite(s, 1, n, k->out);
 			return;
 		}
@@ -177,8 +215,13 @@ sink_put(struct sink *k, const char *s, size_t n)
 static void
 sink_char(struct sink *k, char c)
 {
-	if (k->len == sizeof k->buf)
+	if (k->len == k->cap) {
+		if (k->out == NULL) {
+			k->full = 1;
+			return;
+		}
 		sink_flush(k);
+	}
 	k->buf[k->len++] = c;
 }
 
@@ -235,17 +278,17 @@ put_text(struct sink *k, const char *s, size_t len, al_report_options *opt)
 	int guard = len > 0 && !opt->raw_text && strchr("=+-@\t\r", s[0]);
 
 	if (guard)
-		opt->guarded++;
+		k->guarded++;
 	put_quoted(k, s, len, delim_of(opt), guard);
 }
 
 int
 al_csv_put_field(FILE *out, const char *s, char delimiter)
 {
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	put_quoted(&k, s, strlen(s), delimiter ? delimiter : ',', 0);
 	sink_flush(&k);
 	return ferror(out) ? EOF : 0;
@@ -254,11 +297,12 @@ al_csv_put_field(FILE *out, const char *s, char delimiter)
 int
 al_csv_put_text(FILE *out, const char *s, size_t len, al_report_options *opt)
 {
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	put_text(&k, s, len, opt);
+	opt->guarded += k.guarded;
 	sink_flush(&k);
 	return ferror(out) ? EOF : 0;
 }
@@ -286,7 +330,8 @@ number(struct sink *k, int defined, double v, int decimals,
 	sink_char(k, delim_of(opt));
 	if (!defined)
 		return;
-	al_format_number(v, decimals, opt->decimal_comma, buf, sizeof buf);
+	format_number(v, decimals, opt->decimal_comma, k->point, buf,
+		      sizeof buf);
 	sink_str(k, buf);
 }
 
@@ -302,22 +347,205 @@ header(struct sink *k, const char *names, const al_report_options *opt)
 }
 
 static al_status
-done(struct sink *k)
+done(struct sink *k, al_report_options *opt)
 {
+	opt->guarded += k->guarded;
 	sink_flush(k);
 	return ferror(k->out) ? AL_EIO : AL_OK;
+}
+
+/* The report's lines for results [begin, end), evaluated by rd (NULL:
+ * the run's own, al_assay_result). */
+static void
+put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
+	    size_t begin, size_t end, const al_report_options *opt)
+{
+	int dec = opt->decimals;
+	char d = delim_of(opt);
+	/* put_text only counts in the sink; nothing else changes opt */
+	al_report_options *o = (al_report_options *)opt;
+
+	for (size_t i = begin; i < end; i++) {
+		const al_group_result *r = rd ? al_assay_reader_result(rd, i)
+					      : al_assay_result(run, i);
+		const al_spec *sp = r->spec;
+		char flags[512];
+
+		put_text(k, r->product, strlen(r->product), o);
+		text(k, r->lot, o);
+		text(k, r->sample, o);
+		field(k, r->acid->name, d);
+		field(k, al_unit_name(r->unit), d);
+		sink_char(k, d);
+		sink_ulong(k, (unsigned long)r->stats.n);
+		number(k, r->stats.n > 0, r->stats.mean, dec, opt);
+		number(k, r->stats.has_sd, r->stats.sd, dec, opt);
+		number(k, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
+		number(k, r->stats.has_sd, r->stats.ci_low, dec, opt);
+		number(k, r->stats.has_sd, r->stats.ci_high, dec, opt);
+		number(k, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
+		number(k, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
+		sink_char(k, d);
+		sink_str(k, al_verdict_name(r->verdict));
+		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
+				sizeof flags);
+		field(k, flags, d);
+		number(k, r->has_median, r->median, dec, opt);
+		/* screens are ratios: never rounded to the report's decimals */
+		number(k, r->has_grubbs, r->grubbs_g, -1, opt);
+		number(k, r->has_dixon, r->dixon_q, -1, opt);
+		number(k, r->stats.n > 1, r->range, dec, opt);
+		number(k, r->has_critical_range, r->critical_range, dec, opt);
+		number(k, r->has_horrat, r->horrat, -1, opt);
+		number(k, r->has_u, r->u, -1, opt);
+		number(k, r->has_u, r->U, -1, opt);
+		number(k, r->has_u, r->k, -1, opt);
+		number(k, r->has_brix, r->brix, -1, opt);
+		number(k, r->has_brix_corrected, r->brix_corrected, -1, opt);
+		number(k, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
+		number(k, r->has_water, r->water_pct, -1, opt);
+		sink_char(k, d);
+		sink_str(k, r->anhydrous ? "anhydrous" : "as-is");
+		if (opt->report_id) {
+			char id[64];
+
+			snprintf(id, sizeof id, "%c%s-%04zu", d, opt->report_id,
+				 i + 1);
+			sink_str(k, id);
+		}
+		sink_char(k, '\n');
+	}
+}
+
+/* A report of many results is written by two threads: results go in
+ * chunks of CHUNK, the even chunks formatted by the calling thread, the
+ * odd ones by a second into one of two buffers, which the caller writes
+ * in their turn, so the bytes are those of one thread. A chunk that
+ * does not fit its buffer (lines of over 1 KiB on average) is formatted
+ * again by the caller. */
+#define CHUNK 1024
+#define CHUNK_BYTES (1u << 20)
+#define THREAD_MIN (8 * CHUNK) /* fewer results: one thread */
+
+struct lane {
+	pthread_mutex_t mu;
+	pthread_cond_t cv;
+	const al_assay *run;
+	al_assay_reader *rd;
+	const al_report_options *opt;
+	const char *point;
+	size_t n;
+	struct {
+		char *buf;
+		size_t len;
+		int done, full;
+		unsigned long guarded;
+	} slot[2];
+};
+
+static void *
+lane_run(void *arg)
+{
+	struct lane *ln = arg;
+
+	for (size_t m = 0;; m++) {
+		size_t begin = (2 * m + 1) * CHUNK;
+		size_t end = begin + CHUNK < ln->n ? begin + CHUNK : ln->n;
+		int s = (int)(m & 1);
+		struct sink k;
+
+		if (begin >= ln->n)
+			break;
+		pthread_mutex_lock(&ln->mu);
+		while (ln->slot[s].done)
+			pthread_cond_wait(&ln->cv, &ln->mu);
+		pthread_mutex_unlock(&ln->mu);
+		sink_open(&k, NULL, ln->slot[s].buf, CHUNK_BYTES);
+		k.point = ln->point;
+		put_results(&k, ln->run, ln->rd, begin, end, ln->opt);
+		pthread_mutex_lock(&ln->mu);
+		ln->slot[s].len = k.len;
+		ln->slot[s].full = k.full;
+		ln->slot[s].guarded = k.guarded;
+		ln->slot[s].done = 1;
+		pthread_cond_broadcast(&ln->cv);
+		pthread_mutex_unlock(&ln->mu);
+	}
+	return NULL;
+}
+
+/* Writes results [0, n) through k, two threads at a time; AL_ENOMEM
+ * when the second thread's memory cannot be had. */
+static al_status
+put_results_2(struct sink *k, const al_assay *run, size_t n,
+	      const al_report_options *opt)
+{
+	struct lane ln;
+	pthread_t th;
+	al_status st = AL_OK;
+
+	memset(&ln, 0, sizeof ln);
+	ln.run = run;
+	ln.opt = opt;
+	ln.n = n;
+	ln.point = k->point;
+	ln.rd = al_assay_reader_new(run);
+	ln.slot[0].buf = al_malloc(CHUNK_BYTES);
+	ln.slot[1].buf = al_malloc(CHUNK_BYTES);
+	if (ln.rd == NULL || ln.slot[0].buf == NULL || ln.slot[1].buf == NULL) {
+		st = AL_ENOMEM;
+		goto out;
+	}
+	pthread_mutex_init(&ln.mu, NULL);
+	pthread_cond_init(&ln.cv, NULL);
+	if (pthread_create(&th, NULL, lane_run, &ln) != 0) {
+		/* no second thread to be had: the same bytes from one */
+		put_results(k, run, NULL, 0, n, opt);
+		goto destroy;
+	}
+	for (size_t c = 0; c * CHUNK < n; c++) {
+		size_t begin = c * CHUNK;
+		size_t end = begin + CHUNK < n ? begin + CHUNK : n;
+		int s = (int)((c / 2) & 1);
+
+		if (c % 2 == 0) {
+			put_results(k, run, NULL, begin, end, opt);
+			continue;
+		}
+		pthread_mutex_lock(&ln.mu);
+		while (!ln.slot[s].done)
+			pthread_cond_wait(&ln.cv, &ln.mu);
+		pthread_mutex_unlock(&ln.mu);
+		if (ln.slot[s].full) {
+			put_results(k, run, NULL, begin, end, opt);
+		} else {
+			sink_put(k, ln.slot[s].buf, ln.slot[s].len);
+			k->guarded += ln.slot[s].guarded;
+		}
+		pthread_mutex_lock(&ln.mu);
+		ln.slot[s].done = 0;
+		pthread_cond_broadcast(&ln.cv);
+		pthread_mutex_unlock(&ln.mu);
+	}
+	pthread_join(th, NULL);
+destroy:
+	pthread_cond_destroy(&ln.cv);
+	pthread_mutex_destroy(&ln.mu);
+out:
+	al_free(ln.slot[0].buf);
+	al_free(ln.slot[1].buf);
+	al_assay_reader_free(ln.rd);
+	return st;
 }
 
 al_status
 al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
-	static struct sink k; /* 64 KiB: off the stack */
+	static char kb[SINK_BYTES]; /* off the stack */
+	struct sink k;
 	size_t n = al_assay_group_count(run);
-	int dec = opt->decimals;
-	char d = delim_of(opt);
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	header(&k,
 	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
 				"ci95_low,ci95_high,spec_min,spec_max,status,"
@@ -330,78 +558,37 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 				"critical_range,horrat,u,U,k,brix,brix_corrected,"
 				"brix_acid_ratio,water_pct,basis",
 	       opt);
-	for (size_t i = 0; i < n; i++) {
-		const al_group_result *r = al_assay_result(run, i);
-		const al_spec *sp = r->spec;
-		char flags[512];
-
-		put_text(&k, r->product, strlen(r->product), opt);
-		text(&k, r->lot, opt);
-		text(&k, r->sample, opt);
-		field(&k, r->acid->name, d);
-		field(&k, al_unit_name(r->unit), d);
-		sink_char(&k, d);
-		sink_ulong(&k, (unsigned long)r->stats.n);
-		number(&k, r->stats.n > 0, r->stats.mean, dec, opt);
-		number(&k, r->stats.has_sd, r->stats.sd, dec, opt);
-		number(&k, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
-		number(&k, r->stats.has_sd, r->stats.ci_low, dec, opt);
-		number(&k, r->stats.has_sd, r->stats.ci_high, dec, opt);
-		number(&k, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
-		number(&k, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
-		sink_char(&k, d);
-		sink_str(&k, al_verdict_name(r->verdict));
-		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
-				sizeof flags);
-		field(&k, flags, d);
-		number(&k, r->has_median, r->median, dec, opt);
-		/* screens are ratios: never rounded to the report's decimals */
-		number(&k, r->has_grubbs, r->grubbs_g, -1, opt);
-		number(&k, r->has_dixon, r->dixon_q, -1, opt);
-		number(&k, r->stats.n > 1, r->range, dec, opt);
-		number(&k, r->has_critical_range, r->critical_range, dec, opt);
-		number(&k, r->has_horrat, r->horrat, -1, opt);
-		number(&k, r->has_u, r->u, -1, opt);
-		number(&k, r->has_u, r->U, -1, opt);
-		number(&k, r->has_u, r->k, -1, opt);
-		number(&k, r->has_brix, r->brix, -1, opt);
-		number(&k, r->has_brix_corrected, r->brix_corrected, -1, opt);
-		number(&k, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
-		number(&k, r->has_water, r->water_pct, -1, opt);
-		sink_char(&k, d);
-		sink_str(&k, r->anhydrous ? "anhydrous" : "as-is");
-		if (opt->report_id) {
-			char id[64];
-
-			snprintf(id, sizeof id, "%c%s-%04zu", d, opt->report_id,
-				 i + 1);
-			sink_str(&k, id);
+	if (n >= THREAD_MIN && opt->threads != 1) {
+		if (put_results_2(&k, run, n, opt) != AL_OK) {
+			sink_flush(&k);
+			return AL_ENOMEM;
 		}
-		sink_char(&k, '\n');
+	} else {
+		put_results(&k, run, NULL, 0, n, opt);
 	}
-	return done(&k);
+	return done(&k, opt);
 }
 
 al_status
 al_replicates_header(FILE *out, al_report_options *opt)
 {
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	header(&k, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
 	       opt);
-	return done(&k);
+	return done(&k, opt);
 }
 
 al_status
 al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 {
 	char flags[256], d = delim_of(opt);
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	put_text(&k, rep->file, strlen(rep->file), opt);
 	sink_char(&k, d);
 	sink_ulong(&k, rep->line);
@@ -417,18 +604,18 @@ al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 			sizeof flags);
 	field(&k, flags, d);
 	sink_char(&k, '\n');
-	return done(&k);
+	return done(&k, opt);
 }
 
 al_status
 al_rejects_header(FILE *out, al_report_options *opt)
 {
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	header(&k, "file,line,reason,record", opt);
-	return done(&k);
+	return done(&k, opt);
 }
 
 al_status
@@ -437,10 +624,10 @@ al_rejects_row(FILE *out, const char *file, unsigned long line,
 	       al_report_options *opt)
 {
 	char d = delim_of(opt);
+	char kb[SINK_BYTES];
 	struct sink k;
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	put_text(&k, file, strlen(file), opt);
 	sink_char(&k, d);
 	sink_ulong(&k, line);
@@ -450,17 +637,17 @@ al_rejects_row(FILE *out, const char *file, unsigned long line,
 	 * from the input unless raw_text */
 	put_text(&k, raw, raw_len, opt);
 	sink_char(&k, '\n');
-	return done(&k);
+	return done(&k, opt);
 }
 
 al_status
 al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
-	static struct sink k;
+	static char kb[SINK_BYTES]; /* off the stack */
+	struct sink k;
 	char d = delim_of(opt);
 
-	k.out = out;
-	k.len = 0;
+	sink_open(&k, out, kb, sizeof kb);
 	header(&k,
 	       "product,lot,sample,component,value,unit,standard_uncertainty,"
 	       "sensitivity,contribution,share_pct",
@@ -489,5 +676,5 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 			sink_char(&k, '\n');
 		}
 	}
-	return done(&k);
+	return done(&k, opt);
 }

@@ -45,7 +45,7 @@ grubbs_critical_uncached(size_t n, double alpha)
 double
 al_grubbs_critical(size_t n, double alpha)
 {
-	static double at5[CACHE_N], at1[CACHE_N];
+	static _Thread_local double at5[CACHE_N], at1[CACHE_N]; /* per thread */
 	double *slot = NULL;
 
 	if (n < 3)
@@ -181,7 +181,7 @@ range_cdf(size_t n, double w, gsl_integration_workspace *ws)
 double
 al_critical_range_factor(size_t n)
 {
-	static double cache[CACHE_N];
+	static _Thread_local double cache[CACHE_N]; /* per thread */
 	gsl_integration_workspace *ws;
 	double lo = 0, hi = 12;
 

@@ -21,7 +21,8 @@ al_stats_t_quantile(double p, double df)
 static double
 t_for(double level, size_t n)
 {
-	static double at_level, cache[64];
+	/* one per thread: the report may evaluate in two */
+	static _Thread_local double at_level, cache[64];
 
 	if (n < 64 && level == at_level && cache[n] != 0)
 		return cache[n];

@@ -235,6 +235,13 @@ size_t al_assay_group_count(const al_assay *run);
  * them: the one returned belongs to the run and stays valid until the
  * next call (copy it to keep it). */
 const al_group_result *al_assay_result(const al_assay *run, size_t i);
+/* A reader evaluates results of a finished run as al_assay_result does,
+ * into a result of its own (valid until its next call): threads may each
+ * use one at the same time, while nothing else changes the run. */
+typedef struct al_assay_reader al_assay_reader;
+al_assay_reader *al_assay_reader_new(const al_assay *run); /* NULL: no memory */
+const al_group_result *al_assay_reader_result(al_assay_reader *rd, size_t i);
+void al_assay_reader_free(al_assay_reader *rd);
 al_assay_counts al_assay_get_counts(const al_assay *run);
 al_diags *al_assay_diags(al_assay *run);
 /* Cochran's tests of the run (one per product with two or more results

@@ -18,6 +18,8 @@ typedef struct al_report_options {
 	unsigned long guarded; /* out: text cells that were guarded */
 	const char *report_id; /* when set, a last column report_id holds
 				  "<report_id>-<row number>" */
+	int threads; /* 1: the report in one thread; 0: two where there are
+			many results (the same bytes either way) */
 } al_report_options;
 
 /* Formats a number with '.' (or ',' when decimal_comma) as decimal point,

@@ -4,9 +4,11 @@
 #define ACIDLOT_TEST_CATALOGUE
 #include "testutil.h"
 
+#include <stdlib.h>
 #include <string.h>
 
 #include "acidlot/assay.h"
+#include "acidlot/report.h"
 
 static al_assay *
 run_text(const char *text, al_status *st)
@@ -123,6 +125,83 @@ endpoint_flag(void **state)
 	al_assay_free(run);
 }
 
+/* The report of many results, written in one thread and in two: the
+ * same bytes and the same count of guarded cells. The rows vary so that
+ * results differ in n, flags and verdict; some names start with '=' (a
+ * guarded cell), and one stretch of results has names long enough that
+ * its chunk overflows the second thread's buffer and is done again. The
+ * one-thread report is the reference here: the two must agree. */
+static char *
+report_text(const al_assay *run, int threads, unsigned long *guarded)
+{
+	al_report_options ro;
+	char *buf = NULL;
+	size_t len = 0;
+	FILE *f = open_memstream(&buf, &len);
+
+	assert_non_null(f);
+	memset(&ro, 0, sizeof ro);
+	ro.decimals = -1;
+	ro.threads = threads;
+	ro.report_id = "R1";
+	assert_int_equal(al_report_write(f, run, &ro), AL_OK);
+	assert_int_equal(fclose(f), 0);
+	*guarded = ro.guarded;
+	return buf;
+}
+
+static void
+report_two_threads(void **state)
+{
+	enum { SAMPLES = 30000 };
+	size_t cap = (size_t)SAMPLES * 4 * 160 + 2000 * 1500, len = 0;
+	char *text = malloc(cap), *one, *two;
+	unsigned long g1, g2;
+	char name[1600];
+	al_status st;
+	al_assay *run;
+
+	(void)state;
+	assert_non_null(text);
+	len += (size_t)snprintf(text + len, cap - len,
+				"product,lot,sample,mass_g,titrant_ml,"
+				"titrant_mol_l\n");
+	for (int i = 0; i < SAMPLES; i++) {
+		int reps = 1 + i % 4;
+
+		if (i >= 1100 && i < 2100) {
+			memset(name, 'x', 1500);
+			snprintf(name + 1500, 100, "%d", i);
+		} else {
+			snprintf(name, sizeof name, "%sS%d", i % 7 ? "" : "=",
+				 i);
+		}
+		for (int r = 0; r < reps; r++)
+			len += (size_t)snprintf(
+				text + len, cap - len,
+				"P%d,L%d,%s,%.3f,%.2f,0.1000\n", i % 3, i / 50,
+				name, 10 + 0.01 * ((i * 7 + r * 3) % 11),
+				14 + 0.05 * ((i * 5 + r * 13) % 17) +
+					(r == 3 && i % 5 == 0 ? 3 : 0));
+		assert_true(len < cap);
+	}
+	run = run_text(text, &st);
+	assert_int_equal(st, AL_OK);
+	assert_int_equal(al_assay_group_count(run), SAMPLES);
+	one = report_text(run, 1, &g1);
+	two = report_text(run, 0, &g2);
+	assert_true(strlen(one) > (size_t)SAMPLES * 100);
+	/* not assert_string_equal: it would print megabytes */
+	assert_int_equal(strlen(one), strlen(two));
+	assert_true(strcmp(one, two) == 0);
+	assert_true(g1 > 0);
+	assert_int_equal(g1, g2);
+	free(one);
+	free(two);
+	free(text);
+	al_assay_free(run);
+}
+
 int
 main(void)
 {
@@ -130,6 +209,7 @@ main(void)
 		cmocka_unit_test(interleaved_equals_adjacent),
 		cmocka_unit_test(counts_and_errors),
 		cmocka_unit_test(endpoint_flag),
+		cmocka_unit_test(report_two_threads),
 	};
 
 	return cmocka_run_group_tests(tests, setup, teardown);
