@@ -113,8 +113,8 @@ struct al_assay {
 	size_t arena_len, arena_cap;
 	struct group *groups;
 	size_t n_groups, groups_cap;
-	uint32_t *slots; /* hash: SLOT_TAG bits of the key's hash over
-			    group index + 1; 0 = empty */
+	uint64_t *slots; /* hash: 32 bits of the key's hash over group
+			    index + 1; 0 = empty */
 	size_t n_slots;
 
 	char **files;
@@ -353,40 +353,32 @@ key_parts(const al_assay *run, const struct group *g, size_t *pl, size_t *ll)
 	return k;
 }
 
-/* key_hash of a stored key: the same bytes, contiguous in the arena. */
-static uint64_t
-group_hash(const al_assay *run, const struct group *g)
-{
-	size_t pl, ll;
-	const char *k = key_parts(run, g, &pl, &ll);
-	size_t len = pl + ll + 2 + strlen(k + pl + ll + 2);
-
-	return finalise(hash_bytes(14695981039346656037ULL, k, len));
-}
-
-/* A slot holds 6 bits of the key's hash above the group's number, so
- * that most probes settle without touching the group: up to 2^26 - 1
- * groups (67 million results). */
-#define SLOT_BITS 26
-#define SLOT_INDEX(v) ((v) & ((1u << SLOT_BITS) - 1))
-#define SLOT_TAG(h) ((uint32_t)((h) >> 58) << SLOT_BITS)
-#define MAX_GROUPS ((1u << SLOT_BITS) - 1)
+/* A slot holds the top 32 bits of the key's hash above the group's
+ * number + 1: a probe settles without touching a group but for the
+ * key's own (a false match has odds of 2^-32 a slot), and the table
+ * grows without reading the keys again. The slot's place comes from the
+ * same 32 bits. */
+#define SLOT_HASH(h) ((uint32_t)((h) >> 32))
+#define SLOT_OF(h32, index) ((uint64_t)(h32) << 32 | (uint32_t)((index) + 1))
+#define MAX_GROUPS (UINT32_MAX - 1)
 
 static al_status
 rehash(al_assay *run)
 {
 	size_t n = run->n_slots ? 2 * run->n_slots : 1024;
-	uint32_t *slots = al_calloc(n, sizeof *slots);
+	uint64_t *slots = al_calloc(n, sizeof *slots);
 
 	if (slots == NULL)
 		return AL_ENOMEM;
-	for (size_t i = 0; i < run->n_groups; i++) {
-		uint64_t h = group_hash(run, &run->groups[i]);
-		size_t j = (size_t)h & (n - 1);
+	for (size_t i = 0; i < run->n_slots; i++) {
+		uint64_t v = run->slots[i];
+		size_t j;
 
-		while (slots[j])
-			j = (j + 1) & (n - 1);
-		slots[j] = SLOT_TAG(h) | (uint32_t)(i + 1);
+		if (v == 0)
+			continue;
+		for (j = (v >> 32) & (n - 1); slots[j]; j = (j + 1) & (n - 1))
+			;
+		slots[j] = v;
 	}
 	al_free(run->slots);
 	run->slots = slots;
@@ -401,7 +393,7 @@ static al_status
 find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	   const char *s, size_t sl, struct group **out, int *created)
 {
-	uint64_t h;
+	uint32_t h32;
 	size_t j, need;
 	struct group *g;
 
@@ -417,16 +409,16 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 		if (rehash(run) != AL_OK)
 			return AL_ENOMEM;
 	}
-	h = key_hash(p, pl, l, ll, s, sl);
-	for (j = (size_t)h & (run->n_slots - 1); run->slots[j];
+	h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
+	for (j = h32 & (run->n_slots - 1); run->slots[j];
 	     j = (j + 1) & (run->n_slots - 1)) {
-		uint32_t v = run->slots[j];
+		uint64_t v = run->slots[j];
 
-		if ((v & ~((1u << SLOT_BITS) - 1)) != SLOT_TAG(h))
+		if ((uint32_t)(v >> 32) != h32)
 			continue;
-		g = &run->groups[SLOT_INDEX(v) - 1];
+		g = &run->groups[(uint32_t)v - 1];
 		if (group_is(run, g, p, pl, l, ll, s, sl)) {
-			run->last_group = SLOT_INDEX(v);
+			run->last_group = (uint32_t)v;
 			*out = g;
 			return AL_OK;
 		}
@@ -467,7 +459,7 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	memcpy(run->arena + run->arena_len + pl + ll + 2, s, sl);
 	run->arena[run->arena_len + pl + ll + 2 + sl] = '\0';
 	run->arena_len += need;
-	run->slots[j] = SLOT_TAG(h) | (uint32_t)(run->n_groups + 1);
+	run->slots[j] = SLOT_OF(h32, run->n_groups);
 	run->n_groups++;
 	run->last_group = (uint32_t)run->n_groups;
 	*out = g;
