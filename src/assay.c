@@ -12,6 +12,7 @@
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
 #include "evaluate.h"
+#include "lanes.h"
 
 /* The endpoint must titrate at least this share of the protons that the
  * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
@@ -1600,47 +1601,152 @@ note_used(const void ***list, size_t *n, const void *item)
 	return 0;
 }
 
+/* What finish keeps of a result: the counts, the flags, the acids and
+ * specs used and Cochran's sums, taken in result order. */
+struct judged {
+	const char *product;
+	const al_acid *acid;
+	const al_spec *spec;
+	double var;
+	size_t n;
+	unsigned flags;
+	int verdict, has_sd;
+};
+
+/* Results go in chunks of FINISH_CHUNK; from FINISH_THREADED results on,
+ * a second thread evaluates every other chunk (lanes.h). */
+#define FINISH_CHUNK 1024
+#define FINISH_THREADED (8 * FINISH_CHUNK)
+
+struct finish_job {
+	al_assay *run;
+	al_assay_reader *rd; /* the second thread's */
+	al_cochran_acc *acc;
+	int oom;
+	struct judged *slot[2];
+};
+
+static void
+judge(const al_group_result *r, struct judged *x)
+{
+	x->product = r->product;
+	x->acid = r->acid;
+	x->spec = r->spec;
+	x->has_sd = r->stats.has_sd;
+	x->var = r->stats.sd * r->stats.sd;
+	x->n = r->stats.n;
+	x->flags = r->flags;
+	x->verdict = r->verdict;
+}
+
+/* The in-order part, result by result. */
+static void
+take_judged(struct finish_job *j, size_t i, const struct judged *x)
+{
+	al_assay *run = j->run;
+
+	if (j->oom)
+		return;
+	if (x->has_sd &&
+	    al_cochran_acc_add(j->acc, x->product, x->n, x->var, i) != 0)
+		j->oom = 1;
+	if (note_used((const void ***)&run->acids_used, &run->n_acids_used,
+		      x->acid) != 0 ||
+	    note_used((const void ***)&run->specs_used, &run->n_specs_used,
+		      x->spec) != 0)
+		j->oom = 1;
+	run->groups[i].verdict = (uint8_t)x->verdict;
+	/* evaluation only adds flags, so keeping them all changes no later
+	 * evaluation and lets al_assay_result_flags answer without one */
+	run->groups[i].flags = x->flags;
+}
+
+static size_t
+finish_end(const al_assay *run, size_t c)
+{
+	size_t e = (c + 1) * FINISH_CHUNK;
+
+	return e < run->n_groups ? e : run->n_groups;
+}
+
+static void
+finish_own(void *ctx, size_t c)
+{
+	struct finish_job *j = ctx;
+
+	for (size_t i = c * FINISH_CHUNK; i < finish_end(j->run, c); i++) {
+		struct judged x;
+
+		judge(reader_result(&j->run->own, i), &x);
+		take_judged(j, i, &x);
+	}
+}
+
+static void
+finish_make(void *ctx, size_t c, int s)
+{
+	struct finish_job *j = ctx;
+	size_t b = c * FINISH_CHUNK;
+
+	for (size_t i = b; i < finish_end(j->run, c); i++)
+		judge(reader_result(j->rd, i), &j->slot[s][i - b]);
+}
+
+static void
+finish_take(void *ctx, size_t c, int s)
+{
+	struct finish_job *j = ctx;
+	size_t b = c * FINISH_CHUNK;
+
+	for (size_t i = b; i < finish_end(j->run, c); i++)
+		take_judged(j, i, &j->slot[s][i - b]);
+}
+
 al_status
 al_assay_finish(al_assay *run)
 {
-	al_cochran_acc *acc;
-	int oom = 0;
+	struct finish_job j;
+	size_t n_chunks = (run->n_groups + FINISH_CHUNK - 1) / FINISH_CHUNK;
 
 	/* the key index is not needed any more */
 	al_free(run->slots);
 	run->slots = NULL;
 	run->n_slots = 0;
 	run->last_group = 0;
-	acc = al_cochran_acc_new();
-	if (acc == NULL)
+	memset(&j, 0, sizeof j);
+	j.run = run;
+	j.acc = al_cochran_acc_new();
+	if (j.acc == NULL)
 		return AL_ENOMEM;
 	run->finished = 1;
 	run->own.run = run;
 	run->own.cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
-	for (size_t i = 0; i < run->n_groups && !oom; i++) {
-		const al_group_result *r = reader_result(&run->own, i);
-
-		if (r->stats.has_sd &&
-		    al_cochran_acc_add(acc, r->product, r->stats.n,
-				       r->stats.sd * r->stats.sd, i) != 0)
-			oom = 1;
-		if (note_used((const void ***)&run->acids_used,
-			      &run->n_acids_used, r->acid) != 0 ||
-		    note_used((const void ***)&run->specs_used,
-			      &run->n_specs_used, r->spec) != 0)
-			oom = 1;
-		run->groups[i].verdict = (uint8_t)r->verdict;
-		/* evaluation only adds flags, so keeping them all changes no
-		 * later evaluation and lets al_assay_result_flags answer
-		 * without one */
-		run->groups[i].flags = r->flags;
+	if (run->n_groups >= FINISH_THREADED && run->opt.threads != 1) {
+		j.rd = al_assay_reader_new(run);
+		j.slot[0] = al_malloc(FINISH_CHUNK * sizeof *j.slot[0]);
+		j.slot[1] = al_malloc(FINISH_CHUNK * sizeof *j.slot[1]);
+		if (j.rd == NULL || j.slot[0] == NULL || j.slot[1] == NULL)
+			j.oom = 1;
 	}
-	if (!oom)
-		run->cochran = al_cochran_acc_finish(acc, &run->n_cochran, &oom);
-	al_cochran_acc_free(acc);
-	if (oom)
+	if (!j.oom && j.rd != NULL) {
+		al_lanes job = {&j, n_chunks, finish_own, finish_make,
+				finish_take};
+
+		al_lanes_run(&job);
+	} else if (!j.oom) {
+		for (size_t c = 0; c < n_chunks; c++)
+			finish_own(&j, c);
+	}
+	al_free(j.slot[0]);
+	al_free(j.slot[1]);
+	al_assay_reader_free(j.rd);
+	if (!j.oom)
+		run->cochran = al_cochran_acc_finish(j.acc, &run->n_cochran,
+						     &j.oom);
+	al_cochran_acc_free(j.acc);
+	if (j.oom)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < run->n_cochran; i++) {
 		const al_cochran *c = &run->cochran[i];

@@ -4,11 +4,11 @@
 
 #include <locale.h>
 #include <math.h>
-#include <pthread.h>
 #include <stdint.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "lanes.h"
 
 static char
 delim_of(const al_report_options *opt)
@@ -417,61 +417,63 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 	}
 }
 
-/* A report of many results is written by two threads: results go in
- * chunks of CHUNK, the even chunks formatted by the calling thread, the
- * odd ones by a second into one of two buffers, which the caller writes
- * in their turn, so the bytes are those of one thread. A chunk that
- * does not fit its buffer (lines of over 1 KiB on average) is formatted
- * again by the caller. */
+/* A report of many results is written by two threads (lanes.h): results
+ * go in chunks of CHUNK, the even ones formatted by the caller, the odd
+ * ones by a second thread into a buffer that the caller then writes, so
+ * the bytes are those of one thread. A chunk that does not fit its
+ * buffer (lines of over 1 KiB on average) is formatted again by the
+ * caller. */
 #define CHUNK 1024
 #define CHUNK_BYTES (1u << 20)
 #define THREAD_MIN (8 * CHUNK) /* fewer results: one thread */
 
-struct lane {
-	pthread_mutex_t mu;
-	pthread_cond_t cv;
+struct report_job {
+	struct sink *k; /* the caller's */
 	const al_assay *run;
-	al_assay_reader *rd;
+	al_assay_reader *rd; /* the second thread's */
 	const al_report_options *opt;
-	const char *point;
 	size_t n;
-	struct {
-		char *buf;
-		size_t len;
-		int done, full;
-		unsigned long guarded;
-	} slot[2];
+	struct sink slot[2];
 };
 
-static void *
-lane_run(void *arg)
+static size_t
+chunk_end(size_t c, size_t n)
 {
-	struct lane *ln = arg;
+	return (c + 1) * CHUNK < n ? (c + 1) * CHUNK : n;
+}
 
-	for (size_t m = 0;; m++) {
-		size_t begin = (2 * m + 1) * CHUNK;
-		size_t end = begin + CHUNK < ln->n ? begin + CHUNK : ln->n;
-		int s = (int)(m & 1);
-		struct sink k;
+static void
+report_own(void *ctx, size_t c)
+{
+	struct report_job *j = ctx;
 
-		if (begin >= ln->n)
-			break;
-		pthread_mutex_lock(&ln->mu);
-		while (ln->slot[s].done)
-			pthread_cond_wait(&ln->cv, &ln->mu);
-		pthread_mutex_unlock(&ln->mu);
-		sink_open(&k, NULL, ln->slot[s].buf, CHUNK_BYTES);
-		k.point = ln->point;
-		put_results(&k, ln->run, ln->rd, begin, end, ln->opt);
-		pthread_mutex_lock(&ln->mu);
-		ln->slot[s].len = k.len;
-		ln->slot[s].full = k.full;
-		ln->slot[s].guarded = k.guarded;
-		ln->slot[s].done = 1;
-		pthread_cond_broadcast(&ln->cv);
-		pthread_mutex_unlock(&ln->mu);
+	put_results(j->k, j->run, NULL, c * CHUNK, chunk_end(c, j->n), j->opt);
+}
+
+static void
+report_make(void *ctx, size_t c, int s)
+{
+	struct report_job *j = ctx;
+	struct sink *k = &j->slot[s];
+
+	k->len = 0;
+	k->full = 0;
+	k->guarded = 0;
+	put_results(k, j->run, j->rd, c * CHUNK, chunk_end(c, j->n), j->opt);
+}
+
+static void
+report_take(void *ctx, size_t c, int s)
+{
+	struct report_job *j = ctx;
+	struct sink *k = &j->slot[s];
+
+	if (k->full) {
+		report_own(ctx, c);
+		return;
 	}
-	return NULL;
+	sink_put(j->k, k->buf, k->len);
+	j->k->guarded += k->guarded;
 }
 
 /* Writes results [0, n) through k, two threads at a time; AL_ENOMEM
@@ -480,61 +482,36 @@ static al_status
 put_results_2(struct sink *k, const al_assay *run, size_t n,
 	      const al_report_options *opt)
 {
-	struct lane ln;
-	pthread_t th;
+	struct report_job j;
+	al_lanes job;
 	al_status st = AL_OK;
+	char *buf[2];
 
-	memset(&ln, 0, sizeof ln);
-	ln.run = run;
-	ln.opt = opt;
-	ln.n = n;
-	ln.point = k->point;
-	ln.rd = al_assay_reader_new(run);
-	ln.slot[0].buf = al_malloc(CHUNK_BYTES);
-	ln.slot[1].buf = al_malloc(CHUNK_BYTES);
-	if (ln.rd == NULL || ln.slot[0].buf == NULL || ln.slot[1].buf == NULL) {
+	j.k = k;
+	j.run = run;
+	j.opt = opt;
+	j.n = n;
+	j.rd = al_assay_reader_new(run);
+	buf[0] = al_malloc(CHUNK_BYTES);
+	buf[1] = al_malloc(CHUNK_BYTES);
+	if (j.rd != NULL && buf[0] != NULL && buf[1] != NULL) {
+		for (int s = 0; s < 2; s++) {
+			sink_open(&j.slot[s], NULL, buf[s], CHUNK_BYTES);
+			/* localeconv is not for threads: the caller's point */
+			j.slot[s].point = k->point;
+		}
+		job.ctx = &j;
+		job.n_chunks = (n + CHUNK - 1) / CHUNK;
+		job.own = report_own;
+		job.make = report_make;
+		job.take = report_take;
+		al_lanes_run(&job);
+	} else {
 		st = AL_ENOMEM;
-		goto out;
 	}
-	pthread_mutex_init(&ln.mu, NULL);
-	pthread_cond_init(&ln.cv, NULL);
-	if (pthread_create(&th, NULL, lane_run, &ln) != 0) {
-		/* no second thread to be had: the same bytes from one */
-		put_results(k, run, NULL, 0, n, opt);
-		goto destroy;
-	}
-	for (size_t c = 0; c * CHUNK < n; c++) {
-		size_t begin = c * CHUNK;
-		size_t end = begin + CHUNK < n ? begin + CHUNK : n;
-		int s = (int)((c / 2) & 1);
-
-		if (c % 2 == 0) {
-			put_results(k, run, NULL, begin, end, opt);
-			continue;
-		}
-		pthread_mutex_lock(&ln.mu);
-		while (!ln.slot[s].done)
-			pthread_cond_wait(&ln.cv, &ln.mu);
-		pthread_mutex_unlock(&ln.mu);
-		if (ln.slot[s].full) {
-			put_results(k, run, NULL, begin, end, opt);
-		} else {
-			sink_put(k, ln.slot[s].buf, ln.slot[s].len);
-			k->guarded += ln.slot[s].guarded;
-		}
-		pthread_mutex_lock(&ln.mu);
-		ln.slot[s].done = 0;
-		pthread_cond_broadcast(&ln.cv);
-		pthread_mutex_unlock(&ln.mu);
-	}
-	pthread_join(th, NULL);
-destroy:
-	pthread_cond_destroy(&ln.cv);
-	pthread_mutex_destroy(&ln.mu);
-out:
-	al_free(ln.slot[0].buf);
-	al_free(ln.slot[1].buf);
-	al_assay_reader_free(ln.rd);
+	al_free(buf[0]);
+	al_free(buf[1]);
+	al_assay_reader_free(j.rd);
 	return st;
 }
 

@@ -74,6 +74,8 @@ typedef struct al_assay_options {
 	al_qc_options qc;
 	int anhydrous; /* results on the anhydrous basis (needs water_pct)
 			  for groups whose specification names no basis */
+	int threads;   /* 1: al_assay_finish in one thread; 0: two where
+			  there are many results (the same results) */
 } al_assay_options;
 
 /* Flags on a titration row and on a group (a group carries the union of

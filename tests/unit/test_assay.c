@@ -11,7 +11,7 @@
 #include "acidlot/report.h"
 
 static al_assay *
-run_text(const char *text, al_status *st)
+run_text_threads(const char *text, int threads, al_status *st)
 {
 	al_assay_options opt;
 	al_assay *run;
@@ -20,6 +20,7 @@ run_text(const char *text, al_status *st)
 	assert_non_null(f);
 	memset(&opt, 0, sizeof opt);
 	opt.catalogue = cat;
+	opt.threads = threads;
 	run = al_assay_new(&opt, st);
 	assert_non_null(run);
 	*st = al_assay_read(run, f, "t.csv", NULL, NULL);
@@ -27,6 +28,12 @@ run_text(const char *text, al_status *st)
 	if (*st == AL_OK)
 		*st = al_assay_finish(run);
 	return run;
+}
+
+static al_assay *
+run_text(const char *text, al_status *st)
+{
+	return run_text_threads(text, 0, st);
 }
 
 /* Each replicate by the AOAC 942.15 formula with citric acid's molar mass
@@ -125,8 +132,9 @@ endpoint_flag(void **state)
 	al_assay_free(run);
 }
 
-/* The report of many results, written in one thread and in two: the
- * same bytes and the same count of guarded cells. The rows vary so that
+/* A run of many results, finished and reported in one thread and in
+ * two: the same counts, flags and Cochran tests, the same report bytes
+ * and the same count of guarded cells. The rows vary so that
  * results differ in n, flags and verdict; some names start with '=' (a
  * guarded cell), and one stretch of results has names long enough that
  * its chunk overflows the second thread's buffer and is done again. The
@@ -159,7 +167,7 @@ report_two_threads(void **state)
 	unsigned long g1, g2;
 	char name[1600];
 	al_status st;
-	al_assay *run;
+	al_assay *run, *run1;
 
 	(void)state;
 	assert_non_null(text);
@@ -185,10 +193,34 @@ report_two_threads(void **state)
 					(r == 3 && i % 5 == 0 ? 3 : 0));
 		assert_true(len < cap);
 	}
-	run = run_text(text, &st);
+	/* the whole run in one thread, and in two (finish and report) */
+	run1 = run_text_threads(text, 1, &st);
+	assert_int_equal(st, AL_OK);
+	run = run_text_threads(text, 0, &st);
 	assert_int_equal(st, AL_OK);
 	assert_int_equal(al_assay_group_count(run), SAMPLES);
-	one = report_text(run, 1, &g1);
+	{
+		al_assay_counts c1 = al_assay_get_counts(run1),
+				c2 = al_assay_get_counts(run);
+
+		assert_memory_equal(c1.by_verdict, c2.by_verdict,
+				    sizeof c1.by_verdict);
+		assert_true(c1.by_verdict[AL_VERDICT_NO_SPEC] == SAMPLES);
+		assert_int_equal(al_assay_cochran_count(run1),
+				 al_assay_cochran_count(run));
+		assert_true(al_assay_cochran_count(run) > 0);
+		for (size_t i = 0; i < al_assay_cochran_count(run); i++) {
+			const al_cochran *a1 = al_assay_cochran_at(run1, i),
+					 *a2 = al_assay_cochran_at(run, i);
+
+			assert_true(a1->c == a2->c);
+			assert_int_equal(a1->result, a2->result);
+		}
+		for (size_t i = 0; i < SAMPLES; i++)
+			assert_int_equal(al_assay_result_flags(run1, i),
+					 al_assay_result_flags(run, i));
+	}
+	one = report_text(run1, 1, &g1);
 	two = report_text(run, 0, &g2);
 	assert_true(strlen(one) > (size_t)SAMPLES * 100);
 	/* not assert_string_equal: it would print megabytes */
@@ -200,6 +232,7 @@ report_two_threads(void **state)
 	free(two);
 	free(text);
 	al_assay_free(run);
+	al_assay_free(run1);
 }
 
 int
