@@ -387,21 +387,43 @@ rehash(al_assay *run)
 	return AL_OK;
 }
 
-/* Finds the group of a key, or creates it; *created tells which. The
- * previous row's group is tried first: replicates usually follow each
- * other. */
+/* How a row's key will be found: the previous row's group (replicates
+ * usually follow each other), or else by its hash. */
+struct key_look {
+	int same;     /* the previous row's group */
+	uint32_t h32; /* else SLOT_HASH of the key */
+};
+
+/* Looks at a row's key as soon as its cells are known: at millions of
+ * samples the key's slot is a cache miss, and fetching it now lets the
+ * checks of the row's other cells run while it comes. */
+static void
+key_ahead(const al_assay *run, const char *p, size_t pl, const char *l,
+	  size_t ll, const char *s, size_t sl, struct key_look *k)
+{
+	k->same = run->last_group &&
+		  group_is(run, &run->groups[run->last_group - 1], p, pl, l,
+			   ll, s, sl);
+	if (k->same)
+		return;
+	k->h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
+	if (run->n_slots)
+		__builtin_prefetch(&run->slots[k->h32 & (run->n_slots - 1)]);
+}
+
+/* Finds the group of a key seen by key_ahead, or creates it; *created
+ * tells which. */
 static al_status
 find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
-	   const char *s, size_t sl, struct group **out, int *created)
+	   const char *s, size_t sl, const struct key_look *k,
+	   struct group **out, int *created)
 {
-	uint32_t h32;
+	uint32_t h32 = k->h32;
 	size_t j, need;
 	struct group *g;
 
 	*created = 0;
-	if (run->last_group &&
-	    group_is(run, &run->groups[run->last_group - 1], p, pl, l, ll, s,
-		     sl)) {
+	if (k->same) {
 		*out = &run->groups[run->last_group - 1];
 		return AL_OK;
 	}
@@ -410,7 +432,6 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 		if (rehash(run) != AL_OK)
 			return AL_ENOMEM;
 	}
-	h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
 	for (j = h32 & (run->n_slots - 1); run->slots[j];
 	     j = (j + 1) & (run->n_slots - 1)) {
 		uint64_t v = run->slots[j];
@@ -1064,10 +1085,13 @@ bad_row(al_assay *run, const al_csv_row *row)
 		if (st == AL_OK && row->nfields == run->header_fields &&
 		    text_cells(run, row, text, tl) == AL_OK && tl[2] > 0) {
 			struct group *g;
+			struct key_look k;
 			int created;
 
+			key_ahead(run, text[0], tl[0], text[1], tl[1], text[2],
+				  tl[2], &k);
 			st = find_group(run, text[0], tl[0], text[1], tl[1],
-					text[2], tl[2], &g, &created);
+					text[2], tl[2], &k, &g, &created);
 			if (st == AL_OK && created)
 				init_group(g, row->line);
 			if (st == AL_OK)
@@ -1109,6 +1133,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	double needed = 0, conc_u = -1, brix = 0, water = 0;
 	int got_brix, got_water;
 	struct group *g;
+	struct key_look look;
 	int created;
 	al_status st;
 
@@ -1140,6 +1165,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	sample = text[2];
 	replicate = text[3];
 	acid_name = text[4];
+	key_ahead(run, product, tl[0], lot, tl[1], sample, tl[2], &look);
 	{
 		static const char *const names[5] = {"product", "lot", "sample",
 						     "replicate", "acid"};
@@ -1272,8 +1298,8 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (run->row_diags.errors != 0 || acid == NULL)
 		return AL_OK;
 
-	st = find_group(run, product, tl[0], lot, tl[1], sample, tl[2], &g,
-			&created);
+	st = find_group(run, product, tl[0], lot, tl[1], sample, tl[2], &look,
+			&g, &created);
 	if (st != AL_OK)
 		return st;
 	if (created)
