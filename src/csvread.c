@@ -429,7 +429,7 @@ static int
 fast_record(struct reader *r, const char *line, size_t len, char term)
 {
 	const char d = r->delimiter;
-	size_t nf = 1, k = 0, start = 0;
+	size_t k = 0, start = 0;
 	int content = 0;
 	al_csv_row row;
 	al_status st;
@@ -438,40 +438,42 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 	if (r->opt->no_fast_path || len == 0 || len >= r->max_field ||
 	    len > AL_CSV_MAX_RECORD)
 		return 0;
-	for (size_t i = 0; i < len; i++) {
-		char c = line[i];
-
-		if (c == '"' || c == '\0')
-			return 0;
-		if (c == d)
-			nf++;
-		else if (c != ' ' && c != '\t')
-			content = 1;
-	}
-	if (!content || nf > AL_CSV_MAX_FIELDS)
-		return 0;
-	if (!grow_fields(r, nf)) {
-		fail(r, AL_ENOMEM, 0, NULL);
-		return 1;
-	}
 	if (!grow_buf(r, len + 1)) {
 		fail(r, AL_ENOMEM, 0, NULL);
 		return 1;
 	}
+	/* one pass: copy, split at the delimiter and trim each field; a
+	 * quote or a NUL leaves the line to libcsv (nothing is done until
+	 * row_fn) */
 	b = r->buf;
-	memcpy(b, line, len);
-	b[len] = '\0';
 	for (size_t i = 0; i <= len; i++) {
+		char c = i < len ? line[i] : d; /* the end closes the last field */
 		size_t a, e;
 
-		if (i < len && b[i] != d)
+		if (c == '"' || c == '\0')
+			return 0;
+		if (c != d) {
+			b[i] = c;
+			if (c != ' ' && c != '\t')
+				content = 1;
 			continue;
+		}
+		if (k == r->fields_cap) {
+			size_t n = k ? 2 * k : 16;
+
+			if (k == AL_CSV_MAX_FIELDS)
+				return 0; /* libcsv's path says why */
+			if (!grow_fields(r, n < AL_CSV_MAX_FIELDS ? n
+						: AL_CSV_MAX_FIELDS)) {
+				fail(r, AL_ENOMEM, 0, NULL);
+				return 1;
+			}
+		}
 		a = start;
 		e = i;
-		while (a < e && (b[a] == ' ' || b[a] == '\t') && b[a] != d)
+		while (a < e && (b[a] == ' ' || b[a] == '\t'))
 			a++;
-		while (e > a && (b[e - 1] == ' ' || b[e - 1] == '\t') &&
-		       b[e - 1] != d)
+		while (e > a && (b[e - 1] == ' ' || b[e - 1] == '\t'))
 			e--;
 		b[e] = '\0';
 		r->ptrs[k] = b + a;
@@ -479,6 +481,8 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 		k++;
 		start = i + 1;
 	}
+	if (!content)
+		return 0;
 	memset(&row, 0, sizeof row);
 	row.nfields = k;
 	row.fields = r->ptrs;
