@@ -4,6 +4,7 @@
 
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_roots.h>
+#include <pthread.h>
 #include <string.h>
 
 #include "acidlot/number.h"
@@ -15,7 +16,7 @@ extern const size_t al_ref_brix_acid_correction_len;
 
 #define TABLE_MAX 32
 static double acid_pct[TABLE_MAX + 1], corr[TABLE_MAX + 1];
-static int table_n = -1;
+static int table_n;
 
 static void
 load_table(void)
@@ -48,8 +49,11 @@ load_table(void)
 al_status
 al_brix_acid_correction(double citric_pct, double *correction)
 {
-	if (table_n < 0)
-		load_table();
+	static pthread_once_t once = PTHREAD_ONCE_INIT;
+
+	/* once, whichever thread asks first (the results may be
+	 * evaluated in two) */
+	pthread_once(&once, load_table);
 	if (!(citric_pct >= 0) || citric_pct > acid_pct[table_n - 1])
 		return AL_EDOMAIN;
 	for (int i = 1; i < table_n; i++)

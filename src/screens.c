@@ -6,6 +6,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_integration.h>
 #include <math.h>
+#include <pthread.h>
 #include <string.h>
 
 #include "acidlot/number.h"
@@ -104,7 +105,6 @@ extern const unsigned char al_ref_dixon_r10[];
 extern const size_t al_ref_dixon_r10_len;
 
 static double dixon[11][3];
-static int dixon_loaded;
 
 static void
 load_dixon(void)
@@ -112,7 +112,6 @@ load_dixon(void)
 	const char *p = (const char *)al_ref_dixon_r10;
 	const char *end = p + al_ref_dixon_r10_len;
 
-	dixon_loaded = 1;
 	p = memchr(p, '\n', (size_t)(end - p)); /* skip the header */
 	while (p && ++p < end) {
 		const char *eol = memchr(p, '\n', (size_t)(end - p));
@@ -145,8 +144,11 @@ al_dixon_critical(size_t n, double level)
 
 	if (n < 3 || n > 10 || col < 0)
 		return 0;
-	if (!dixon_loaded)
-		load_dixon();
+	static pthread_once_t once = PTHREAD_ONCE_INIT;
+
+	/* once, whichever thread asks first (the results may be
+	 * evaluated in two) */
+	pthread_once(&once, load_dixon);
 	return dixon[n][col];
 }
 
