@@ -6,15 +6,18 @@
 #include <stdlib.h>
 #include <string.h>
 
-static unsigned long alloc_calls;
-static unsigned long alloc_fail_from; /* 0 = never fail */
+/* atomic: a large file is read in a second thread (csvread.c) */
+static _Atomic unsigned long alloc_calls;
+static _Atomic unsigned long alloc_fail_from; /* 0 = never fail */
 
 /* An injected failure looks like a real one: NULL and errno ENOMEM. */
 static int
 should_fail(void)
 {
-	alloc_calls++;
-	if (alloc_fail_from != 0 && alloc_calls >= alloc_fail_from) {
+	unsigned long n = ++alloc_calls;
+	unsigned long from = alloc_fail_from;
+
+	if (from != 0 && n >= from) {
 		errno = ENOMEM;
 		return 1;
 	}

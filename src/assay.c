@@ -1458,9 +1458,9 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 	return al_assay_read_source(run, al_read_stdio, in, name, on_row, ud);
 }
 
-al_status
-al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
-		     const char *name, al_replicate_fn on_row, void *ud)
+static al_status
+read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
+	    al_replicate_fn on_row, void *ud, int piped)
 {
 	char **files;
 	al_status st;
@@ -1487,8 +1487,10 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	run->header_done = run->header_ok = 0;
 	run->on_row = on_row;
 	run->ud = ud;
-	st = al_csv_read(&run->opt.csv, read_fn, ctx, run->file, on_csv_row,
-			 run, &run->diags);
+	st = (piped ? al_csv_read_piped : al_csv_read)(&run->opt.csv, read_fn,
+						       ctx, run->file,
+						       on_csv_row, run,
+						       &run->diags);
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	if (st == AL_OK && !run->header_done) {
@@ -1503,6 +1505,20 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	return st;
+}
+
+al_status
+al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
+		     const char *name, al_replicate_fn on_row, void *ud)
+{
+	return read_source(run, read_fn, ctx, name, on_row, ud, 0);
+}
+
+al_status
+al_assay_read_piped(al_assay *run, al_read_fn read_fn, void *ctx,
+		    const char *name, al_replicate_fn on_row, void *ud)
+{
+	return read_source(run, read_fn, ctx, name, on_row, ud, 1);
 }
 
 /* Hands the kept rows to on_row in input order, each with the screens'

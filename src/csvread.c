@@ -8,9 +8,13 @@
 #include "acidlot/csvread.h"
 
 #include <csv.h>
+#include <pthread.h>
+#include <stdint.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/number.h"
+#include "acidlot/table.h"
 
 #define CHUNK (64 * 1024)
 
@@ -785,4 +789,293 @@ al_csv_read_mem(const al_csv_options *opt, const char *data, size_t len,
 	struct mem_source m = {data, len, 0};
 
 	return al_csv_read(opt, read_mem, &m, name, row_fn, ud, diags);
+}
+
+/* Piped reading. The second thread runs al_csv_read; its row callback
+ * packs each record (and each field read as a number) into the batch it
+ * is filling, one of PIPE_BATCHES used in turn; the caller unpacks them
+ * in order and calls row_fn. A record is packed as
+ *   struct packed, numbers[nfields], lens[nfields] (uint32), raw \0,
+ *   syntax_error \0 (when set), each field \0,
+ * padded to 8 bytes. When row_fn stops the read, the second thread is
+ * told to stop too and what it found past that point is dropped, as
+ * al_csv_read would never have seen it. */
+#define PIPE_BATCHES 3
+#define PIPE_BYTES ((size_t)256 << 10)
+
+struct packed {
+	size_t size; /* of the whole record, padded */
+	size_t nfields, raw_len;
+	unsigned long line;
+	char delimiter;
+	char has_error;
+};
+
+struct pipe_batch {
+	char *buf;
+	size_t cap, len;
+	int full; /* handed to the caller, not yet given back */
+};
+
+struct pipe {
+	pthread_mutex_t mu;
+	pthread_cond_t cv;
+	const al_csv_options *opt;
+	al_read_fn read_fn;
+	void *read_ctx;
+	const char *name;
+	char point;
+	al_diags diags; /* the second thread's */
+	al_status status;
+	int done, quit;
+	size_t filling; /* the batch the second thread writes */
+	struct pipe_batch batch[PIPE_BATCHES];
+};
+
+static size_t
+pad8(size_t n)
+{
+	return (n + 7) & ~(size_t)7;
+}
+
+/* Hands the batch being filled to the caller and waits for the next. */
+static int
+pipe_publish(struct pipe *pp)
+{
+	int quit;
+
+	pthread_mutex_lock(&pp->mu);
+	pp->batch[pp->filling].full = 1;
+	pthread_cond_broadcast(&pp->cv);
+	pp->filling = (pp->filling + 1) % PIPE_BATCHES;
+	while (pp->batch[pp->filling].full && !pp->quit)
+		pthread_cond_wait(&pp->cv, &pp->mu);
+	quit = pp->quit;
+	pthread_mutex_unlock(&pp->mu);
+	if (quit)
+		return 0;
+	pp->batch[pp->filling].len = 0;
+	return 1;
+}
+
+static al_status
+pipe_pack(void *ud, const al_csv_row *row)
+{
+	struct pipe *pp = ud;
+	struct pipe_batch *b = &pp->batch[pp->filling];
+	size_t err_len = row->syntax_error ? strlen(row->syntax_error) + 1 : 0;
+	size_t need = sizeof(struct packed) +
+		      row->nfields * (sizeof(al_csv_number) + sizeof(uint32_t)) +
+		      row->raw_len + 1 + err_len;
+	struct packed *h;
+	al_csv_number *nums;
+	uint32_t *lens;
+	char *p;
+
+	for (size_t i = 0; i < row->nfields; i++)
+		need += row->lens[i] + 1;
+	need = pad8(need);
+	if (b->len + need > b->cap && b->len > 0) {
+		if (!pipe_publish(pp))
+			return AL_EINPUT; /* the caller stopped */
+		b = &pp->batch[pp->filling];
+	}
+	if (need > b->cap) {
+		char *grown = al_realloc(b->buf, need);
+
+		if (grown == NULL)
+			return AL_ENOMEM;
+		b->buf = grown;
+		b->cap = need;
+	}
+	h = (struct packed *)(void *)(b->buf + b->len);
+	h->size = need;
+	h->nfields = row->nfields;
+	h->raw_len = row->raw_len;
+	h->line = row->line;
+	h->delimiter = row->delimiter;
+	h->has_error = row->syntax_error != NULL;
+	nums = (al_csv_number *)(void *)(h + 1);
+	lens = (uint32_t *)(void *)(nums + row->nfields);
+	p = (char *)(lens + row->nfields);
+	memcpy(p, row->raw, row->raw_len);
+	p[row->raw_len] = '\0';
+	p += row->raw_len + 1;
+	if (err_len) {
+		memcpy(p, row->syntax_error, err_len);
+		p += err_len;
+	}
+	for (size_t i = 0; i < row->nfields; i++) {
+		size_t len = row->lens[i];
+		const char *s = al_trim(row->fields[i], &len);
+
+		nums[i].err = AL_NUM_EMPTY;
+		nums[i].value = 0;
+		if (len > 0)
+			nums[i].err = (int)al_number_parse(s, len, pp->point,
+							   &nums[i].value);
+		lens[i] = (uint32_t)row->lens[i];
+		memcpy(p, row->fields[i], row->lens[i]);
+		p[row->lens[i]] = '\0';
+		p += row->lens[i] + 1;
+	}
+	b->len += need;
+	return AL_OK;
+}
+
+static void *
+pipe_run(void *arg)
+{
+	struct pipe *pp = arg;
+	al_status st = al_csv_read(pp->opt, pp->read_fn, pp->read_ctx,
+				   pp->name, pipe_pack, pp, &pp->diags);
+
+	pthread_mutex_lock(&pp->mu);
+	if (!pp->quit) /* the last batch, however short */
+		pp->batch[pp->filling].full = 1;
+	pp->status = st;
+	pp->done = 1;
+	pthread_cond_broadcast(&pp->cv);
+	pthread_mutex_unlock(&pp->mu);
+	return NULL;
+}
+
+/* The caller's side: hands each record of a batch to row_fn. */
+static al_status
+pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
+	    void *ud, const char ***ptrs, size_t **lens, size_t *cap)
+{
+	for (size_t at = 0; at < b->len;) {
+		const struct packed *h = (const void *)(b->buf + at);
+		const al_csv_number *nums = (const void *)(h + 1);
+		const uint32_t *l32 = (const void *)(nums + h->nfields);
+		const char *p = (const char *)(l32 + h->nfields);
+		al_csv_row row;
+		al_status st;
+
+		if (h->nfields > *cap) {
+			const char **np = al_realloc((void *)*ptrs,
+						     h->nfields * sizeof *np);
+			size_t *nl;
+
+			if (np == NULL)
+				return AL_ENOMEM;
+			*ptrs = np;
+			nl = al_realloc(*lens, h->nfields * sizeof *nl);
+			if (nl == NULL)
+				return AL_ENOMEM;
+			*lens = nl;
+			*cap = h->nfields;
+		}
+		memset(&row, 0, sizeof row);
+		row.nfields = h->nfields;
+		row.line = h->line;
+		row.delimiter = h->delimiter;
+		row.raw = p;
+		row.raw_len = h->raw_len;
+		p += h->raw_len + 1;
+		if (h->has_error) {
+			row.syntax_error = p;
+			p += strlen(p) + 1;
+		}
+		for (size_t i = 0; i < h->nfields; i++) {
+			(*ptrs)[i] = p;
+			(*lens)[i] = l32[i];
+			p += l32[i] + 1;
+		}
+		row.fields = *ptrs;
+		row.lens = *lens;
+		row.numbers = h->nfields ? nums : NULL;
+		row.numbers_point = point;
+		st = row_fn(ud, &row);
+		if (st != AL_OK)
+			return st;
+		at += h->size;
+	}
+	return AL_OK;
+}
+
+al_status
+al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
+		  void *read_ctx, const char *name, al_csv_row_fn row_fn,
+		  void *ud, al_diags *diags)
+{
+	static const al_csv_options defaults = {0};
+	struct pipe pp;
+	pthread_t th;
+	const char **ptrs = NULL;
+	size_t *lens = NULL, cap = 0, at = 0;
+	al_status st = AL_OK;
+
+	memset(&pp, 0, sizeof pp);
+	pp.opt = opt ? opt : &defaults;
+	pp.read_fn = read_fn;
+	pp.read_ctx = read_ctx;
+	pp.name = name;
+	pp.point = pp.opt->decimal_point ? pp.opt->decimal_point : '.';
+	pp.diags.cap = diags->cap;
+	for (int i = 0; i < PIPE_BATCHES; i++) {
+		pp.batch[i].buf = al_malloc(PIPE_BYTES);
+		pp.batch[i].cap = PIPE_BYTES;
+		if (pp.batch[i].buf == NULL) {
+			st = AL_ENOMEM;
+			goto out;
+		}
+	}
+	pthread_mutex_init(&pp.mu, NULL);
+	pthread_cond_init(&pp.cv, NULL);
+	if (pthread_create(&th, NULL, pipe_run, &pp) != 0) {
+		pthread_cond_destroy(&pp.cv);
+		pthread_mutex_destroy(&pp.mu);
+		for (int i = 0; i < PIPE_BATCHES; i++)
+			al_free(pp.batch[i].buf);
+		/* no thread to be had: the same, in one */
+		return al_csv_read(opt, read_fn, read_ctx, name, row_fn, ud,
+				   diags);
+	}
+	for (;;) {
+		struct pipe_batch *b = &pp.batch[at];
+		int last;
+
+		pthread_mutex_lock(&pp.mu);
+		while (!b->full && !pp.done)
+			pthread_cond_wait(&pp.cv, &pp.mu);
+		last = pp.done && !b->full;
+		pthread_mutex_unlock(&pp.mu);
+		if (last)
+			break;
+		st = pipe_unpack(b, pp.point, row_fn, ud, &ptrs, &lens, &cap);
+		pthread_mutex_lock(&pp.mu);
+		b->full = 0;
+		if (st != AL_OK)
+			pp.quit = 1;
+		pthread_cond_broadcast(&pp.cv);
+		pthread_mutex_unlock(&pp.mu);
+		if (st != AL_OK)
+			break;
+		at = (at + 1) % PIPE_BATCHES;
+	}
+	pthread_join(th, NULL);
+	pthread_cond_destroy(&pp.cv);
+	pthread_mutex_destroy(&pp.mu);
+	if (st == AL_OK) {
+		/* the reader's own finding (it stops at its first) comes
+		 * after every record it handed on, as in al_csv_read */
+		for (size_t i = 0; i < pp.diags.count; i++) {
+			const al_diag *d = &pp.diags.items[i];
+
+			al_diags_add(diags, d->severity, d->file, d->line,
+				     d->column, "%s", d->message);
+		}
+		if (pp.diags.out_of_memory)
+			diags->out_of_memory = 1;
+		st = pp.status;
+	}
+out:
+	al_diags_clear(&pp.diags);
+	for (int i = 0; i < PIPE_BATCHES; i++)
+		al_free(pp.batch[i].buf);
+	al_free((void *)ptrs);
+	al_free(lens);
+	return st;
 }

@@ -13,6 +13,7 @@
 #include <errno.h>
 #include <locale.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
@@ -28,13 +29,22 @@ is_blank(char c)
 	return c == ' ' || c == '\t';
 }
 
+static locale_t loc;
+
+static void
+make_c_locale(void)
+{
+	loc = newlocale(LC_ALL_MASK, "C", (locale_t)0);
+}
+
+/* made once, whichever thread asks first (a large file's numbers are
+ * parsed in a thread of its own) */
 static locale_t
 c_locale(void)
 {
-	static locale_t loc;
+	static pthread_once_t once = PTHREAD_ONCE_INIT;
 
-	if (loc == (locale_t)0)
-		loc = newlocale(LC_ALL_MASK, "C", (locale_t)0);
+	pthread_once(&once, make_c_locale);
 	return loc;
 }
 

@@ -154,7 +154,14 @@ al_cell_number(const al_csv_row *row, int col, const char *column,
 
 	if (len == 0)
 		return 0;
-	err = al_number_parse(s, len, decimal_point, value);
+	if (row->numbers && row->numbers_point == decimal_point) {
+		/* parsed ahead, from the same bytes (al_csv_read_piped) */
+		err = (al_numerr)row->numbers[col].err;
+		if (err == AL_NUM_OK)
+			*value = row->numbers[col].value;
+	} else {
+		err = al_number_parse(s, len, decimal_point, value);
+	}
 	if (err == AL_NUM_OK)
 		return 1;
 	al_diags_add(diags, AL_SEV_ERROR, file, row->line, column,

@@ -31,6 +31,12 @@ typedef struct al_csv_options {
 /* One record. fields[i] is NUL-terminated and lens[i] its length; both
  * are valid only during the callback. line is the physical line (1-based)
  * on which the record starts. */
+/* A field parsed as a number by al_csv_read_piped's second thread. */
+typedef struct al_csv_number {
+	double value;
+	int err; /* al_numerr of al_number_parse */
+} al_csv_number;
+
 typedef struct al_csv_row {
 	size_t nfields;
 	const char *const *fields;
@@ -41,6 +47,10 @@ typedef struct al_csv_row {
 	char delimiter;   /* the delimiter in force (detected or given) */
 	const char *syntax_error; /* recover mode: why the record is malformed
 				     (then nfields is 0); NULL otherwise */
+	/* al_csv_read_piped: each field as al_number_parse with decimal
+	 * point numbers_point reads it; NULL otherwise */
+	const al_csv_number *numbers;
+	char numbers_point;
 } al_csv_row;
 
 /* Called for every record that has at least one field. Blank lines are
@@ -62,6 +72,14 @@ typedef size_t (*al_read_fn)(void *ctx, void *buf, size_t cap, int *failed);
 al_status al_csv_read(const al_csv_options *opt, al_read_fn read_fn,
 		      void *read_ctx, const char *name, al_csv_row_fn row_fn,
 		      void *ud, al_diags *diags);
+/* As al_csv_read, with the reading and splitting in a second thread,
+ * which also parses every field as a number (with opt's decimal point)
+ * for al_cell_number: row_fn runs in the caller's thread, record by
+ * record in order, and sees what al_csv_read would give it, diagnostics
+ * included. read_fn runs in the second thread. */
+al_status al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
+			    void *read_ctx, const char *name,
+			    al_csv_row_fn row_fn, void *ud, al_diags *diags);
 /* An al_read_fn over a stdio stream (ctx is the FILE *). */
 size_t al_read_stdio(void *ctx, void *buf, size_t cap, int *failed);
 
