@@ -69,6 +69,22 @@ al_free(void *ptr)
 	free(ptr);
 }
 
+void *
+al_reserve(void *buf, size_t *cap, size_t need)
+{
+	size_t n = *cap ? 2 * *cap : 1024;
+	void *grown;
+
+	if (need <= *cap)
+		return buf;
+	if (n < need)
+		n = need;
+	grown = al_realloc(buf, n);
+	if (grown != NULL)
+		*cap = n;
+	return grown;
+}
+
 char *
 al_strndup(const char *s, size_t len)
 {

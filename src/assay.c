@@ -861,13 +861,12 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 		src[i] = al_cell(row, run->col[which[i]], &lens[i]);
 		need += lens[i] + 1;
 	}
-	if (need > run->scratch_cap) {
-		char *grown = al_realloc(run->scratch, need);
+	{
+		char *grown = al_reserve(run->scratch, &run->scratch_cap, need);
 
 		if (grown == NULL)
 			return AL_ENOMEM;
 		run->scratch = grown;
-		run->scratch_cap = need;
 	}
 	for (int i = 0; i < 5; i++) {
 		memcpy(run->scratch + pos, src[i], lens[i]);

@@ -162,18 +162,11 @@ grow_fields(struct reader *r, size_t n)
 static int
 grow_buf(struct reader *r, size_t need)
 {
-	size_t n = r->buf_cap ? r->buf_cap : 1024;
-	char *grown;
+	char *grown = al_reserve(r->buf, &r->buf_cap, need);
 
-	if (need <= r->buf_cap)
-		return 1;
-	while (n < need)
-		n *= 2;
-	grown = al_realloc(r->buf, n);
 	if (grown == NULL)
 		return 0;
 	r->buf = grown;
-	r->buf_cap = n;
 	return 1;
 }
 
@@ -880,13 +873,12 @@ pipe_pack(void *ud, const al_csv_row *row)
 			return AL_EINPUT; /* the caller stopped */
 		b = &pp->batch[pp->filling];
 	}
-	if (need > b->cap) {
-		char *grown = al_realloc(b->buf, need);
+	{
+		char *grown = al_reserve(b->buf, &b->cap, need);
 
 		if (grown == NULL)
 			return AL_ENOMEM;
 		b->buf = grown;
-		b->cap = need;
 	}
 	h = (struct packed *)(void *)(b->buf + b->len);
 	h->size = need;

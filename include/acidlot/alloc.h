@@ -12,6 +12,11 @@ void *al_calloc(size_t count, size_t size);
 void *al_realloc(void *ptr, size_t size);
 void al_free(void *ptr);
 
+/* buf (of *cap bytes) made to hold at least need: itself when it does,
+ * else grown to twice as much or to need (at least 1 KiB), *cap set.
+ * NULL when memory runs out; buf and *cap are then as they were. */
+void *al_reserve(void *buf, size_t *cap, size_t need);
+
 /* Copy of the first len bytes of s, NUL-terminated; NULL on failure. */
 char *al_strndup(const char *s, size_t len);
 char *al_strdup(const char *s);
