@@ -326,10 +326,23 @@ number(struct sink *k, int defined, double v, int decimals,
        const al_report_options *opt)
 {
 	char buf[64];
+	size_t n;
 
 	sink_char(k, delim_of(opt));
 	if (!defined)
 		return;
+	/* the usual case straight into the sink: format_g10 writes at most
+	 * 17 bytes and a NUL */
+	if (decimals < 0 && k->cap - k->len >= 32 &&
+	    (n = format_g10(v, k->buf + k->len)) > 0) {
+		char *p;
+
+		if (opt->decimal_comma &&
+		    (p = memchr(k->buf + k->len, '.', n)) != NULL)
+			*p = ',';
+		k->len += n;
+		return;
+	}
 	format_number(v, decimals, opt->decimal_comma, k->point, buf,
 		      sizeof buf);
 	sink_str(k, buf);
