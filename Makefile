@@ -97,6 +97,7 @@ bench: build
 	    || { $(SUDO) apt-get update -qq; $(SUDO) apt-get install -y -qq $$p; }; done
 	sh bench/run.sh $(BUILD) $(BENCH_ROWS)
 	sh bench/memory.sh $(BUILD)/acidlot $(BUILD)/tests/bench_gen
+	sh bench/startup.sh $(BUILD)/acidlot samples
 
 clean:
 	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)

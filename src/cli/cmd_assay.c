@@ -1016,7 +1016,9 @@ cmd_assay(int argc, char **argv)
 		al_assay_counts c = al_assay_get_counts(run);
 		unsigned long e = al_assay_diags(run)->errors;
 
-		if (c.rows_read > 0)
+		if (e == 0) /* an input that could not be read: said above */
+			cli_error("no report written");
+		else if (c.rows_read > 0)
 			cli_error("%lu error%s in the input (%lu of %lu rows); "
 				  "no report written",
 				  e, e == 1 ? "" : "s", c.rows_bad, c.rows_read);
