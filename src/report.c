@@ -74,18 +74,25 @@ format_g10(double v, char *buf)
 		return 0;
 	if (f > 0.5)
 		d++;
-	/* two digits at a time */
-	for (int i = 8; i >= 0; i -= 2) {
+	/* the ten digits as two halves of five, in 32-bit arithmetic, two
+	 * digits at a time */
+	{
 		static const char pairs[] =
 			"00010203040506070809101112131415161718192021222324"
 			"25262728293031323334353637383940414243444546474849"
 			"50515253545556575859606162636465666768697071727374"
 			"75767778798081828384858687888990919293949596979899";
-		unsigned two = (unsigned)(d % 100);
+		uint32_t half[2] = {(uint32_t)(d / 100000),
+				    (uint32_t)(d % 100000)};
 
-		d /= 100;
-		digits[i] = pairs[2 * two];
-		digits[i + 1] = pairs[2 * two + 1];
+		for (int h = 0; h < 2; h++) {
+			uint32_t x = half[h], lo4 = x % 10000;
+			char *o = digits + 5 * h;
+
+			o[0] = (char)('0' + x / 10000);
+			memcpy(o + 1, pairs + 2 * (lo4 / 100), 2);
+			memcpy(o + 3, pairs + 2 * (lo4 % 100), 2);
+		}
 	}
 	if (v < 0)
 		buf[len++] = '-';
@@ -95,20 +102,21 @@ format_g10(double v, char *buf)
 		while (last > 0 && digits[last] == '0')
 			last--;
 		if (e >= 0) {
-			for (int i = 0; i <= e; i++)
-				buf[len++] = digits[i];
+			memcpy(buf + len, digits, (size_t)e + 1);
+			len += (size_t)e + 1;
 			if (last > e) {
 				buf[len++] = '.';
-				for (int i = e + 1; i <= last; i++)
-					buf[len++] = digits[i];
+				memcpy(buf + len, digits + e + 1,
+				       (size_t)(last - e));
+				len += (size_t)(last - e);
 			}
 		} else {
 			buf[len++] = '0';
 			buf[len++] = '.';
 			for (int i = 0; i < -e - 1; i++)
 				buf[len++] = '0';
-			for (int i = 0; i <= last; i++)
-				buf[len++] = digits[i];
+			memcpy(buf + len, digits, (size_t)last + 1);
+			len += (size_t)last + 1;
 		}
 	}
 	buf[len] = '\0';
