@@ -91,6 +91,7 @@ struct kept_row {
 struct spec_cache {
 	const al_spec *spec;
 	int cached;
+	size_t len;
 	char product[128];
 };
 
@@ -637,16 +638,17 @@ group_file(const al_assay *run, const struct group *g)
 	return run->files[f];
 }
 
-/* The specification of a product, remembering the last one asked. */
+/* The specification of a product (len bytes, NUL-terminated),
+ * remembering the last one asked. */
 static const al_spec *
-spec_of(const al_assay *run, struct spec_cache *c, const char *product)
+spec_of(const al_assay *run, struct spec_cache *c, const char *product,
+	size_t len)
 {
-	size_t len = strlen(product);
-
-	if (c->cached && strcmp(c->product, product) == 0)
+	if (c->cached && c->len == len && memcmp(c->product, product, len) == 0)
 		return c->spec;
 	c->spec = al_spec_find(run->opt.specs, product);
 	c->cached = len < sizeof c->product;
+	c->len = len;
 	if (c->cached)
 		memcpy(c->product, product, len + 1);
 	return c->spec;
@@ -1270,7 +1272,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	}
 
 	/* The acid: the specification's, else the row's, else the default. */
-	spec = spec_of(run, &run->specs, product);
+	spec = spec_of(run, &run->specs, product, tl[0]);
 	if (tl[4] > 0) {
 		row_acid = al_catalogue_find(run->opt.catalogue, acid_name);
 		if (row_acid == NULL)
@@ -1570,7 +1572,7 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 	const char *k = key_parts(run, g, &pl, &ll);
 	al_eval_inputs in;
 	double n = g->n ? (double)g->n : 1;
-	const al_spec *spec = spec_of(run, &rd->specs, k);
+	const al_spec *spec = spec_of(run, &rd->specs, k, pl);
 
 	memset(r, 0, sizeof *r);
 	r->product = k;
