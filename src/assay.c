@@ -31,14 +31,12 @@ static const char *const cols[C_COUNT] = {
 
 /* Replicate values a group keeps: up to AL_VALUES_KEPT, the first
  * three inside the group itself (the usual triplicate costs no
- * allocation); past AL_VALUES_KEPT the group keeps running statistics
- * instead, so memory stays bounded by the number of groups. */
-#define INLINE_VALUES 3
-
-/* Past AL_VALUES_KEPT values a group keeps running statistics instead
+ * allocation). Past AL_VALUES_KEPT the group keeps running statistics
+ * instead, so memory stays bounded by the number of groups
  * (al_eval_stream: Welford's mean and sum of squared deviations, Welford
  * 1962, Knuth TAOCP 2, 4.2.2; the two smallest and two largest values
  * and where the extremes were), the form the evaluation reads. */
+#define INLINE_VALUES 3
 
 enum {
 	G_VOLUME = 1,    /* the sample basis is volume (else mass) */
@@ -451,17 +449,13 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	need = pl + ll + sl + 3;
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
-	if (run->arena_len + need > run->arena_cap) {
-		size_t n = run->arena_cap ? run->arena_cap : 64 * 1024;
-		char *grown;
+	{
+		char *grown = al_reserve(run->arena, &run->arena_cap,
+					 run->arena_len + need);
 
-		while (n < run->arena_len + need)
-			n *= 2;
-		grown = al_realloc(run->arena, n);
 		if (grown == NULL)
 			return AL_ENOMEM;
 		run->arena = grown;
-		run->arena_cap = n;
 	}
 	if (run->n_groups == run->groups_cap) {
 		size_t n = run->groups_cap ? 2 * run->groups_cap : 256;
@@ -1656,11 +1650,8 @@ struct judged {
 	int verdict, has_sd;
 };
 
-/* Results go in chunks of FINISH_CHUNK; from FINISH_THREADED results on,
- * a second thread evaluates every other chunk (lanes.h). */
-#define FINISH_CHUNK 1024
-#define FINISH_THREADED (8 * FINISH_CHUNK)
-
+/* From AL_LANES_MIN results on, a second thread evaluates every other
+ * chunk of them (lanes.h) into a slot of AL_LANES_CHUNK. */
 struct finish_job {
 	al_assay *run;
 	al_assay_reader *rd; /* the second thread's */
@@ -1704,20 +1695,12 @@ take_judged(struct finish_job *j, size_t i, const struct judged *x)
 	run->groups[i].flags = x->flags;
 }
 
-static size_t
-finish_end(const al_assay *run, size_t c)
-{
-	size_t e = (c + 1) * FINISH_CHUNK;
-
-	return e < run->n_groups ? e : run->n_groups;
-}
-
 static void
-finish_own(void *ctx, size_t c)
+finish_own(void *ctx, size_t begin, size_t end)
 {
 	struct finish_job *j = ctx;
 
-	for (size_t i = c * FINISH_CHUNK; i < finish_end(j->run, c); i++) {
+	for (size_t i = begin; i < end; i++) {
 		struct judged x;
 
 		judge(reader_result(&j->run->own, i), &x);
@@ -1726,30 +1709,27 @@ finish_own(void *ctx, size_t c)
 }
 
 static void
-finish_make(void *ctx, size_t c, int s)
+finish_make(void *ctx, size_t begin, size_t end, int s)
 {
 	struct finish_job *j = ctx;
-	size_t b = c * FINISH_CHUNK;
 
-	for (size_t i = b; i < finish_end(j->run, c); i++)
-		judge(reader_result(j->rd, i), &j->slot[s][i - b]);
+	for (size_t i = begin; i < end; i++)
+		judge(reader_result(j->rd, i), &j->slot[s][i - begin]);
 }
 
 static void
-finish_take(void *ctx, size_t c, int s)
+finish_take(void *ctx, size_t begin, size_t end, int s)
 {
 	struct finish_job *j = ctx;
-	size_t b = c * FINISH_CHUNK;
 
-	for (size_t i = b; i < finish_end(j->run, c); i++)
-		take_judged(j, i, &j->slot[s][i - b]);
+	for (size_t i = begin; i < end; i++)
+		take_judged(j, i, &j->slot[s][i - begin]);
 }
 
 al_status
 al_assay_finish(al_assay *run)
 {
 	struct finish_job j;
-	size_t n_chunks = (run->n_groups + FINISH_CHUNK - 1) / FINISH_CHUNK;
 
 	/* the key index is not needed any more */
 	al_free(run->slots);
@@ -1766,21 +1746,20 @@ al_assay_finish(al_assay *run)
 	run->own.cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
-	if (run->n_groups >= FINISH_THREADED && run->opt.threads != 1) {
+	if (run->n_groups >= AL_LANES_MIN && run->opt.threads != 1) {
 		j.rd = al_assay_reader_new(run);
-		j.slot[0] = al_malloc(FINISH_CHUNK * sizeof *j.slot[0]);
-		j.slot[1] = al_malloc(FINISH_CHUNK * sizeof *j.slot[1]);
+		j.slot[0] = al_malloc(AL_LANES_CHUNK * sizeof *j.slot[0]);
+		j.slot[1] = al_malloc(AL_LANES_CHUNK * sizeof *j.slot[1]);
 		if (j.rd == NULL || j.slot[0] == NULL || j.slot[1] == NULL)
 			j.oom = 1;
 	}
 	if (!j.oom && j.rd != NULL) {
-		al_lanes job = {&j, n_chunks, finish_own, finish_make,
+		al_lanes job = {&j, run->n_groups, finish_own, finish_make,
 				finish_take};
 
 		al_lanes_run(&job);
 	} else if (!j.oom) {
-		for (size_t c = 0; c < n_chunks; c++)
-			finish_own(&j, c);
+		finish_own(&j, 0, run->n_groups);
 	}
 	al_free(j.slot[0]);
 	al_free(j.slot[1]);

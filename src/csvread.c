@@ -134,14 +134,19 @@ bad_record(struct reader *r, unsigned long line, const char *msg)
 		snprintf(r->record_error, sizeof r->record_error, "%s", msg);
 }
 
+/* Room for need fields (twice the room there was, at least 32); 0 when
+ * memory runs out. */
 static int
-grow_fields(struct reader *r, size_t n)
+grow_fields(struct reader *r, size_t need)
 {
+	size_t n = r->fields_cap ? 2 * r->fields_cap : 32;
 	size_t *off, *lens;
 	const char **ptrs;
 
-	if (n <= r->fields_cap)
+	if (need <= r->fields_cap)
 		return 1;
+	if (n < need)
+		n = need;
 	off = al_realloc(r->offsets, n * sizeof *off);
 	if (off == NULL)
 		return 0;
@@ -199,8 +204,7 @@ on_field(void *data, size_t len, void *ud)
 		bad_record(r, r->cur_line, msg);
 		return;
 	}
-	if (r->nfields == r->fields_cap &&
-	    !grow_fields(r, r->fields_cap ? 2 * r->fields_cap : 32)) {
+	if (!grow_fields(r, r->nfields + 1)) {
 		fail(r, AL_ENOMEM, 0, NULL);
 		return;
 	}
@@ -455,16 +459,11 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 				content = 1;
 			continue;
 		}
-		if (k == r->fields_cap) {
-			size_t n = k ? 2 * k : 16;
-
-			if (k == AL_CSV_MAX_FIELDS)
-				return 0; /* libcsv's path says why */
-			if (!grow_fields(r, n < AL_CSV_MAX_FIELDS ? n
-						: AL_CSV_MAX_FIELDS)) {
-				fail(r, AL_ENOMEM, 0, NULL);
-				return 1;
-			}
+		if (k == AL_CSV_MAX_FIELDS)
+			return 0; /* libcsv's path says why */
+		if (!grow_fields(r, k + 1)) {
+			fail(r, AL_ENOMEM, 0, NULL);
+			return 1;
 		}
 		a = start;
 		e = i;
@@ -1017,13 +1016,10 @@ al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
 	pthread_mutex_init(&pp.mu, NULL);
 	pthread_cond_init(&pp.cv, NULL);
 	if (pthread_create(&th, NULL, pipe_run, &pp) != 0) {
-		pthread_cond_destroy(&pp.cv);
-		pthread_mutex_destroy(&pp.mu);
-		for (int i = 0; i < PIPE_BATCHES; i++)
-			al_free(pp.batch[i].buf);
 		/* no thread to be had: the same, in one */
-		return al_csv_read(opt, read_fn, read_ctx, name, row_fn, ud,
-				   diags);
+		st = al_csv_read(opt, read_fn, read_ctx, name, row_fn, ud,
+				 diags);
+		goto destroy;
 	}
 	for (;;) {
 		struct pipe_batch *b = &pp.batch[at];
@@ -1048,8 +1044,6 @@ al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
 		at = (at + 1) % PIPE_BATCHES;
 	}
 	pthread_join(th, NULL);
-	pthread_cond_destroy(&pp.cv);
-	pthread_mutex_destroy(&pp.mu);
 	if (st == AL_OK) {
 		/* the reader's own finding (it stops at its first) comes
 		 * after every record it handed on, as in al_csv_read */
@@ -1063,6 +1057,9 @@ al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
 			diags->out_of_memory = 1;
 		st = pp.status;
 	}
+destroy:
+	pthread_cond_destroy(&pp.cv);
+	pthread_mutex_destroy(&pp.mu);
 out:
 	al_diags_clear(&pp.diags);
 	for (int i = 0; i < PIPE_BATCHES; i++)

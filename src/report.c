@@ -30,7 +30,7 @@ delim_of(const al_report_options *opt)
  * rounding P gives the same integer as rounding the exact product,
  * hence the same digits as printf; otherwise, and when P leaves
  * [1e9, 1e10) (a power of ten misjudged, or a carry to eleven digits),
- * snprintf decides. tests/unit/test_report.c compares this byte for byte
+ * snprintf decides. tests/unit/test_number.c compares this byte for byte
  * with snprintf on millions of values. */
 static size_t
 format_g10(double v, char *buf)
@@ -123,6 +123,19 @@ format_g10(double v, char *buf)
 	return len;
 }
 
+/* format_g10 with a decimal comma when asked: at most 17 bytes and a
+ * NUL; the length, or 0 to leave the value to snprintf. */
+static size_t
+put_g10(double v, int decimal_comma, char *buf)
+{
+	size_t n = format_g10(v, buf);
+	char *p;
+
+	if (n > 0 && decimal_comma && (p = memchr(buf, '.', n)) != NULL)
+		*p = ',';
+	return n;
+}
+
 /* al_format_number with the locale's decimal point given (NULL: looked
  * up), so that threads need not call localeconv. */
 static void
@@ -131,11 +144,8 @@ format_number(double v, int decimals, int decimal_comma, const char *point,
 {
 	char *p;
 
-	if (decimals < 0 && cap >= 32 && format_g10(v, buf) > 0) {
-		if (decimal_comma && (p = strchr(buf, '.')) != NULL)
-			*p = ',';
+	if (decimals < 0 && cap >= 32 && put_g10(v, decimal_comma, buf) > 0)
 		return;
-	}
 	if (decimals >= 0)
 		snprintf(buf, cap, "%.*f", decimals, v);
 	else
@@ -339,15 +349,9 @@ number(struct sink *k, int defined, double v, int decimals,
 	sink_char(k, delim_of(opt));
 	if (!defined)
 		return;
-	/* the usual case straight into the sink: format_g10 writes at most
-	 * 17 bytes and a NUL */
+	/* the usual case straight into the sink */
 	if (decimals < 0 && k->cap - k->len >= 32 &&
-	    (n = format_g10(v, k->buf + k->len)) > 0) {
-		char *p;
-
-		if (opt->decimal_comma &&
-		    (p = memchr(k->buf + k->len, '.', n)) != NULL)
-			*p = ',';
+	    (n = put_g10(v, opt->decimal_comma, k->buf + k->len)) > 0) {
 		k->len += n;
 		return;
 	}
@@ -438,41 +442,31 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 	}
 }
 
-/* A report of many results is written by two threads (lanes.h): results
- * go in chunks of CHUNK, the even ones formatted by the caller, the odd
- * ones by a second thread into a buffer that the caller then writes, so
- * the bytes are those of one thread. A chunk that does not fit its
- * buffer (lines of over 1 KiB on average) is formatted again by the
- * caller. */
-#define CHUNK 1024
+/* A report of many results is written by two threads (lanes.h): the
+ * caller formats the even chunks of results, a second thread the odd
+ * ones into a buffer that the caller then writes, so the bytes are those
+ * of one thread. A chunk that does not fit its buffer (lines of over
+ * 1 KiB on average) is formatted again by the caller. */
 #define CHUNK_BYTES (1u << 20)
-#define THREAD_MIN (8 * CHUNK) /* fewer results: one thread */
 
 struct report_job {
 	struct sink *k; /* the caller's */
 	const al_assay *run;
 	al_assay_reader *rd; /* the second thread's */
 	const al_report_options *opt;
-	size_t n;
 	struct sink slot[2];
 };
 
-static size_t
-chunk_end(size_t c, size_t n)
-{
-	return (c + 1) * CHUNK < n ? (c + 1) * CHUNK : n;
-}
-
 static void
-report_own(void *ctx, size_t c)
+report_own(void *ctx, size_t begin, size_t end)
 {
 	struct report_job *j = ctx;
 
-	put_results(j->k, j->run, NULL, c * CHUNK, chunk_end(c, j->n), j->opt);
+	put_results(j->k, j->run, NULL, begin, end, j->opt);
 }
 
 static void
-report_make(void *ctx, size_t c, int s)
+report_make(void *ctx, size_t begin, size_t end, int s)
 {
 	struct report_job *j = ctx;
 	struct sink *k = &j->slot[s];
@@ -480,17 +474,17 @@ report_make(void *ctx, size_t c, int s)
 	k->len = 0;
 	k->full = 0;
 	k->guarded = 0;
-	put_results(k, j->run, j->rd, c * CHUNK, chunk_end(c, j->n), j->opt);
+	put_results(k, j->run, j->rd, begin, end, j->opt);
 }
 
 static void
-report_take(void *ctx, size_t c, int s)
+report_take(void *ctx, size_t begin, size_t end, int s)
 {
 	struct report_job *j = ctx;
 	struct sink *k = &j->slot[s];
 
 	if (k->full) {
-		report_own(ctx, c);
+		report_own(ctx, begin, end);
 		return;
 	}
 	sink_put(j->k, k->buf, k->len);
@@ -504,14 +498,12 @@ put_results_2(struct sink *k, const al_assay *run, size_t n,
 	      const al_report_options *opt)
 {
 	struct report_job j;
-	al_lanes job;
 	al_status st = AL_OK;
 	char *buf[2];
 
 	j.k = k;
 	j.run = run;
 	j.opt = opt;
-	j.n = n;
 	j.rd = al_assay_reader_new(run);
 	buf[0] = al_malloc(CHUNK_BYTES);
 	buf[1] = al_malloc(CHUNK_BYTES);
@@ -521,11 +513,8 @@ put_results_2(struct sink *k, const al_assay *run, size_t n,
 			/* localeconv is not for threads: the caller's point */
 			j.slot[s].point = k->point;
 		}
-		job.ctx = &j;
-		job.n_chunks = (n + CHUNK - 1) / CHUNK;
-		job.own = report_own;
-		job.make = report_make;
-		job.take = report_take;
+		al_lanes job = {&j, n, report_own, report_make, report_take};
+
 		al_lanes_run(&job);
 	} else {
 		st = AL_ENOMEM;
@@ -556,7 +545,7 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 				"critical_range,horrat,u,U,k,brix,brix_corrected,"
 				"brix_acid_ratio,water_pct,basis",
 	       opt);
-	if (n >= THREAD_MIN && opt->threads != 1) {
+	if (n >= AL_LANES_MIN && opt->threads != 1) {
 		if (put_results_2(&k, run, n, opt) != AL_OK) {
 			sink_flush(&k);
 			return AL_ENOMEM;
