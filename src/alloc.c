@@ -2,9 +2,13 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/alloc.h"
 
+#define _DEFAULT_SOURCE
 #include <errno.h>
+#include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
+#include <unistd.h>
 
 /* atomic: a large file is read in a second thread (csvread.c) */
 static _Atomic unsigned long alloc_calls;
@@ -83,6 +87,26 @@ al_reserve(void *buf, size_t *cap, size_t need)
 	if (grown != NULL)
 		*cap = n;
 	return grown;
+}
+
+void
+al_prefault(void *base, size_t from, size_t to)
+{
+#ifdef MADV_POPULATE_WRITE
+	long ps = sysconf(_SC_PAGESIZE);
+	uintptr_t page = ps > 0 ? (uintptr_t)ps : 4096, a, b;
+
+	/* whole pages only, inside the range: a page shared with other
+	 * data is mapped already or faults as usual */
+	a = ((uintptr_t)base + from + page - 1) & ~(page - 1);
+	b = ((uintptr_t)base + to) & ~(page - 1);
+	if (base != NULL && b > a)
+		(void)madvise((void *)a, b - a, MADV_POPULATE_WRITE);
+#else
+	(void)base;
+	(void)from;
+	(void)to;
+#endif
 }
 
 char *

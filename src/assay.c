@@ -113,6 +113,7 @@ struct al_assay {
 	size_t arena_len, arena_cap;
 	struct group *groups;
 	size_t n_groups, groups_cap;
+	size_t groups_mapped, arena_mapped; /* bytes of each mapped ahead */
 	uint64_t *slots; /* hash: 32 bits of the key's hash over group
 			    index + 1; 0 = empty */
 	size_t n_slots;
@@ -370,6 +371,8 @@ rehash(al_assay *run)
 
 	if (slots == NULL)
 		return AL_ENOMEM;
+	/* every slot is touched, in no order: map them all at once */
+	al_prefault(slots, 0, n * sizeof *slots);
 	for (size_t i = 0; i < run->n_slots; i++) {
 		uint64_t v = run->slots[i];
 		size_t j;
@@ -408,6 +411,23 @@ key_ahead(const al_assay *run, const char *p, size_t pl, const char *l,
 	k->h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
 	if (run->n_slots)
 		__builtin_prefetch(&run->slots[k->h32 & (run->n_slots - 1)]);
+}
+
+/* A buffer filled from the front, [0, used) of cap bytes, its pages
+ * mapped a window ahead of use (al_prefault: one call a window instead
+ * of a page fault a page); *mapped counts the bytes mapped. A buffer
+ * that moved when it grew starts counting again from what it holds. */
+#define MAP_AHEAD ((size_t)256 << 10)
+
+static void
+map_ahead(void *buf, size_t used, size_t cap, size_t *mapped)
+{
+	size_t to = used + MAP_AHEAD < cap ? used + MAP_AHEAD : cap;
+
+	if (used > *mapped) {
+		al_prefault(buf, *mapped, to);
+		*mapped = to;
+	}
 }
 
 /* Finds the group of a key seen by key_ahead, or creates it; *created
@@ -455,6 +475,8 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 
 		if (grown == NULL)
 			return AL_ENOMEM;
+		if (grown != run->arena)
+			run->arena_mapped = run->arena_len;
 		run->arena = grown;
 	}
 	if (run->n_groups == run->groups_cap) {
@@ -463,9 +485,15 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 
 		if (grown == NULL)
 			return AL_ENOMEM;
+		if (grown != run->groups)
+			run->groups_mapped = run->n_groups * sizeof *grown;
 		run->groups = grown;
 		run->groups_cap = n;
 	}
+	map_ahead(run->arena, run->arena_len + need, run->arena_cap,
+		  &run->arena_mapped);
+	map_ahead(run->groups, (run->n_groups + 1) * sizeof *run->groups,
+		  run->groups_cap * sizeof *run->groups, &run->groups_mapped);
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
 	g->key = (uint32_t)run->arena_len;
