@@ -170,10 +170,51 @@ parse_with(const char *s, size_t len, char point, double *out)
 	return AL_NUM_OK;
 }
 
+/* The usual cell in one pass: an optional sign, at most 15 digits in
+ * all and an optional decimal point, nothing else. The significand is
+ * then below 10^15 < 2^53 and the power of ten at most 10^15, so this is
+ * the fast path of parse_with, giving the same double (the same
+ * significand and exponent: leading zeros add nothing to either).
+ * Returns 1 with *out set, or 0 to leave the cell to parse_with. */
+static int
+parse_plain(const char *s, size_t len, char point, double *out)
+{
+	size_t i = 0;
+	int negative = 0, digits = 0, frac = -1;
+	uint64_t mant = 0;
+	double v;
+
+	if (s[0] == '-' || s[0] == '+') {
+		negative = s[0] == '-';
+		i = 1;
+	}
+	if (len - i > 16)
+		return 0;
+	for (; i < len; i++) {
+		unsigned d = (unsigned char)s[i] - '0';
+
+		if (d <= 9) {
+			mant = mant * 10 + d;
+			digits++;
+			if (frac >= 0)
+				frac++;
+		} else if (s[i] == point && frac < 0)
+			frac = 0;
+		else
+			return 0;
+	}
+	if (digits == 0 || digits > 15)
+		return 0;
+	v = (double)mant / exact_pow10[frac > 0 ? frac : 0];
+	*out = negative ? -v : v;
+	return 1;
+}
+
 al_numerr
 al_number_parse(const char *s, size_t len, char decimal_point, double *out)
 {
 	al_numerr err;
+	unsigned char c;
 
 	while (len > 0 && is_blank(*s)) {
 		s++;
@@ -183,6 +224,12 @@ al_number_parse(const char *s, size_t len, char decimal_point, double *out)
 		len--;
 	if (len == 0)
 		return AL_NUM_EMPTY;
+	if (parse_plain(s, len, decimal_point, out))
+		return AL_NUM_OK;
+	/* a letter first (a text cell) can be no number with either point */
+	c = (unsigned char)s[0];
+	if (((c | 0x20) >= 'a' && (c | 0x20) <= 'z') && c != decimal_point)
+		return AL_NUM_SYNTAX;
 	err = parse_with(s, len, decimal_point, out);
 	if (err == AL_NUM_SYNTAX && decimal_point == '.' &&
 	    memchr(s, ',', len) != NULL) {
