@@ -870,21 +870,25 @@ ta_column(al_ta_field f, al_basis basis)
 	return NULL;
 }
 
-/* Copies the text cells of a row, trimmed, into the run's scratch buffer
- * as C strings: product, lot, sample, replicate, acid. */
+/* The text cells of a row, trimmed, as C strings: product, lot, sample,
+ * replicate, acid. A cell that ends where its field does is one already
+ * (fields are NUL-terminated); the others are copied into the run's
+ * scratch buffer. */
 static al_status
 text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 	   size_t lens[5])
 {
 	static const int which[5] = {C_PRODUCT, C_LOT, C_SAMPLE, C_REPLICATE,
 				     C_ACID};
-	const char *src[5];
 	size_t need = 0, pos = 0;
 
 	for (int i = 0; i < 5; i++) {
-		src[i] = al_cell(row, run->col[which[i]], &lens[i]);
-		need += lens[i] + 1;
+		out[i] = al_cell(row, run->col[which[i]], &lens[i]);
+		if (out[i][lens[i]] != '\0')
+			need += lens[i] + 1;
 	}
+	if (need == 0)
+		return AL_OK;
 	{
 		char *grown = al_reserve(run->scratch, &run->scratch_cap, need);
 
@@ -893,7 +897,9 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 		run->scratch = grown;
 	}
 	for (int i = 0; i < 5; i++) {
-		memcpy(run->scratch + pos, src[i], lens[i]);
+		if (out[i][lens[i]] == '\0')
+			continue;
+		memcpy(run->scratch + pos, out[i], lens[i]);
 		run->scratch[pos + lens[i]] = '\0';
 		out[i] = run->scratch + pos;
 		pos += lens[i] + 1;
