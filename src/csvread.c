@@ -430,7 +430,7 @@ static int
 fast_record(struct reader *r, const char *line, size_t len, char term)
 {
 	const char d = r->delimiter;
-	size_t k = 0, start = 0;
+	size_t k = 0;
 	int content = 0;
 	al_csv_row row;
 	al_status st;
@@ -443,39 +443,37 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 		fail(r, AL_ENOMEM, 0, NULL);
 		return 1;
 	}
-	/* one pass: copy, split at the delimiter and trim each field; a
-	 * quote or a NUL leaves the line to libcsv (nothing is done until
-	 * row_fn) */
+	/* a quote or a NUL leaves the line to libcsv (nothing is done
+	 * until row_fn); else copy it, split it at the delimiter and trim
+	 * each field (memchr and memcpy look at many bytes a step) */
+	if (memchr(line, '"', len) != NULL || memchr(line, '\0', len) != NULL)
+		return 0;
 	b = r->buf;
+	memcpy(b, line, len);
+	b[len] = d; /* the end closes the last field */
 	for (size_t i = 0; i <= len; i++) {
-		char c = i < len ? line[i] : d; /* the end closes the last field */
-		size_t a, e;
+		size_t a = i, e;
 
-		if (c == '"' || c == '\0')
-			return 0;
-		if (c != d) {
-			b[i] = c;
-			if (c != ' ' && c != '\t')
-				content = 1;
-			continue;
-		}
+		while (b[i] != d)
+			i++;
 		if (k == AL_CSV_MAX_FIELDS)
 			return 0; /* libcsv's path says why */
-		if (!grow_fields(r, k + 1)) {
+		if (k == r->fields_cap && !grow_fields(r, k + 1)) {
 			fail(r, AL_ENOMEM, 0, NULL);
 			return 1;
 		}
-		a = start;
 		e = i;
 		while (a < e && (b[a] == ' ' || b[a] == '\t'))
 			a++;
 		while (e > a && (b[e - 1] == ' ' || b[e - 1] == '\t'))
 			e--;
+		/* a field with something left is what makes the line not
+		 * blank */
+		content |= e > a;
 		b[e] = '\0';
 		r->ptrs[k] = b + a;
 		r->lens[k] = e - a;
 		k++;
-		start = i + 1;
 	}
 	if (!content)
 		return 0;
@@ -521,10 +519,14 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 	while (pos < n && r->stop == AL_OK) {
 		size_t q = pos, done;
 
-		while (q < n && data[q] != '\n' && data[q] != '\r')
-			q++;
-		if (q < n)
-			q++;
+		/* to the first CR or LF, and past it */
+		{
+			const char *nl = memchr(data + pos, '\n', n - pos);
+			size_t lim = nl ? (size_t)(nl - data) : n;
+			const char *cr = memchr(data + pos, '\r', lim - pos);
+
+			q = cr ? (size_t)(cr - data) + 1 : nl ? lim + 1 : n;
+		}
 		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
 		    q - pos > 1 && (data[q - 1] == '\n' || data[q - 1] == '\r') &&
 		    fast_record(r, data + pos, q - pos - 1, data[q - 1])) {
@@ -897,14 +899,10 @@ pipe_pack(void *ud, const al_csv_row *row)
 		p += err_len;
 	}
 	for (size_t i = 0; i < row->nfields; i++) {
-		size_t len = row->lens[i];
-		const char *s = al_trim(row->fields[i], &len);
-
-		nums[i].err = AL_NUM_EMPTY;
+		/* al_number_parse trims and tells an empty cell */
 		nums[i].value = 0;
-		if (len > 0)
-			nums[i].err = (int)al_number_parse(s, len, pp->point,
-							   &nums[i].value);
+		nums[i].err = (int)al_number_parse(row->fields[i], row->lens[i],
+						   pp->point, &nums[i].value);
 		lens[i] = (uint32_t)row->lens[i];
 		memcpy(p, row->fields[i], row->lens[i]);
 		p[row->lens[i]] = '\0';
