@@ -389,6 +389,7 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 	char d = delim_of(opt);
 	/* put_text only counts in the sink; nothing else changes opt */
 	al_report_options *o = (al_report_options *)opt;
+	size_t id_len = opt->report_id ? strlen(opt->report_id) : 0;
 
 	for (size_t i = begin; i < end; i++) {
 		const al_group_result *r = rd ? al_assay_reader_result(rd, i)
@@ -432,11 +433,18 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		sink_char(k, d);
 		sink_str(k, r->anhydrous ? "anhydrous" : "as-is");
 		if (opt->report_id) {
-			char id[64];
+			/* as "%c%s-%04zu" would print it */
+			char num[24];
+			size_t at = sizeof num, v = i + 1;
 
-			snprintf(id, sizeof id, "%c%s-%04zu", d, opt->report_id,
-				 i + 1);
-			sink_str(k, id);
+			do {
+				num[--at] = (char)('0' + v % 10);
+				v /= 10;
+			} while (v || at > sizeof num - 4);
+			sink_char(k, d);
+			sink_put(k, opt->report_id, id_len);
+			sink_char(k, '-');
+			sink_put(k, num + at, sizeof num - at);
 		}
 		sink_char(k, '\n');
 	}
