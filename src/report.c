@@ -55,7 +55,9 @@ format_g10(double v, char *buf)
 
 		memcpy(&bits, &a, sizeof bits);
 		b = (int)((bits >> 52) & 0x7ff) - 1023;
-		e = (int)floor(b * 0.30102999566398120) + 1;
+		/* floor(b log10 2) as floor(b 1233 / 4096), the same for
+		 * |b| < 681 (here -14 <= b <= 33), without a libm call */
+		e = ((b + 4096) * 1233) / 4096 - 1233 + 1;
 		if (e > 9)
 			e = 9;
 		if (e < -4)
@@ -340,13 +342,13 @@ field(struct sink *k, const char *s, char d)
 }
 
 static void
-number(struct sink *k, int defined, double v, int decimals,
+number(struct sink *k, char d, int defined, double v, int decimals,
        const al_report_options *opt)
 {
 	char buf[64];
 	size_t n;
 
-	sink_char(k, delim_of(opt));
+	sink_char(k, d);
 	if (!defined)
 		return;
 	/* the usual case straight into the sink */
@@ -404,32 +406,32 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		field(k, al_unit_name(r->unit), d);
 		sink_char(k, d);
 		sink_ulong(k, (unsigned long)r->stats.n);
-		number(k, r->stats.n > 0, r->stats.mean, dec, opt);
-		number(k, r->stats.has_sd, r->stats.sd, dec, opt);
-		number(k, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
-		number(k, r->stats.has_sd, r->stats.ci_low, dec, opt);
-		number(k, r->stats.has_sd, r->stats.ci_high, dec, opt);
-		number(k, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
-		number(k, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
+		number(k, d, r->stats.n > 0, r->stats.mean, dec, opt);
+		number(k, d, r->stats.has_sd, r->stats.sd, dec, opt);
+		number(k, d, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
+		number(k, d, r->stats.has_sd, r->stats.ci_low, dec, opt);
+		number(k, d, r->stats.has_sd, r->stats.ci_high, dec, opt);
+		number(k, d, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
+		number(k, d, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
 		sink_char(k, d);
 		sink_str(k, al_verdict_name(r->verdict));
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 				sizeof flags);
 		field(k, flags, d);
-		number(k, r->has_median, r->median, dec, opt);
+		number(k, d, r->has_median, r->median, dec, opt);
 		/* screens are ratios: never rounded to the report's decimals */
-		number(k, r->has_grubbs, r->grubbs_g, -1, opt);
-		number(k, r->has_dixon, r->dixon_q, -1, opt);
-		number(k, r->stats.n > 1, r->range, dec, opt);
-		number(k, r->has_critical_range, r->critical_range, dec, opt);
-		number(k, r->has_horrat, r->horrat, -1, opt);
-		number(k, r->has_u, r->u, -1, opt);
-		number(k, r->has_u, r->U, -1, opt);
-		number(k, r->has_u, r->k, -1, opt);
-		number(k, r->has_brix, r->brix, -1, opt);
-		number(k, r->has_brix_corrected, r->brix_corrected, -1, opt);
-		number(k, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
-		number(k, r->has_water, r->water_pct, -1, opt);
+		number(k, d, r->has_grubbs, r->grubbs_g, -1, opt);
+		number(k, d, r->has_dixon, r->dixon_q, -1, opt);
+		number(k, d, r->stats.n > 1, r->range, dec, opt);
+		number(k, d, r->has_critical_range, r->critical_range, dec, opt);
+		number(k, d, r->has_horrat, r->horrat, -1, opt);
+		number(k, d, r->has_u, r->u, -1, opt);
+		number(k, d, r->has_u, r->U, -1, opt);
+		number(k, d, r->has_u, r->k, -1, opt);
+		number(k, d, r->has_brix, r->brix, -1, opt);
+		number(k, d, r->has_brix_corrected, r->brix_corrected, -1, opt);
+		number(k, d, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
+		number(k, d, r->has_water, r->water_pct, -1, opt);
 		sink_char(k, d);
 		sink_str(k, r->anhydrous ? "anhydrous" : "as-is");
 		if (opt->report_id) {
@@ -592,8 +594,8 @@ al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 	text(&k, rep->sample, opt);
 	text(&k, rep->replicate, opt);
 	/* meq keeps full digits: it is the raw amount titrated */
-	number(&k, 1, rep->meq, -1, opt);
-	number(&k, 1, rep->value, opt->decimals, opt);
+	number(&k, d, 1, rep->meq, -1, opt);
+	number(&k, d, 1, rep->value, opt->decimals, opt);
 	field(&k, al_unit_name(rep->unit), d);
 	al_flags_format(rep->flags, rep->endpoint_ph_needed, flags,
 			sizeof flags);
@@ -657,13 +659,13 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 			text(&k, r->lot, opt);
 			text(&k, r->sample, opt);
 			field(&k, t->name, d);
-			number(&k, 1, t->value, -1, opt);
+			number(&k, d, 1, t->value, -1, opt);
 			sink_char(&k, d);
 			sink_str(&k, t->unit);
-			number(&k, 1, t->u, -1, opt);
-			number(&k, 1, t->sensitivity, -1, opt);
-			number(&k, 1, t->contribution, -1, opt);
-			number(&k, 1,
+			number(&k, d, 1, t->u, -1, opt);
+			number(&k, d, 1, t->sensitivity, -1, opt);
+			number(&k, d, 1, t->contribution, -1, opt);
+			number(&k, d, 1,
 			       r->u > 0 ? 100 * t->contribution * t->contribution /
 						  (r->u * r->u)
 					: 0,
