@@ -85,12 +85,20 @@ struct kept_row {
 	size_t replicate; /* offset in run->kept_text */
 };
 
-/* The specification of the last product asked for. */
-struct spec_cache {
+/* The specifications of the products asked for last: one entry for
+ * each of SPEC_WAYS classes of names, so that rows of a few products
+ * taken in turn each find theirs. */
+#define SPEC_WAYS 8
+
+struct spec_entry {
 	const al_spec *spec;
 	int cached;
 	size_t len;
 	char product[128];
+};
+
+struct spec_cache {
+	struct spec_entry e[SPEC_WAYS];
 };
 
 /* An evaluator's own state: the result it evaluated last, its scratch
@@ -663,9 +671,14 @@ group_file(const al_assay *run, const struct group *g)
 /* The specification of a product (len bytes, NUL-terminated),
  * remembering the last one asked. */
 static const al_spec *
-spec_of(const al_assay *run, struct spec_cache *c, const char *product,
+spec_of(const al_assay *run, struct spec_cache *sc, const char *product,
 	size_t len)
 {
+	unsigned h = len ? (unsigned)len + 3u * (unsigned char)product[0] +
+				   5u * (unsigned char)product[len - 1]
+			 : 0;
+	struct spec_entry *c = &sc->e[h % SPEC_WAYS];
+
 	if (c->cached && c->len == len && memcmp(c->product, product, len) == 0)
 		return c->spec;
 	c->spec = al_spec_find(run->opt.specs, product);
