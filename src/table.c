@@ -149,21 +149,29 @@ al_cell_number(const al_csv_row *row, int col, const char *column,
 	       double *value)
 {
 	size_t len;
-	const char *s = al_cell(row, col, &len);
+	const char *s;
 	al_numerr err;
 
-	if (len == 0)
-		return 0;
-	if (row->numbers && row->numbers_point == decimal_point) {
-		/* parsed ahead, from the same bytes (al_csv_read_piped) */
+	if (col >= 0 && (size_t)col < row->nfields && row->numbers &&
+	    row->numbers_point == decimal_point) {
+		/* parsed ahead, from the same bytes (al_csv_read_piped),
+		 * which also tells an empty cell */
 		err = (al_numerr)row->numbers[col].err;
-		if (err == AL_NUM_OK)
+		if (err == AL_NUM_EMPTY)
+			return 0;
+		if (err == AL_NUM_OK) {
 			*value = row->numbers[col].value;
+			return 1;
+		}
+		s = al_cell(row, col, &len);
 	} else {
+		s = al_cell(row, col, &len);
+		if (len == 0)
+			return 0;
 		err = al_number_parse(s, len, decimal_point, value);
+		if (err == AL_NUM_OK)
+			return 1;
 	}
-	if (err == AL_NUM_OK)
-		return 1;
 	al_diags_add(diags, AL_SEV_ERROR, file, row->line, column,
 		     "'%.*s' %s", (int)(len > 60 ? 60 : len), s,
 		     al_numerr_phrase(err));
