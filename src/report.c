@@ -268,13 +268,20 @@ static void
 put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
 	   int prefix)
 {
+	/* the bytes that make a field quoted: CR, LF, the quote (and the
+	 * delimiter, compared on its own) */
+	static const unsigned char special[256] = {['\r'] = 1, ['\n'] = 1,
+						   ['"'] = 2};
 	int quote = 0, quotes = 0;
 
 	for (size_t i = 0; i < len; i++) {
-		if (s[i] == delimiter || s[i] == '\r' || s[i] == '\n')
+		unsigned char c = (unsigned char)s[i];
+
+		if (special[c] | (s[i] == delimiter)) {
 			quote = 1;
-		else if (s[i] == '"')
-			quote = quotes = 1;
+			if (special[c] == 2)
+				quotes = 1;
+		}
 	}
 	if (quote)
 		sink_char(k, '"');
