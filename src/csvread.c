@@ -794,7 +794,7 @@ al_csv_read_mem(const al_csv_options *opt, const char *data, size_t len,
  * padded to 8 bytes. When row_fn stops the read, the second thread is
  * told to stop too and what it found past that point is dropped, as
  * al_csv_read would never have seen it. */
-#define PIPE_BATCHES 3
+#define PIPE_BATCHES 8
 #define PIPE_BYTES ((size_t)256 << 10)
 
 struct packed {
