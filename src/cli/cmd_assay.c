@@ -746,8 +746,8 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	for (size_t i = 0; !bad && (sp = al_assay_spec_used(run, i)); i++)
 		bad |= json_array_append_new(
 			specs,
-			json_pack("{s:s, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
-				  "product", sp->product, "acid",
+			json_pack("{s:o, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
+				  "product", record_text(sp->product), "acid",
 				  sp->acid ? sp->acid->name : NULL, "unit",
 				  sp->has_unit ? al_unit_name(sp->unit) : NULL,
 				  "min",
@@ -770,10 +770,12 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 				sizeof flags);
 		bad |= json_array_append_new(
 			results,
-			json_pack("{s:s, s:s, s:s, s:s, s:s, s:s, s:I, s:o, s:o, "
+			json_pack("{s:s, s:o, s:o, s:o, s:s, s:s, s:I, s:o, s:o, "
 				  "s:o, s:s, s:s}",
-				  "report_id", id, "product", r->product, "lot",
-				  r->lot, "sample", r->sample, "acid",
+				  "report_id", id, "product",
+				  record_text(r->product), "lot",
+				  record_text(r->lot), "sample",
+				  record_text(r->sample), "acid",
 				  r->acid->name, "unit", al_unit_name(r->unit),
 				  "n", (json_int_t)r->stats.n, "mean",
 				  r->stats.n ? json_real(r->stats.mean)
@@ -789,8 +791,9 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 		al_date_format(t->standardised_on, on);
 		al_date_format(t->valid_until, until);
 		bad |= json_array_append_new(
-			lots, json_pack("{s:s, s:s, s:f, s:f, s:s, s:s}",
-					"titrant_lot", t->lot, "standard",
+			lots, json_pack("{s:o, s:s, s:f, s:f, s:s, s:s}",
+					"titrant_lot", record_text(t->lot),
+					"standard",
 					t->standard, "concentration_mol_l",
 					t->concentration_mol_l, "u_mol_l",
 					t->u_mol_l, "standardised_on", on,

@@ -448,8 +448,9 @@ cmd_standardize(int argc, char **argv)
 
 			if (json_array_append_new(
 				    lots,
-				    json_pack("{s:s, s:s, s:f, s:f, s:f, s:I, s:b}",
-					      "titrant_lot", l->lot, "standard",
+				    json_pack("{s:o, s:s, s:f, s:f, s:f, s:I, s:b}",
+					      "titrant_lot", record_text(l->lot),
+					      "standard",
 					      l->standard->name,
 					      "concentration_mol_l", l->mean,
 					      "u_mol_l", l->budget.u, "U_mol_l",

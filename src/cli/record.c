@@ -14,6 +14,7 @@
 #include <sys/stat.h>
 #include <time.h>
 
+#include "acidlot/table.h"
 #include "cli.h"
 
 void
@@ -288,7 +289,7 @@ record_start(run_record *r, const char *command, int argc, char **argv,
 		return -1;
 	}
 	for (int i = 0; i < argc; i++)
-		if (json_array_append_new(args, json_string(argv[i])) != 0) {
+		if (json_array_append_new(args, record_text(argv[i])) != 0) {
 			json_decref(args);
 			return -1;
 		}
@@ -301,18 +302,55 @@ record_start(run_record *r, const char *command, int argc, char **argv,
 	bad |= json_object_set_new(r->root, "argv", args);
 	bad |= json_object_set_new(r->root, "time_utc", json_string(when));
 	bad |= json_object_set_new(r->root, "analyst",
-				   analyst ? json_string(analyst) : json_null());
+				   analyst ? record_text(analyst) : json_null());
 	bad |= json_object_set(r->root, "inputs", r->inputs);
 	bad |= json_object_set(r->root, "outputs", r->outputs);
 	return bad ? -1 : 0;
+}
+
+json_t *
+record_text(const char *s)
+{
+	size_t len = strlen(s), at = 0;
+	char *clean;
+	json_t *j;
+
+	if (al_utf8_valid(s, len))
+		return json_string(s);
+	clean = al_malloc(3 * len + 1); /* each byte at worst 3 */
+	if (clean == NULL)
+		return NULL;
+	for (size_t i = 0; i < len;) {
+		unsigned char c = (unsigned char)s[i];
+		size_t n = c < 0x80		   ? 1
+			   : c >= 0xC2 && c <= 0xDF ? 2
+			   : c >= 0xE0 && c <= 0xEF ? 3
+			   : c >= 0xF0 && c <= 0xF4 ? 4
+						    : 0;
+
+		if (n > 0 && i + n <= len && al_utf8_valid(s + i, n)) {
+			memcpy(clean + at, s + i, n);
+			at += n;
+			i += n;
+		} else {
+			memcpy(clean + at, "\xEF\xBF\xBD", 3);
+			at += 3;
+			i++;
+		}
+	}
+	clean[at] = '\0';
+	j = json_string(clean);
+	al_free(clean);
+	return j;
 }
 
 int
 record_input(run_record *r, const char *role, const char *path,
 	     unsigned long long bytes, long rows, const char *sha256)
 {
-	json_t *o = json_pack("{s:s, s:s, s:I, s:s}", "role", role, "path", path,
-			      "bytes", (json_int_t)bytes, "sha256", sha256);
+	json_t *o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
+			      record_text(path), "bytes", (json_int_t)bytes,
+			      "sha256", sha256);
 
 	if (o == NULL)
 		return -1;
@@ -333,8 +371,9 @@ record_output(run_record *r, const char *role, const char *path,
 
 	if (sha256_file(written_path, hex, &bytes) != 0)
 		return -1;
-	o = json_pack("{s:s, s:s, s:I, s:s}", "role", role, "path", path,
-		      "bytes", (json_int_t)bytes, "sha256", hex);
+	o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
+		      record_text(path), "bytes", (json_int_t)bytes, "sha256",
+		      hex);
 	if (o == NULL)
 		return -1;
 	return json_array_append_new(r->outputs, o) ? -1 : 0;

@@ -39,6 +39,13 @@ typedef struct run_record {
 	char id[16]; /* the run's report id, set by record_seal */
 } run_record;
 
+/* s as a JSON string for the record, which is UTF-8: a byte that does
+ * not begin a valid UTF-8 sequence (a name from a Latin-1 file, say)
+ * becomes U+FFFD, the replacement character (the Unicode Standard, 3.9,
+ * "U+FFFD substitution of maximal subparts", one byte at a time here).
+ * NULL when memory runs out; json_pack's "o" takes it. */
+json_t *record_text(const char *s);
+
 /* Starts a record: program, version, command line, UTC time (or
  * SOURCE_DATE_EPOCH when set, for reproducible tests), analyst. 0 on
  * success, -1 out of memory. */
