@@ -369,6 +369,37 @@ number(struct sink *k, char d, int defined, double v, int decimals,
 	sink_str(k, buf);
 }
 
+/* A column whose value repeats from row to row (a specification's
+ * limits, the coverage factor): the text of its last value, kept by the
+ * caller and written again while the value's bits are the same. */
+struct number_memo {
+	int valid, decimals;
+	uint64_t bits;
+	size_t len;
+	char text[64];
+};
+
+static void
+number_memo(struct sink *k, char d, int defined, double v, int decimals,
+	    const al_report_options *opt, struct number_memo *m)
+{
+	uint64_t bits;
+
+	sink_char(k, d);
+	if (!defined)
+		return;
+	memcpy(&bits, &v, sizeof bits);
+	if (!m->valid || m->bits != bits || m->decimals != decimals) {
+		format_number(v, decimals, opt->decimal_comma, k->point,
+			      m->text, sizeof m->text);
+		m->len = strlen(m->text);
+		m->bits = bits;
+		m->decimals = decimals;
+		m->valid = 1;
+	}
+	sink_put(k, m->text, m->len);
+}
+
 /* A header line from comma-separated names, in the delimiter asked for. */
 static void
 header(struct sink *k, const char *names, const al_report_options *opt)
@@ -399,6 +430,7 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 	/* put_text only counts in the sink; nothing else changes opt */
 	al_report_options *o = (al_report_options *)opt;
 	size_t id_len = opt->report_id ? strlen(opt->report_id) : 0;
+	struct number_memo memo[3] = {{0}};
 
 	for (size_t i = begin; i < end; i++) {
 		const al_group_result *r = rd ? al_assay_reader_result(rd, i)
@@ -418,8 +450,10 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		number(k, d, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
 		number(k, d, r->stats.has_sd, r->stats.ci_low, dec, opt);
 		number(k, d, r->stats.has_sd, r->stats.ci_high, dec, opt);
-		number(k, d, sp && sp->has_min, sp ? sp->min : 0, dec, opt);
-		number(k, d, sp && sp->has_max, sp ? sp->max : 0, dec, opt);
+		number_memo(k, d, sp && sp->has_min, sp ? sp->min : 0, dec, opt,
+			    &memo[0]);
+		number_memo(k, d, sp && sp->has_max, sp ? sp->max : 0, dec, opt,
+			    &memo[1]);
 		sink_char(k, d);
 		sink_str(k, al_verdict_name(r->verdict));
 		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
@@ -434,7 +468,7 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		number(k, d, r->has_horrat, r->horrat, -1, opt);
 		number(k, d, r->has_u, r->u, -1, opt);
 		number(k, d, r->has_u, r->U, -1, opt);
-		number(k, d, r->has_u, r->k, -1, opt);
+		number_memo(k, d, r->has_u, r->k, -1, opt, &memo[2]);
 		number(k, d, r->has_brix, r->brix, -1, opt);
 		number(k, d, r->has_brix_corrected, r->brix_corrected, -1, opt);
 		number(k, d, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
