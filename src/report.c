@@ -400,6 +400,49 @@ number_memo(struct sink *k, char d, int defined, double v, int decimals,
 	sink_put(k, m->text, m->len);
 }
 
+/* The same for a text column whose value repeats (the acid, the unit,
+ * the flags): its quoted text, kept under two keys that tell the value
+ * (a name's address, or the flag bits and the endpoint pH's bits). */
+struct text_memo {
+	int valid;
+	uint64_t key[2];
+	size_t len;
+	char text[1100]; /* flags of up to 511 bytes, every one doubled */
+};
+
+/* Writes the delimiter and the memo's text when the keys match;
+ * returns 0 when they do not (the caller then calls field_memo). */
+static int
+text_memo_hit(struct sink *k, char d, const struct text_memo *m,
+	      uint64_t key0, uint64_t key1)
+{
+	if (!m->valid || m->key[0] != key0 || m->key[1] != key1)
+		return 0;
+	sink_char(k, d);
+	sink_put(k, m->text, m->len);
+	return 1;
+}
+
+/* field(), keeping the quoted text in m under the keys. */
+static void
+field_memo(struct sink *k, const char *s, char d, struct text_memo *m,
+	   uint64_t key0, uint64_t key1)
+{
+	struct sink t;
+
+	sink_open(&t, NULL, m->text, sizeof m->text);
+	put_quoted(&t, s, strlen(s), d, 0);
+	m->valid = !t.full;
+	m->key[0] = key0;
+	m->key[1] = key1;
+	m->len = t.len;
+	if (m->valid) {
+		sink_char(k, d);
+		sink_put(k, m->text, m->len);
+	} else
+		field(k, s, d);
+}
+
 /* A header line from comma-separated names, in the delimiter asked for. */
 static void
 header(struct sink *k, const char *names, const al_report_options *opt)
@@ -431,6 +474,11 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 	al_report_options *o = (al_report_options *)opt;
 	size_t id_len = opt->report_id ? strlen(opt->report_id) : 0;
 	struct number_memo memo[3] = {{0}};
+	/* acid, unit, flags: in the caller's stack (3 KiB) */
+	struct text_memo names[3];
+	uint64_t ph_bits;
+
+	names[0].valid = names[1].valid = names[2].valid = 0;
 
 	for (size_t i = begin; i < end; i++) {
 		const al_group_result *r = rd ? al_assay_reader_result(rd, i)
@@ -441,8 +489,12 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		put_text(k, r->product, strlen(r->product), o);
 		text(k, r->lot, o);
 		text(k, r->sample, o);
-		field(k, r->acid->name, d);
-		field(k, al_unit_name(r->unit), d);
+		if (!text_memo_hit(k, d, &names[0], (uintptr_t)r->acid->name, 0))
+			field_memo(k, r->acid->name, d, &names[0],
+				   (uintptr_t)r->acid->name, 0);
+		if (!text_memo_hit(k, d, &names[1], (uint64_t)r->unit, 0))
+			field_memo(k, al_unit_name(r->unit), d, &names[1],
+				   (uint64_t)r->unit, 0);
 		sink_char(k, d);
 		sink_ulong(k, (unsigned long)r->stats.n);
 		number(k, d, r->stats.n > 0, r->stats.mean, dec, opt);
@@ -456,9 +508,12 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 			    &memo[1]);
 		sink_char(k, d);
 		sink_str(k, al_verdict_name(r->verdict));
-		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
-				sizeof flags);
-		field(k, flags, d);
+		memcpy(&ph_bits, &r->endpoint_ph_needed, sizeof ph_bits);
+		if (!text_memo_hit(k, d, &names[2], r->flags, ph_bits)) {
+			al_flags_format(r->flags, r->endpoint_ph_needed, flags,
+					sizeof flags);
+			field_memo(k, flags, d, &names[2], r->flags, ph_bits);
+		}
 		number(k, d, r->has_median, r->median, dec, opt);
 		/* screens are ratios: never rounded to the report's decimals */
 		number(k, d, r->has_grubbs, r->grubbs_g, -1, opt);
