@@ -411,7 +411,7 @@ struct text_memo {
 };
 
 /* Writes the delimiter and the memo's text when the keys match;
- * returns 0 when they do not (the caller then calls field_memo). */
+ * returns 0 when they do not. */
 static int
 text_memo_hit(struct sink *k, char d, const struct text_memo *m,
 	      uint64_t key0, uint64_t key1)
@@ -423,23 +423,23 @@ text_memo_hit(struct sink *k, char d, const struct text_memo *m,
 	return 1;
 }
 
-/* field(), keeping the quoted text in m under the keys. */
+/* field(), from the memo when its keys match, else keeping the quoted
+ * text of s in it under the keys. */
 static void
 field_memo(struct sink *k, const char *s, char d, struct text_memo *m,
 	   uint64_t key0, uint64_t key1)
 {
 	struct sink t;
 
+	if (text_memo_hit(k, d, m, key0, key1))
+		return;
 	sink_open(&t, NULL, m->text, sizeof m->text);
 	put_quoted(&t, s, strlen(s), d, 0);
 	m->valid = !t.full;
 	m->key[0] = key0;
 	m->key[1] = key1;
 	m->len = t.len;
-	if (m->valid) {
-		sink_char(k, d);
-		sink_put(k, m->text, m->len);
-	} else
+	if (!text_memo_hit(k, d, m, key0, key1))
 		field(k, s, d);
 }
 
@@ -489,12 +489,10 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		put_text(k, r->product, strlen(r->product), o);
 		text(k, r->lot, o);
 		text(k, r->sample, o);
-		if (!text_memo_hit(k, d, &names[0], (uintptr_t)r->acid->name, 0))
-			field_memo(k, r->acid->name, d, &names[0],
-				   (uintptr_t)r->acid->name, 0);
-		if (!text_memo_hit(k, d, &names[1], (uint64_t)r->unit, 0))
-			field_memo(k, al_unit_name(r->unit), d, &names[1],
-				   (uint64_t)r->unit, 0);
+		field_memo(k, r->acid->name, d, &names[0],
+			   (uintptr_t)r->acid->name, 0);
+		field_memo(k, al_unit_name(r->unit), d, &names[1],
+			   (uint64_t)r->unit, 0);
 		sink_char(k, d);
 		sink_ulong(k, (unsigned long)r->stats.n);
 		number(k, d, r->stats.n > 0, r->stats.mean, dec, opt);
@@ -509,6 +507,7 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		sink_char(k, d);
 		sink_str(k, al_verdict_name(r->verdict));
 		memcpy(&ph_bits, &r->endpoint_ph_needed, sizeof ph_bits);
+		/* the flags text is made only when the memo lacks it */
 		if (!text_memo_hit(k, d, &names[2], r->flags, ph_bits)) {
 			al_flags_format(r->flags, r->endpoint_ph_needed, flags,
 					sizeof flags);

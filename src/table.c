@@ -89,45 +89,56 @@ al_header_map(const al_csv_row *header, const char *const *names,
 	return st;
 }
 
+size_t
+al_utf8_seq(const char *str, size_t len)
+{
+	const unsigned char *s = (const unsigned char *)str;
+	unsigned c = len ? s[0] : 0, cp, min;
+	size_t n;
+
+	if (len == 0)
+		return 0;
+	if (c < 0x80)
+		return 1;
+	if (c >= 0xC2 && c <= 0xDF) {
+		n = 1;
+		cp = c & 0x1F;
+		min = 0x80;
+	} else if (c >= 0xE0 && c <= 0xEF) {
+		n = 2;
+		cp = c & 0x0F;
+		min = 0x800;
+	} else if (c >= 0xF0 && c <= 0xF4) {
+		n = 3;
+		cp = c & 0x07;
+		min = 0x10000;
+	} else
+		return 0;
+	if (n >= len) /* the continuation bytes run past the end */
+		return 0;
+	for (size_t k = 1; k <= n; k++) {
+		if ((s[k] & 0xC0) != 0x80)
+			return 0;
+		cp = (cp << 6) | (s[k] & 0x3F);
+	}
+	if (cp < min || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
+		return 0;
+	return n + 1;
+}
+
 int
 al_utf8_valid(const char *str, size_t len)
 {
-	const unsigned char *s = (const unsigned char *)str;
 	size_t i = 0;
 
 	while (i < len) {
-		unsigned c = s[i];
-		size_t n;
-		unsigned cp, min;
+		size_t n = (unsigned char)str[i] < 0x80
+				   ? 1
+				   : al_utf8_seq(str + i, len - i);
 
-		if (c < 0x80) {
-			i++;
-			continue;
-		}
-		if (c >= 0xC2 && c <= 0xDF) {
-			n = 1;
-			cp = c & 0x1F;
-			min = 0x80;
-		} else if (c >= 0xE0 && c <= 0xEF) {
-			n = 2;
-			cp = c & 0x0F;
-			min = 0x800;
-		} else if (c >= 0xF0 && c <= 0xF4) {
-			n = 3;
-			cp = c & 0x07;
-			min = 0x10000;
-		} else
+		if (n == 0)
 			return 0;
-		if (i + n >= len) /* the continuation bytes run past the end */
-			return 0;
-		for (size_t k = 1; k <= n; k++) {
-			if ((s[i + k] & 0xC0) != 0x80)
-				return 0;
-			cp = (cp << 6) | (s[i + k] & 0x3F);
-		}
-		if (cp < min || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF))
-			return 0;
-		i += n + 1;
+		i += n;
 	}
 	return 1;
 }
@@ -152,26 +163,22 @@ al_cell_number(const al_csv_row *row, int col, const char *column,
 	const char *s;
 	al_numerr err;
 
-	if (col >= 0 && (size_t)col < row->nfields && row->numbers &&
-	    row->numbers_point == decimal_point) {
-		/* parsed ahead, from the same bytes (al_csv_read_piped),
-		 * which also tells an empty cell */
+	if (col < 0 || (size_t)col >= row->nfields)
+		return 0;
+	/* parsed ahead, from the same bytes (al_csv_read_piped), or now;
+	 * al_number_parse trims the cell and tells an empty one */
+	if (row->numbers && row->numbers_point == decimal_point) {
 		err = (al_numerr)row->numbers[col].err;
-		if (err == AL_NUM_EMPTY)
-			return 0;
-		if (err == AL_NUM_OK) {
-			*value = row->numbers[col].value;
-			return 1;
-		}
-		s = al_cell(row, col, &len);
-	} else {
-		s = al_cell(row, col, &len);
-		if (len == 0)
-			return 0;
-		err = al_number_parse(s, len, decimal_point, value);
 		if (err == AL_NUM_OK)
-			return 1;
-	}
+			*value = row->numbers[col].value;
+	} else
+		err = al_number_parse(row->fields[col], row->lens[col],
+				      decimal_point, value);
+	if (err == AL_NUM_EMPTY)
+		return 0;
+	if (err == AL_NUM_OK)
+		return 1;
+	s = al_cell(row, col, &len);
 	al_diags_add(diags, AL_SEV_ERROR, file, row->line, column,
 		     "'%.*s' %s", (int)(len > 60 ? 60 : len), s,
 		     al_numerr_phrase(err));

@@ -37,8 +37,11 @@ al_status al_column_aliases_read(FILE *in, const char *file,
 				 al_diags *diags);
 void al_column_aliases_free(al_column_alias *aliases, size_t n);
 
-/* 1 when s[0..len) is well-formed UTF-8 (RFC 3629: no overlong forms,
- * no surrogates, nothing above U+10FFFF). */
+/* The length of the well-formed UTF-8 sequence that starts s (of len
+ * bytes), 1 to 4, or 0 when none does (RFC 3629: no overlong forms, no
+ * surrogates, nothing above U+10FFFF, not cut short). */
+size_t al_utf8_seq(const char *s, size_t len);
+/* 1 when s[0..len) is well-formed UTF-8, sequence after sequence. */
 int al_utf8_valid(const char *s, size_t len);
 
 /* The text of cell `col` of a row, trimmed; "" when col < 0. */

@@ -321,14 +321,9 @@ record_text(const char *s)
 	if (clean == NULL)
 		return NULL;
 	for (size_t i = 0; i < len;) {
-		unsigned char c = (unsigned char)s[i];
-		size_t n = c < 0x80		   ? 1
-			   : c >= 0xC2 && c <= 0xDF ? 2
-			   : c >= 0xE0 && c <= 0xEF ? 3
-			   : c >= 0xF0 && c <= 0xF4 ? 4
-						    : 0;
+		size_t n = al_utf8_seq(s + i, len - i);
 
-		if (n > 0 && i + n <= len && al_utf8_valid(s + i, n)) {
+		if (n > 0) {
 			memcpy(clean + at, s + i, n);
 			at += n;
 			i += n;
