@@ -326,6 +326,9 @@ random_doc(uint64_t *x, char *doc, size_t len, const char *plain,
 
 		doc[i] = (r >> 8) % 4 ? plain[(r >> 16) % np]
 				      : alphabet[(r >> 24) % na];
+		/* now and then a NUL, which no alphabet string can hold */
+		if ((r >> 40) % 700 == 0)
+			doc[i] = '\0';
 	}
 }
 
