@@ -31,114 +31,102 @@ delim_of(const al_report_options *opt)
  * hence the same digits as printf; otherwise, and when P leaves
  * [1e9, 1e10) (a power of ten misjudged, or a carry to eleven digits),
  * snprintf decides. tests/unit/test_number.c compares this byte for byte
- * with snprintf on millions of values.
- *
- * The digits are made and placed in registers, not byte by byte: the
- * ten digits as one 128-bit word (eight_digits below), the point or the
- * leading "0.000" put in by shifts, and the word stored once; the
- * trailing zeros are counted from the word's top bytes. So buf takes
- * 17 bytes and a NUL whatever the length. On a big-endian machine, or
- * without a 128-bit integer, every value goes to snprintf. */
-#if defined(__SIZEOF_INT128__) && defined(__BYTE_ORDER__) && \
-	__BYTE_ORDER__ == __ORDER_LITTLE_ENDIAN__
-#define G10_WORDS 1
-typedef unsigned __int128 u128;
-
-/* The eight decimal digits of x < 1e8, as values 0..9 (not yet ASCII),
- * the first in the lowest byte: x splits into halves of four digits in
- * 32-bit lanes, each into pairs in 16-bit lanes, each pair into digits,
- * dividing by 10^4, 100 and 10 through multiplications that are exact
- * for those ranges (x 109951163 >> 40 for x < 1e8, x 10486 >> 20 for
- * x < 1e4, x 103 >> 10 for x < 100). Common practice in integer
- * printing; checked by the comparison with snprintf. */
-static uint64_t
-eight_digits(uint32_t x)
-{
-	uint64_t hi = ((uint64_t)x * 109951163) >> 40; /* x / 10000 */
-	uint64_t v = hi | ((uint64_t)(x - (uint32_t)hi * 10000) << 32);
-	uint64_t t = ((v * 10486) >> 20) & 0x0000007F0000007FULL; /* / 100 */
-
-	v = t | ((v - t * 100) << 16);
-	t = ((v * 103) >> 10) & 0x000F000F000F000FULL; /* / 10 */
-	return t | ((v - t * 10) << 8);
-}
-
-#endif
-
+ * with snprintf on millions of values. */
 static size_t
 format_g10(double v, char *buf)
 {
-#ifndef G10_WORDS
-	(void)v;
-	(void)buf;
-	return 0;
-#else
 	static const double pow10[14] = {1e0, 1e1, 1e2,	 1e3,  1e4,  1e5,  1e6,
 					 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13};
 	double a = v < 0 ? -v : v, p, f;
-	uint64_t d, lo, bits;
-	uint32_t hi;
-	int e, b, low, tz, last, neg = v < 0;
-	u128 s, out;
-	size_t len;
+	uint64_t d;
+	int e;
+	char digits[10];
+	size_t len = 0;
 
 	if (!(a >= 1e-4 && a < 1e10))
 		return 0;
 	/* e from the binary exponent: a in [2^b, 2^(b+1)) gives
 	 * floor(b log10 2) <= log10 a < that + 2, so e is that or one more;
-	 * try the larger first. floor(b log10 2) is floor(b 1233 / 4096),
-	 * the same for |b| < 681 (here -14 <= b <= 33), without libm. A
-	 * misjudged e leaves p outside [1e9, 1e10), which the range check
-	 * below hands to snprintf. */
-	memcpy(&bits, &a, sizeof bits);
-	b = (int)((bits >> 52) & 0x7ff) - 1023;
-	e = ((b + 4096) * 1233) / 4096 - 1233 + 1;
-	e = e > 9 ? 9 : e < -4 ? -4 : e;
-	p = a * pow10[9 - e];
-	low = p < 1e9 && e > -4;
-	e -= low;
-	p = low ? a * pow10[9 - e] : p;
+	 * try the larger first. A misjudged e leaves p outside [1e9, 1e10),
+	 * which the range check below hands to snprintf. */
+	{
+		uint64_t bits;
+		int b;
+
+		memcpy(&bits, &a, sizeof bits);
+		b = (int)((bits >> 52) & 0x7ff) - 1023;
+		/* floor(b log10 2) as floor(b 1233 / 4096), the same for
+		 * |b| < 681 (here -14 <= b <= 33), without a libm call */
+		e = ((b + 4096) * 1233) / 4096 - 1233 + 1;
+		if (e > 9)
+			e = 9;
+		if (e < -4)
+			e = -4;
+		p = a * pow10[9 - e];
+		if (p < 1e9 && e > -4) {
+			e--;
+			p = a * pow10[9 - e];
+		}
+	}
 	if (!(p >= 1e9 && p < 1e10 - 1))
 		return 0;
 	d = (uint64_t)p;
 	f = p - (double)d;
 	if (f > 0.49999 && f < 0.50001)
 		return 0;
-	d += f > 0.5;
-	hi = (uint32_t)(d / 100000000);
-	lo = eight_digits((uint32_t)(d - (uint64_t)hi * 100000000));
-	/* trailing zero digits: the top bytes of lo, then hi's second */
-	tz = lo ? __builtin_clzll(lo) / 8 : 8 + (hi % 10 == 0);
-	last = 9 - tz; /* the last digit printed, 0..9 */
-	/* the ten digits in bytes 0..9, in ASCII */
-	s = ((u128)lo << 16 | (hi / 10) | (uint64_t)(hi % 10) << 8) |
-	    ((u128)0x3030303030303030ULL << 16 | 0x3030);
-	if (e >= 0) {
-		/* e + 1 digits, the point, the rest */
-		int il = e + 1;
-		u128 mask = ((u128)1 << (8 * il)) - 1;
+	if (f > 0.5)
+		d++;
+	/* the ten digits as two halves of five, in 32-bit arithmetic, two
+	 * digits at a time */
+	{
+		static const char pairs[] =
+			"00010203040506070809101112131415161718192021222324"
+			"25262728293031323334353637383940414243444546474849"
+			"50515253545556575859606162636465666768697071727374"
+			"75767778798081828384858687888990919293949596979899";
+		uint32_t half[2] = {(uint32_t)(d / 100000),
+				    (uint32_t)(d % 100000)};
 
-		out = (s & mask) | (u128)'.' << (8 * il) | (s & ~mask) << 8;
-		len = last > e ? (size_t)last + 2 : (size_t)il;
-	} else {
-		/* "0.", "0.0", "0.00", "0.000" before the digits */
-		static const uint64_t prefix[4] = {0x2E30, 0x302E30, 0x30302E30,
-						   0x3030302E30};
-		int pl = 1 - e;
+		for (int h = 0; h < 2; h++) {
+			uint32_t x = half[h], lo4 = x % 10000;
+			char *o = digits + 5 * h;
 
-		out = prefix[-e - 1] | s << (8 * pl);
-		len = (size_t)pl + (size_t)last + 1;
+			o[0] = (char)('0' + x / 10000);
+			memcpy(o + 1, pairs + 2 * (lo4 / 100), 2);
+			memcpy(o + 3, pairs + 2 * (lo4 % 100), 2);
+		}
 	}
-	buf[0] = '-';
-	memcpy(buf + neg, &out, 16);
-	len += (size_t)neg;
+	if (v < 0)
+		buf[len++] = '-';
+	{
+		int last = 9;
+
+		while (last > 0 && digits[last] == '0')
+			last--;
+		if (e >= 0) {
+			memcpy(buf + len, digits, (size_t)e + 1);
+			len += (size_t)e + 1;
+			if (last > e) {
+				buf[len++] = '.';
+				memcpy(buf + len, digits + e + 1,
+				       (size_t)(last - e));
+				len += (size_t)(last - e);
+			}
+		} else {
+			buf[len++] = '0';
+			buf[len++] = '.';
+			for (int i = 0; i < -e - 1; i++)
+				buf[len++] = '0';
+			memcpy(buf + len, digits, (size_t)last + 1);
+			len += (size_t)last + 1;
+		}
+	}
 	buf[len] = '\0';
 	return len;
-#endif
 }
 
-/* format_g10 with a decimal comma when asked: writes at most 17 bytes
- * and a NUL; the length, or 0 to leave the value to snprintf. */
+/* format_g10 with a decimal comma when asked: at most 17 bytes and a
+ * NUL; the length, or 0 to leave the value to snprintf. */
 static size_t
 put_g10(double v, int decimal_comma, char *buf)
 {
