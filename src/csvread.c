@@ -789,9 +789,11 @@ al_csv_read_mem(const al_csv_options *opt, const char *data, size_t len,
  * packs each record (and each field read as a number) into the batch it
  * is filling, one of PIPE_BATCHES used in turn; the caller unpacks them
  * in order and calls row_fn. A record is packed as
- *   struct packed, numbers[nfields], lens[nfields] (uint32), raw \0,
- *   syntax_error \0 (when set), each field \0,
- * padded to 8 bytes. When row_fn stops the read, the second thread is
+ *   struct packed, numbers[nfields], lens[nfields] and offsets[nfields]
+ *   (uint32), raw \0, syntax_error \0 (when set), the fields,
+ * padded to 8 bytes. The fields are one copy of the span the reader left
+ * them in (fields_span), or each with its \0 in turn; offsets[i] is
+ * field i's from the first's. When row_fn stops the read, the second thread is
  * told to stop too and what it found past that point is dropped, as
  * al_csv_read would never have seen it. */
 #define PIPE_BATCHES 8
@@ -852,22 +854,44 @@ pipe_publish(struct pipe *pp)
 	return 1;
 }
 
+/* The bytes from a row's first field to the NUL after its last, when
+ * the fields lie in that order in one buffer, each ended by its NUL (as
+ * both of al_csv_read's paths leave them): then one copy packs them all.
+ * 0 when they do not; the span is never more than raw_len + nfields. */
+static size_t
+fields_span(const al_csv_row *row)
+{
+	size_t n = row->nfields, span;
+
+	if (n == 0)
+		return 0;
+	for (size_t i = 0; i + 1 < n; i++)
+		if (row->fields[i + 1] <= row->fields[i] + row->lens[i])
+			return 0;
+	span = (size_t)(row->fields[n - 1] - row->fields[0]) +
+	       row->lens[n - 1] + 1;
+	return span <= row->raw_len + n ? span : 0;
+}
+
 static al_status
 pipe_pack(void *ud, const al_csv_row *row)
 {
 	struct pipe *pp = ud;
 	struct pipe_batch *b = &pp->batch[pp->filling];
 	size_t err_len = row->syntax_error ? strlen(row->syntax_error) + 1 : 0;
+	size_t span = fields_span(row);
 	size_t need = sizeof(struct packed) +
-		      row->nfields * (sizeof(al_csv_number) + sizeof(uint32_t)) +
-		      row->raw_len + 1 + err_len;
+		      row->nfields * (sizeof(al_csv_number) +
+				      2 * sizeof(uint32_t)) +
+		      row->raw_len + 1 + err_len + span;
 	struct packed *h;
 	al_csv_number *nums;
-	uint32_t *lens;
+	uint32_t *lens, *offs;
 	char *p;
 
-	for (size_t i = 0; i < row->nfields; i++)
-		need += row->lens[i] + 1;
+	if (span == 0)
+		for (size_t i = 0; i < row->nfields; i++)
+			need += row->lens[i] + 1;
 	need = pad8(need);
 	if (b->len + need > b->cap && b->len > 0) {
 		if (!pipe_publish(pp))
@@ -890,7 +914,8 @@ pipe_pack(void *ud, const al_csv_row *row)
 	h->has_error = row->syntax_error != NULL;
 	nums = (al_csv_number *)(void *)(h + 1);
 	lens = (uint32_t *)(void *)(nums + row->nfields);
-	p = (char *)(lens + row->nfields);
+	offs = lens + row->nfields;
+	p = (char *)(offs + row->nfields);
 	memcpy(p, row->raw, row->raw_len);
 	p[row->raw_len] = '\0';
 	p += row->raw_len + 1;
@@ -898,15 +923,22 @@ pipe_pack(void *ud, const al_csv_row *row)
 		memcpy(p, row->syntax_error, err_len);
 		p += err_len;
 	}
-	for (size_t i = 0; i < row->nfields; i++) {
+	if (span)
+		memcpy(p, row->fields[0], span);
+	for (size_t i = 0, at = 0; i < row->nfields; i++) {
 		/* al_number_parse trims and tells an empty cell */
 		nums[i].value = 0;
 		nums[i].err = (int)al_number_parse(row->fields[i], row->lens[i],
 						   pp->point, &nums[i].value);
 		lens[i] = (uint32_t)row->lens[i];
-		memcpy(p, row->fields[i], row->lens[i]);
-		p[row->lens[i]] = '\0';
-		p += row->lens[i] + 1;
+		if (span) {
+			offs[i] = (uint32_t)(row->fields[i] - row->fields[0]);
+			continue;
+		}
+		offs[i] = (uint32_t)at;
+		memcpy(p + at, row->fields[i], row->lens[i]);
+		p[at + row->lens[i]] = '\0';
+		at += row->lens[i] + 1;
 	}
 	b->len += need;
 	return AL_OK;
@@ -938,7 +970,8 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 		const struct packed *h = (const void *)(b->buf + at);
 		const al_csv_number *nums = (const void *)(h + 1);
 		const uint32_t *l32 = (const void *)(nums + h->nfields);
-		const char *p = (const char *)(l32 + h->nfields);
+		const uint32_t *o32 = l32 + h->nfields;
+		const char *p = (const char *)(o32 + h->nfields);
 		al_csv_row row;
 		al_status st;
 
@@ -968,9 +1001,8 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 			p += strlen(p) + 1;
 		}
 		for (size_t i = 0; i < h->nfields; i++) {
-			(*ptrs)[i] = p;
+			(*ptrs)[i] = p + o32[i];
 			(*lens)[i] = l32[i];
-			p += l32[i] + 1;
 		}
 		row.fields = *ptrs;
 		row.lens = *lens;
