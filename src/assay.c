@@ -42,7 +42,8 @@ enum {
 	G_VOLUME = 1,    /* the sample basis is volume (else mass) */
 	G_ANHYDROUS = 2, /* results on the anhydrous basis */
 	G_HEAP = 4,      /* values.heap holds the values */
-	G_STREAM = 8     /* values.stream holds running statistics */
+	G_STREAM = 8,    /* values.stream holds running statistics */
+	G_JUDGED = 16    /* verdict and flags are the evaluation's */
 };
 
 /* One group, kept small: memory per group is what bounds a run of
@@ -56,7 +57,7 @@ struct group {
 	uint8_t acid;        /* 1 + index in run->acids; 0: no valid row yet */
 	uint8_t unit;
 	uint8_t bits;        /* G_ */
-	uint8_t verdict;     /* set by al_assay_finish */
+	uint8_t verdict;     /* the evaluation's (G_JUDGED) */
 	/* sums of the inputs, for the uncertainty budget at their means */
 	double sum_titrant, sum_conc, sum_amount;
 	union {
@@ -1602,6 +1603,16 @@ replay_rows(al_assay *run)
 
 /* Evaluates group i into the reader's result: statistics, screens,
  * uncertainty, verdict. Reads the run only. */
+/* The acid a result is expressed as: its rows', or, when every row of
+ * it was rejected, its spec's or the run's default. */
+static const al_acid *
+result_acid(const al_assay *run, const struct group *g, const al_spec *spec)
+{
+	if (g->acid != 0)
+		return group_acid(run, g);
+	return spec && spec->acid ? spec->acid : run->opt.default_acid;
+}
+
 static void
 evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 {
@@ -1620,15 +1631,14 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 	r->lot = k + pl + 1;
 	r->sample = k + pl + ll + 2;
 	r->spec = spec;
+	r->acid = result_acid(run, g, spec);
 	if (g->acid == 0) {
 		/* every row of it was rejected: name it as its spec or the
 		 * defaults would */
-		r->acid = spec && spec->acid ? spec->acid : run->opt.default_acid;
 		r->unit = spec && spec->has_unit ? spec->unit
 			  : run->opt.has_unit	 ? run->opt.unit
 						 : AL_UNIT_G_100G;
 	} else {
-		r->acid = group_acid(run, g);
 		r->unit = (al_unit)g->unit;
 	}
 	r->values = group_values(g);
@@ -1656,6 +1666,19 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 	}
 	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
 	al_eval_result(&run->opt, &in, rd->scratch, r);
+	if (!(g->bits & G_JUDGED)) {
+		/* the run keeps each result's verdict and flags from its
+		 * first evaluation, in whichever thread: each result is
+		 * evaluated by one at a time (al_assay_finish,
+		 * al_report_write). Evaluation only adds flags, so keeping
+		 * them all changes no later evaluation and lets
+		 * al_assay_result_flags answer without one. */
+		struct group *w = &run->groups[i];
+
+		w->verdict = (uint8_t)r->verdict;
+		w->flags = r->flags;
+		w->bits |= G_JUDGED;
+	}
 	if ((g->flags & AL_FLAG_ENDPOINT_LOW) && x) {
 		r->endpoint_ph = x->min_endpoint;
 		if (al_endpoint_ph_needed(r->acid->pka, r->acid->n_pka,
@@ -1685,96 +1708,157 @@ note_used(const void ***list, size_t *n, const void *item)
 	return 0;
 }
 
-/* What finish keeps of a result: the counts, the flags, the acids and
- * specs used and Cochran's sums, taken in result order. */
-struct judged {
+/* What Cochran's test takes of a result: its product, n and variance,
+ * from its statistics as evaluate gives them (al_eval_stats), without
+ * the rest of an evaluation. */
+struct spread {
 	const char *product;
-	const al_acid *acid;
-	const al_spec *spec;
 	double var;
 	size_t n;
-	unsigned flags;
-	int verdict, has_sd;
+	int has_sd;
 };
 
-/* From AL_LANES_MIN results on, a second thread evaluates every other
- * chunk of them (lanes.h) into a slot of AL_LANES_CHUNK. */
+/* From AL_LANES_MIN results on, a second thread does every other chunk
+ * of them (lanes.h), into a slot of AL_LANES_CHUNK when the caller must
+ * take them in order. */
 struct finish_job {
 	al_assay *run;
 	al_assay_reader *rd; /* the second thread's */
 	al_cochran_acc *acc;
 	int oom;
-	struct judged *slot[2];
+	struct spread *slot[2];
 };
 
 static void
-judge(const al_group_result *r, struct judged *x)
+spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
+	  struct spread *x)
 {
-	x->product = r->product;
-	x->acid = r->acid;
-	x->spec = r->spec;
+	const struct group *g = &run->groups[i];
+	al_group_result *r = &rd->cur;
+	size_t used;
+
+	rd->cur_index = 0; /* cur holds no whole result from here on */
+	r->values = group_values(g);
+	r->n_values = g->n;
+	r->flags = g->flags;
+	r->has_grubbs = r->has_excluded = 0;
+	r->grubbs_index = 0;
+	al_eval_stats(&run->opt, g->bits & G_STREAM ? g->values.stream : NULL,
+		      rd->scratch, r, &used);
+	x->product = run->arena + g->key;
 	x->has_sd = r->stats.has_sd;
 	x->var = r->stats.sd * r->stats.sd;
 	x->n = r->stats.n;
-	x->flags = r->flags;
-	x->verdict = r->verdict;
 }
 
 /* The in-order part, result by result. */
 static void
-take_judged(struct finish_job *j, size_t i, const struct judged *x)
+take_spread(struct finish_job *j, size_t i, const struct spread *x)
 {
-	al_assay *run = j->run;
-
-	if (j->oom)
-		return;
-	if (x->has_sd &&
+	if (!j->oom && x->has_sd &&
 	    al_cochran_acc_add(j->acc, x->product, x->n, x->var, i) != 0)
 		j->oom = 1;
-	if (note_used((const void ***)&run->acids_used, &run->n_acids_used,
-		      x->acid) != 0 ||
-	    note_used((const void ***)&run->specs_used, &run->n_specs_used,
-		      x->spec) != 0)
-		j->oom = 1;
-	run->groups[i].verdict = (uint8_t)x->verdict;
-	/* evaluation only adds flags, so keeping them all changes no later
-	 * evaluation and lets al_assay_result_flags answer without one */
-	run->groups[i].flags = x->flags;
 }
 
 static void
-finish_own(void *ctx, size_t begin, size_t end)
+cochran_own(void *ctx, size_t begin, size_t end)
 {
 	struct finish_job *j = ctx;
 
 	for (size_t i = begin; i < end; i++) {
-		struct judged x;
+		struct spread x;
 
-		judge(reader_result(&j->run->own, i), &x);
-		take_judged(j, i, &x);
+		spread_of(j->run, &j->run->own, i, &x);
+		take_spread(j, i, &x);
 	}
 }
 
 static void
-finish_make(void *ctx, size_t begin, size_t end, int s)
+cochran_make(void *ctx, size_t begin, size_t end, int s)
 {
 	struct finish_job *j = ctx;
 
 	for (size_t i = begin; i < end; i++)
-		judge(reader_result(j->rd, i), &j->slot[s][i - begin]);
+		spread_of(j->run, j->rd, i, &j->slot[s][i - begin]);
 }
 
 static void
-finish_take(void *ctx, size_t begin, size_t end, int s)
+cochran_take(void *ctx, size_t begin, size_t end, int s)
 {
 	struct finish_job *j = ctx;
 
 	for (size_t i = begin; i < end; i++)
-		take_judged(j, i, &j->slot[s][i - begin]);
+		take_spread(j, i, &j->slot[s][i - begin]);
 }
 
-al_status
-al_assay_finish(al_assay *run)
+/* Every result evaluated once (evaluate keeps its verdict and flags in
+ * the group); nothing to take in order. */
+static void
+judge_own(void *ctx, size_t begin, size_t end)
+{
+	struct finish_job *j = ctx;
+
+	for (size_t i = begin; i < end; i++)
+		if (!(j->run->groups[i].bits & G_JUDGED))
+			reader_result(&j->run->own, i);
+}
+
+static void
+judge_make(void *ctx, size_t begin, size_t end, int s)
+{
+	struct finish_job *j = ctx;
+
+	(void)s;
+	for (size_t i = begin; i < end; i++)
+		if (!(j->run->groups[i].bits & G_JUDGED))
+			reader_result(j->rd, i);
+}
+
+static void
+judge_take(void *ctx, size_t begin, size_t end, int s)
+{
+	(void)ctx;
+	(void)begin;
+	(void)end;
+	(void)s;
+}
+
+/* Runs own/make/take over the results, in two threads from
+ * AL_LANES_MIN results on (with slots of struct spread when slots). */
+static int
+finish_lanes(struct finish_job *j, int slots,
+	     void (*own)(void *, size_t, size_t),
+	     void (*make)(void *, size_t, size_t, int),
+	     void (*take)(void *, size_t, size_t, int))
+{
+	al_assay *run = j->run;
+
+	if (run->n_groups >= AL_LANES_MIN && run->opt.threads != 1) {
+		j->rd = al_assay_reader_new(run);
+		for (int s = 0; slots && s < 2; s++)
+			j->slot[s] = al_malloc(AL_LANES_CHUNK * sizeof *j->slot[s]);
+		if (j->rd == NULL ||
+		    (slots && (j->slot[0] == NULL || j->slot[1] == NULL)))
+			j->oom = 1;
+	}
+	if (!j->oom && j->rd != NULL) {
+		al_lanes job = {j, run->n_groups, own, make, take};
+
+		al_lanes_run(&job);
+	} else if (!j->oom) {
+		own(j, 0, run->n_groups);
+	}
+	al_free(j->slot[0]);
+	al_free(j->slot[1]);
+	j->slot[0] = j->slot[1] = NULL;
+	al_assay_reader_free(j->rd);
+	j->rd = NULL;
+	return j->oom ? -1 : 0;
+}
+
+/* Cochran's tests, and their flags on the results they single out. */
+static al_status
+finish_cochran(al_assay *run)
 {
 	struct finish_job j;
 
@@ -1793,25 +1877,7 @@ al_assay_finish(al_assay *run)
 	run->own.cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->n_groups;
-	if (run->n_groups >= AL_LANES_MIN && run->opt.threads != 1) {
-		j.rd = al_assay_reader_new(run);
-		j.slot[0] = al_malloc(AL_LANES_CHUNK * sizeof *j.slot[0]);
-		j.slot[1] = al_malloc(AL_LANES_CHUNK * sizeof *j.slot[1]);
-		if (j.rd == NULL || j.slot[0] == NULL || j.slot[1] == NULL)
-			j.oom = 1;
-	}
-	if (!j.oom && j.rd != NULL) {
-		al_lanes job = {&j, run->n_groups, finish_own, finish_make,
-				finish_take};
-
-		al_lanes_run(&job);
-	} else if (!j.oom) {
-		finish_own(&j, 0, run->n_groups);
-	}
-	al_free(j.slot[0]);
-	al_free(j.slot[1]);
-	al_assay_reader_free(j.rd);
-	if (!j.oom)
+	if (finish_lanes(&j, 1, cochran_own, cochran_make, cochran_take) == 0)
 		run->cochran = al_cochran_acc_finish(j.acc, &run->n_cochran,
 						     &j.oom);
 	al_cochran_acc_free(j.acc);
@@ -1825,9 +1891,60 @@ al_assay_finish(al_assay *run)
 		else if (c->c > c->crit5)
 			run->groups[c->result].flags |= AL_FLAG_COCHRAN_STRAGGLER;
 	}
-	for (size_t i = 0; i < run->n_groups; i++)
-		run->counts.by_verdict[run->groups[i].verdict]++;
 	run->own.cur_index = 0;
+	return AL_OK;
+}
+
+al_status
+al_assay_finish_lazy(al_assay *run)
+{
+	al_status st = finish_cochran(run);
+
+	if (st != AL_OK)
+		return st;
+	return run->on_row ? replay_rows(run) : AL_OK;
+}
+
+al_status
+al_assay_settle(al_assay *run)
+{
+	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
+	run->n_acids_used = run->n_specs_used = 0;
+	for (size_t i = 0; i < run->n_groups; i++) {
+		const struct group *g = &run->groups[i];
+		const al_spec *spec;
+		size_t pl, ll;
+		const char *k = key_parts(run, g, &pl, &ll);
+
+		if (!(g->bits & G_JUDGED))
+			reader_result(&run->own, i);
+		run->counts.by_verdict[g->verdict]++;
+		spec = spec_of(run, &run->own.specs, k, pl);
+		if (note_used((const void ***)&run->acids_used,
+			      &run->n_acids_used,
+			      result_acid(run, g, spec)) != 0 ||
+		    note_used((const void ***)&run->specs_used,
+			      &run->n_specs_used, spec) != 0)
+			return AL_ENOMEM;
+	}
+	return AL_OK;
+}
+
+al_status
+al_assay_finish(al_assay *run)
+{
+	struct finish_job j;
+	al_status st = finish_cochran(run);
+
+	if (st != AL_OK)
+		return st;
+	memset(&j, 0, sizeof j);
+	j.run = run;
+	if (finish_lanes(&j, 0, judge_own, judge_make, judge_take) != 0)
+		return AL_ENOMEM;
+	st = al_assay_settle(run);
+	if (st != AL_OK)
+		return st;
 	return run->on_row ? replay_rows(run) : AL_OK;
 }
 

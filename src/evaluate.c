@@ -255,52 +255,63 @@ many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
 }
 
 void
+al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
+	      double *scratch, al_group_result *r, size_t *used)
+{
+	const al_qc_options *q = &opt->qc;
+	size_t n = r->n_values;
+
+	*used = n;
+	if (stream) {
+		many_values(opt, stream, n, r, used);
+		return;
+	}
+	al_stats_summarise(r->values, n, opt->confidence, &r->stats);
+	if (n >= 3 && r->stats.has_sd) {
+		double g = al_grubbs_g(r->values, n, r->stats.mean,
+				       r->stats.sd, &r->grubbs_index);
+
+		r->has_grubbs = 1;
+		r->grubbs_g = g;
+		if (g > al_grubbs_critical(n, 0.01))
+			r->flags |= AL_FLAG_OUTLIER;
+		else if (g > al_grubbs_critical(n, 0.05))
+			r->flags |= AL_FLAG_STRAGGLER;
+	}
+	/* the values the result is made of: all, or all but an excluded
+	 * outlier (ISO 5725-2 keeps it in the record; so do we) */
+	for (size_t i = 0, k = 0; i < n; i++) {
+		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
+		    i == r->grubbs_index)
+			continue;
+		scratch[k++] = r->values[i];
+	}
+	if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+		*used = n - 1;
+		r->has_excluded = 1;
+		r->excluded_index = r->grubbs_index;
+		r->flags |= AL_FLAG_EXCLUDED;
+		al_stats_summarise(scratch, *used, opt->confidence, &r->stats);
+	}
+}
+
+void
 al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	       double *scratch, al_group_result *r)
 {
 	const al_qc_options *q = &opt->qc;
-	size_t n = r->n_values, used = n;
+	size_t n = r->n_values, used;
 	double lo, hi;
 	unsigned why;
 	int range_exceeded = 0;
 
-	if (in->stream) {
-		many_values(opt, in->stream, n, r, &used);
-	} else {
-		al_stats_summarise(r->values, n, opt->confidence, &r->stats);
-		if (n >= 3 && r->stats.has_sd) {
-			double g = al_grubbs_g(r->values, n, r->stats.mean,
-					       r->stats.sd, &r->grubbs_index);
-
-			r->has_grubbs = 1;
-			r->grubbs_g = g;
-			if (g > al_grubbs_critical(n, 0.01))
-				r->flags |= AL_FLAG_OUTLIER;
-			else if (g > al_grubbs_critical(n, 0.05))
-				r->flags |= AL_FLAG_STRAGGLER;
-		}
+	al_eval_stats(opt, in->stream, scratch, r, &used);
+	if (!in->stream) {
 		if (n >= 3 && n <= 10) {
 			r->has_dixon = 1;
 			r->dixon_q = al_dixon_q(r->values, n, &r->dixon_index);
 			if (r->dixon_q > al_dixon_critical(n, 0.95))
 				r->flags |= AL_FLAG_DIXON;
-		}
-		/* the values the result is made of: all, or all but an
-		 * excluded outlier (ISO 5725-2 keeps it in the record; so do
-		 * we) */
-		for (size_t i = 0, k = 0; i < n; i++) {
-			if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
-			    i == r->grubbs_index)
-				continue;
-			scratch[k++] = r->values[i];
-		}
-		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
-			used = n - 1;
-			r->has_excluded = 1;
-			r->excluded_index = r->grubbs_index;
-			r->flags |= AL_FLAG_EXCLUDED;
-			al_stats_summarise(scratch, used, opt->confidence,
-					   &r->stats);
 		}
 		if (used > 0) {
 			gsl_sort(scratch, 1, used);

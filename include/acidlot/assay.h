@@ -237,6 +237,16 @@ al_status al_assay_read_piped(al_assay *run, al_read_fn read_fn, void *ctx,
  * call once, after the last read. */
 al_status al_assay_finish(al_assay *run);
 
+/* For a caller that evaluates every result next anyway (al_report_write):
+ * al_assay_finish without the verdicts, which the run keeps from each
+ * result's first evaluation instead, so that each is evaluated once.
+ * Results, Cochran's tests and the kept rows are as after
+ * al_assay_finish; the verdict counts, the flags of
+ * al_assay_result_flags and the acids and specs used are complete after
+ * al_assay_settle, which evaluates any result not yet evaluated. */
+al_status al_assay_finish_lazy(al_assay *run);
+al_status al_assay_settle(al_assay *run);
+
 size_t al_assay_group_count(const al_assay *run);
 /* i-th result in order of first appearance, after finish; NULL past the
  * end. Results are evaluated when asked for, so that a run keeps none of

@@ -1030,7 +1030,8 @@ cmd_assay(int argc, char **argv)
 				  e, e == 1 ? "" : "s");
 		goto out;
 	}
-	st = al_assay_finish(run);
+	/* each result is evaluated once, as the report is written */
+	st = al_assay_finish_lazy(run);
 	if (st != AL_OK) {
 		cli_error("%s", al_strerror(st));
 		goto out;
@@ -1046,6 +1047,11 @@ cmd_assay(int argc, char **argv)
 		goto out;
 	if (al_report_write(al_outfile_stream(report), run, &a.ropt) != AL_OK) {
 		cli_error("%s: write error", out_name);
+		goto out;
+	}
+	st = al_assay_settle(run);
+	if (st != AL_OK) {
+		cli_error("%s", al_strerror(st));
 		goto out;
 	}
 	if (a.budget) {

@@ -10,28 +10,37 @@
 #include "acidlot/assay.h"
 #include "acidlot/report.h"
 
+/* A run of text with the options given: read piped or not, then
+ * finished (lazily: al_assay_finish_lazy) when the reading went well. */
+static al_assay *
+run_with(const char *text, const al_assay_options *opt, int piped, int lazy,
+	 al_status *st)
+{
+	al_assay *run = al_assay_new(opt, st);
+	FILE *f = fmemopen((void *)text, strlen(text), "r");
+
+	assert_non_null(f);
+	assert_non_null(run);
+	*st = piped ? al_assay_read_piped(run, al_read_stdio, f, "t.csv", NULL,
+					  NULL)
+		    : al_assay_read(run, f, "t.csv", NULL, NULL);
+	fclose(f);
+	if (*st == AL_OK)
+		*st = lazy ? al_assay_finish_lazy(run) : al_assay_finish(run);
+	return run;
+}
+
 /* threads: 1 one thread; 0 two where it pays; 2 that and the reading
  * piped (al_assay_read_piped) */
 static al_assay *
 run_text_threads(const char *text, int threads, al_status *st)
 {
 	al_assay_options opt;
-	al_assay *run;
-	FILE *f = fmemopen((void *)text, strlen(text), "r");
 
-	assert_non_null(f);
 	memset(&opt, 0, sizeof opt);
 	opt.catalogue = cat;
 	opt.threads = threads == 1;
-	run = al_assay_new(&opt, st);
-	assert_non_null(run);
-	*st = threads == 2 ? al_assay_read_piped(run, al_read_stdio, f, "t.csv",
-						 NULL, NULL)
-			   : al_assay_read(run, f, "t.csv", NULL, NULL);
-	fclose(f);
-	if (*st == AL_OK)
-		*st = al_assay_finish(run);
-	return run;
+	return run_with(text, &opt, threads == 2, 0, st);
 }
 
 static al_assay *
@@ -239,6 +248,134 @@ report_two_threads(void **state)
 	al_assay_free(run1);
 }
 
+/* al_assay_finish_lazy, the report and al_assay_settle (what the
+ * command does, each result evaluated once) against al_assay_finish and
+ * the report: the same verdict counts, per-result flags and verdicts,
+ * Cochran's tests, acids and specs used and report bytes, in one thread
+ * and in two; and al_assay_settle alone evaluates what no report did.
+ * Two products have specifications whose limits split the results into
+ * pass, fail and retest, a third has none, and one sample of P1 has an
+ * outlier (Grubbs at its largest for n = 4), excluded in one of the
+ * two passes. */
+static al_assay *
+run_lazy(const char *text, const al_spec_table *specs, int threads,
+	 int lazy, int exclude)
+{
+	al_assay_options opt;
+	al_status st;
+	al_assay *run;
+
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	opt.specs = specs;
+	opt.threads = threads;
+	al_qc_options_default(&opt.qc);
+	opt.qc.exclude_outliers = exclude;
+	run = run_with(text, &opt, 0, lazy, &st);
+	assert_int_equal(st, AL_OK);
+	return run;
+}
+
+static void
+lazy_equals_finish(void **state)
+{
+	enum { SAMPLES = 20000 };
+	static const char spec_text[] =
+		"product,acid,unit,min,max,max_rsd_pct,min_n\n"
+		"P0,citric,g/100g,0.95,1.2,1.0,2\n"
+		"P1,malic,g/100g,0.9,1.3,3,3\n";
+	size_t cap = (size_t)SAMPLES * 4 * 64, len = 0;
+	char *text = malloc(cap);
+	al_diags d = {0};
+	al_status st;
+	FILE *sf = fmemopen((void *)spec_text, strlen(spec_text), "r");
+	al_spec_table *specs;
+
+	(void)state;
+	assert_non_null(text);
+	assert_non_null(sf);
+	specs = al_spec_table_read(cat, NULL, sf, "s.csv", &st, &d);
+	fclose(sf);
+	assert_non_null(specs);
+	len += (size_t)snprintf(text + len, cap - len,
+				"product,lot,sample,mass_g,titrant_ml,"
+				"titrant_mol_l\n");
+	for (int i = 0; i < SAMPLES; i++)
+		for (int r = 0; r < 1 + i % 4; r++)
+			len += (size_t)snprintf(
+				text + len, cap - len, "P%d,L%d,S%d,%.3f,%.2f,0.1000\n",
+				i % 3, i / 50, i, i == 43 ? 10.0 : 10 + 0.01 * (i % 11),
+				i == 43 ? (r == 3 ? 23.0 : 14.0)
+					: 13 + 0.3 * (i % 11) +
+						  0.02 * ((r * 13 + i) % 5));
+	assert_true(len < cap);
+	for (int exclude = 0; exclude < 2; exclude++)
+		for (int threads = 0; threads < 2; threads++) {
+			al_assay *full = run_lazy(text, specs, threads, 0, exclude);
+			al_assay *lazy = run_lazy(text, specs, threads, 1, exclude);
+			al_assay *bare = run_lazy(text, specs, threads, 1, exclude);
+			unsigned long g1, g2;
+			char *one = report_text(full, threads, &g1);
+			char *two = report_text(lazy, threads, &g2);
+			al_assay_counts c1, c2, c3;
+
+			assert_int_equal(al_assay_settle(lazy), AL_OK);
+			assert_int_equal(al_assay_settle(bare), AL_OK);
+			c1 = al_assay_get_counts(full);
+			c2 = al_assay_get_counts(lazy);
+			c3 = al_assay_get_counts(bare);
+			assert_true(c1.by_verdict[AL_VERDICT_PASS] > 0);
+			assert_true(c1.by_verdict[AL_VERDICT_FAIL] > 0);
+			assert_true(c1.by_verdict[AL_VERDICT_RETEST] > 0);
+			assert_true(c1.by_verdict[AL_VERDICT_NO_SPEC] > 0);
+			assert_memory_equal(c1.by_verdict, c2.by_verdict,
+					    sizeof c1.by_verdict);
+			assert_memory_equal(c1.by_verdict, c3.by_verdict,
+					    sizeof c1.by_verdict);
+			assert_true(al_assay_cochran_count(full) > 0);
+			assert_int_equal(al_assay_cochran_count(full),
+					 al_assay_cochran_count(lazy));
+			for (size_t i = 0; i < al_assay_cochran_count(full); i++)
+				assert_int_equal(al_assay_cochran_at(full, i)->result,
+						 al_assay_cochran_at(lazy, i)->result);
+			for (size_t i = 0; i < SAMPLES; i++) {
+				unsigned f = al_assay_result_flags(full, i);
+
+				assert_int_equal(f, al_assay_result_flags(lazy, i));
+				assert_int_equal(f, al_assay_result_flags(bare, i));
+				assert_int_equal(al_assay_result(full, i)->verdict,
+						 al_assay_result(bare, i)->verdict);
+			}
+			assert_true(al_assay_result_flags(full, 43) &
+				    AL_FLAG_OUTLIER);
+			assert_int_equal(!!(al_assay_result_flags(full, 43) &
+					    AL_FLAG_EXCLUDED), exclude);
+			for (size_t i = 0; i < 4; i++) {
+				assert_ptr_equal(al_assay_acid_used(full, i),
+						 al_assay_acid_used(lazy, i));
+				assert_ptr_equal(al_assay_acid_used(full, i),
+						 al_assay_acid_used(bare, i));
+				assert_ptr_equal(al_assay_spec_used(full, i),
+						 al_assay_spec_used(lazy, i));
+				assert_ptr_equal(al_assay_spec_used(full, i),
+						 al_assay_spec_used(bare, i));
+			}
+			assert_non_null(al_assay_acid_used(full, 1));
+			assert_non_null(al_assay_spec_used(full, 1));
+			assert_int_equal(strlen(one), strlen(two));
+			assert_true(strcmp(one, two) == 0);
+			assert_int_equal(g1, g2);
+			free(one);
+			free(two);
+			al_assay_free(full);
+			al_assay_free(lazy);
+			al_assay_free(bare);
+		}
+	al_spec_table_free(specs);
+	al_diags_clear(&d);
+	free(text);
+}
+
 int
 main(void)
 {
@@ -247,6 +384,7 @@ main(void)
 		cmocka_unit_test(counts_and_errors),
 		cmocka_unit_test(endpoint_flag),
 		cmocka_unit_test(report_two_threads),
+		cmocka_unit_test(lazy_equals_finish),
 	};
 
 	return cmocka_run_group_tests(tests, setup, teardown);
