@@ -8,6 +8,9 @@
 #include "acidlot/csvread.h"
 
 #include <csv.h>
+#ifdef __SSE2__
+#include <emmintrin.h>
+#endif
 #include <pthread.h>
 #include <stdint.h>
 #include <string.h>
@@ -423,14 +426,45 @@ restart(struct reader *r, struct csv_parser *p, const char *msg,
  * field can pass it) and not blank. libcsv (strict, our blank function)
  * gives such a line's fields as the pieces between delimiters with
  * blanks (space and tab, unless the delimiter) trimmed from both ends;
- * so does this, without the per-byte callbacks. Returns 0 when the line
- * must go through libcsv. The test suite checks that both paths give
- * the same records (tests/unit/test_csv.c). */
+ * so does this, without the per-byte callbacks. dmask, when not NULL,
+ * holds the line's delimiters as bits (bit i of dmask[i / 16] for byte
+ * i; scan_line), found with its end, and the line is known to hold no
+ * quote or NUL, and a blank only when blanks is set. Returns 0 when the line must go through libcsv. The
+ * test suite checks that both paths give the same records
+ * (tests/unit/test_csv.c). */
+/* Field k of the fast path: b[a..e) trimmed of blanks (unless the
+ * caller knows it has none: trim 0) and ended by a
+ * NUL; sets *content when something is left. 0 when the field cannot be
+ * had here: too many (libcsv's path says why), or no memory (then the
+ * reader has failed). */
+static inline __attribute__((always_inline)) int
+fast_field(struct reader *r, char *b, size_t a, size_t e, size_t k,
+	   int trim, int *content)
+{
+	if (k == AL_CSV_MAX_FIELDS)
+		return 0;
+	if (k == r->fields_cap && !grow_fields(r, k + 1)) {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return 0;
+	}
+	while (trim && a < e && (b[a] == ' ' || b[a] == '\t'))
+		a++;
+	while (trim && e > a && (b[e - 1] == ' ' || b[e - 1] == '\t'))
+		e--;
+	/* a field with something left is what makes the line not blank */
+	*content |= e > a;
+	b[e] = '\0';
+	r->ptrs[k] = b + a;
+	r->lens[k] = e - a;
+	return 1;
+}
+
 static int
-fast_record(struct reader *r, const char *line, size_t len, char term)
+fast_record(struct reader *r, const char *line, size_t len, char term,
+	    const uint16_t *dmask, int blanks)
 {
 	const char d = r->delimiter;
-	size_t k = 0;
+	size_t k = 0, a = 0;
 	int content = 0;
 	al_csv_row row;
 	al_status st;
@@ -446,34 +480,33 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 	/* a quote or a NUL leaves the line to libcsv (nothing is done
 	 * until row_fn); else copy it, split it at the delimiter and trim
 	 * each field (memchr and memcpy look at many bytes a step) */
-	if (memchr(line, '"', len) != NULL || memchr(line, '\0', len) != NULL)
+	if (dmask == NULL && (memchr(line, '"', len) != NULL ||
+			      memchr(line, '\0', len) != NULL))
 		return 0;
 	b = r->buf;
 	memcpy(b, line, len);
 	b[len] = d; /* the end closes the last field */
-	for (size_t i = 0; i <= len; i++) {
-		size_t a = i, e;
+	if (dmask != NULL) {
+		/* each delimiter's bit, in turn */
+		for (size_t w = 0; w < (len + 15) / 16; w++)
+			for (unsigned m = dmask[w]; m != 0; m &= m - 1) {
+				size_t i = 16 * w + (size_t)__builtin_ctz(m);
 
-		while (b[i] != d)
-			i++;
-		if (k == AL_CSV_MAX_FIELDS)
-			return 0; /* libcsv's path says why */
-		if (k == r->fields_cap && !grow_fields(r, k + 1)) {
-			fail(r, AL_ENOMEM, 0, NULL);
-			return 1;
+				if (!fast_field(r, b, a, i, k++, blanks,
+						&content))
+					return r->stop != AL_OK;
+				a = i + 1;
+			}
+		if (!fast_field(r, b, a, len, k++, blanks, &content))
+			return r->stop != AL_OK;
+	} else {
+		for (size_t i = 0; i <= len; i++) {
+			a = i;
+			while (b[i] != d)
+				i++;
+			if (!fast_field(r, b, a, i, k++, 1, &content))
+				return r->stop != AL_OK;
 		}
-		e = i;
-		while (a < e && (b[a] == ' ' || b[a] == '\t'))
-			a++;
-		while (e > a && (b[e - 1] == ' ' || b[e - 1] == '\t'))
-			e--;
-		/* a field with something left is what makes the line not
-		 * blank */
-		content |= e > a;
-		b[e] = '\0';
-		r->ptrs[k] = b + a;
-		r->lens[k] = e - a;
-		k++;
 	}
 	if (!content)
 		return 0;
@@ -491,6 +524,69 @@ fast_record(struct reader *r, const char *line, size_t len, char term)
 	r->cur_line++;
 	r->last_term = (unsigned char)term;
 	return 1;
+}
+
+/* Lines the vector scan looks at whole: up to SCAN_BLOCKS of 16 bytes.
+ * The chunk keeps SCAN_PAD zero bytes past its data, so that a block
+ * may be loaded past the end of what was read. */
+#define SCAN_BLOCKS 8
+#define SCAN_PAD (16 * SCAN_BLOCKS)
+
+/* The line at s (avail bytes of data, SCAN_PAD more readable): its
+ * length to the first CR or LF, its delimiters as bits in dmask and in
+ * *blanks whether it holds a space or a tab (a field to trim), when it
+ * ends within SCAN_PAD bytes and holds no quote and no NUL;
+ * else 0, to leave it to the byte-by-byte path. 16 bytes a step, by
+ * SSE2 compares (every x86-64 has them); elsewhere always 0. */
+static int
+scan_line(const char *s, size_t avail, char d, size_t *len,
+	  uint16_t dmask[SCAN_BLOCKS], int *blanks)
+{
+#ifdef __SSE2__
+	const __m128i lf = _mm_set1_epi8('\n'), cr = _mm_set1_epi8('\r'),
+		      qt = _mm_set1_epi8('"'), nul = _mm_setzero_si128(),
+		      dl = _mm_set1_epi8(d), sp = _mm_set1_epi8(' '),
+		      tab = _mm_set1_epi8('\t');
+	unsigned any_blank = 0;
+
+	for (size_t w = 0; w < SCAN_BLOCKS && 16 * w < avail; w++) {
+		__m128i v = _mm_loadu_si128((const __m128i *)(const void *)(s + 16 * w));
+		unsigned end = (unsigned)_mm_movemask_epi8(
+			_mm_or_si128(_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
+		unsigned bad = (unsigned)_mm_movemask_epi8(
+			_mm_or_si128(_mm_cmpeq_epi8(v, qt), _mm_cmpeq_epi8(v, nul)));
+		unsigned before;
+
+		if (avail - 16 * w < 16) {
+			/* past the data: no end there, and its zeros are no NUL */
+			unsigned valid = (1u << (avail - 16 * w)) - 1;
+
+			end &= valid;
+			bad &= valid;
+		}
+		before = end ? (1u << __builtin_ctz(end)) - 1 : 0xFFFFu;
+		if (bad & before)
+			return 0;
+		dmask[w] = (uint16_t)((unsigned)_mm_movemask_epi8(
+					      _mm_cmpeq_epi8(v, dl)) & before);
+		any_blank |= (unsigned)_mm_movemask_epi8(_mm_or_si128(
+				     _mm_cmpeq_epi8(v, sp),
+				     _mm_cmpeq_epi8(v, tab))) & before;
+		if (end) {
+			*len = 16 * w + (size_t)__builtin_ctz(end);
+			*blanks = any_blank != 0;
+			return 1;
+		}
+	}
+#else
+	(void)s;
+	(void)avail;
+	(void)d;
+	(void)len;
+	(void)dmask;
+	(void)blanks;
+#endif
+	return 0;
 }
 
 /* Counts the line end of the segment data[pos..q), which ends in at most
@@ -517,8 +613,22 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 	size_t pos = 0;
 
 	while (pos < n && r->stop == AL_OK) {
-		size_t q = pos, done;
+		size_t q = pos, done, len;
+		uint16_t dmask[SCAN_BLOCKS];
+		int blanks;
 
+		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
+		    scan_line(data + pos, n - pos, r->delimiter, &len, dmask,
+			      &blanks) &&
+		    len > 0 &&
+		    fast_record(r, data + pos, len, data[pos + len], dmask,
+				blanks)) {
+			if (r->stop != AL_OK)
+				break;
+			pos = line_end(data, pos, pos + len + 1, phys_line,
+				       prev_cr);
+			continue;
+		}
 		/* to the first CR or LF, and past it */
 		{
 			const char *nl = memchr(data + pos, '\n', n - pos);
@@ -529,7 +639,8 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 		}
 		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
 		    q - pos > 1 && (data[q - 1] == '\n' || data[q - 1] == '\r') &&
-		    fast_record(r, data + pos, q - pos - 1, data[q - 1])) {
+		    fast_record(r, data + pos, q - pos - 1, data[q - 1], NULL,
+				1)) {
 			if (r->stop != AL_OK)
 				break;
 			pos = line_end(data, pos, q, phys_line, prev_cr);
@@ -626,7 +737,7 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	hook_limit = ((r.max_field + 1 + blk - 1) / blk) * blk;
 	hook_refused = 0;
 
-	chunk = al_malloc(CHUNK);
+	chunk = al_malloc(CHUNK + SCAN_PAD);
 	if (chunk == NULL) {
 		csv_free(&p);
 		return AL_ENOMEM;
@@ -709,6 +820,7 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 			}
 			csv_set_delim(&p, (unsigned char)r.delimiter);
 		}
+		memset(chunk + n, 0, SCAN_PAD); /* scan_line reads past n */
 		if (!feed(&r, &p, chunk + skip, n - skip, &phys_line, &prev_cr))
 			break;
 	}
