@@ -1709,8 +1709,9 @@ note_used(const void ***list, size_t *n, const void *item)
 }
 
 /* What Cochran's test takes of a result: its product, n and variance,
- * from its statistics as evaluate gives them (al_eval_stats), without
- * the rest of an evaluation. */
+ * from its statistics as evaluate gives them, without the rest of an
+ * evaluation: al_stats_sd of its values, or al_eval_stats where an
+ * outlier may be left out or only running sums are kept. */
 struct spread {
 	const char *product;
 	double var;
@@ -1737,6 +1738,16 @@ spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	al_group_result *r = &rd->cur;
 	size_t used;
 
+	x->product = run->arena + g->key;
+	if (!run->opt.qc.exclude_outliers && !(g->bits & G_STREAM)) {
+		/* no value is left out: the statistics of all of them */
+		double mean, sd = 0;
+
+		x->has_sd = al_stats_sd(group_values(g), g->n, &mean, &sd);
+		x->var = sd * sd;
+		x->n = g->n;
+		return;
+	}
 	rd->cur_index = 0; /* cur holds no whole result from here on */
 	r->values = group_values(g);
 	r->n_values = g->n;
@@ -1745,7 +1756,6 @@ spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	r->grubbs_index = 0;
 	al_eval_stats(&run->opt, g->bits & G_STREAM ? g->values.stream : NULL,
 		      rd->scratch, r, &used);
-	x->product = run->arena + g->key;
 	x->has_sd = r->stats.has_sd;
 	x->var = r->stats.sd * r->stats.sd;
 	x->n = r->stats.n;

@@ -68,15 +68,23 @@ al_stats_from_moments(size_t n, double mean, double m2, double level,
 	spread(out, sqrt(m2 / (double)(n - 1)), level);
 }
 
+int
+al_stats_sd(const double *x, size_t n, double *mean, double *sd)
+{
+	*mean = n > 0 ? gsl_stats_mean(x, 1, n) : 0;
+	if (n < 2)
+		return 0;
+	*sd = gsl_stats_sd_m(x, 1, n, *mean);
+	return 1;
+}
+
 void
 al_stats_summarise(const double *x, size_t n, double level, al_summary *out)
 {
+	double sd;
+
 	memset(out, 0, sizeof *out);
 	out->n = n;
-	if (n == 0)
-		return;
-	out->mean = gsl_stats_mean(x, 1, n);
-	if (n < 2)
-		return;
-	spread(out, gsl_stats_sd_m(x, 1, n, out->mean), level);
+	if (al_stats_sd(x, n, &out->mean, &sd))
+		spread(out, sd, level);
 }

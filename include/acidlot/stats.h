@@ -21,6 +21,11 @@ typedef struct al_summary {
 void al_stats_summarise(const double *x, size_t n, double level,
 			al_summary *out);
 
+/* The mean and the sample standard deviation of x[0..n) alone, the
+ * same doubles as al_stats_summarise's: 1 with both set, or 0 with only
+ * the mean (0 for no values) when n < 2. */
+int al_stats_sd(const double *x, size_t n, double *mean, double *sd);
+
 /* The same summary from running moments: n values, their mean and the
  * sum of squared deviations from it (m2), as Welford's algorithm keeps
  * them (Welford 1962; Knuth TAOCP vol. 2, 4.2.2). */
