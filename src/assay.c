@@ -1213,7 +1213,8 @@ row_values(al_assay *run, const al_csv_row *row)
 		static const char *const names[5] = {"product", "lot", "sample",
 						     "replicate", "acid"};
 
-		for (int i = 0; i < 5; i++)
+		/* a record of ASCII bytes only is UTF-8 throughout */
+		for (int i = 0; i < 5 && !row->ascii; i++)
 			if (!al_utf8_valid(text[i], tl[i]))
 				ROW_ERR(run, line, names[i],
 					"is not valid UTF-8 text (save the file "

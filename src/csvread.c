@@ -429,7 +429,8 @@ restart(struct reader *r, struct csv_parser *p, const char *msg,
  * so does this, without the per-byte callbacks. dmask, when not NULL,
  * holds the line's delimiters as bits (bit i of dmask[i / 16] for byte
  * i; scan_line), found with its end, and the line is known to hold no
- * quote or NUL, and a blank only when blanks is set. Returns 0 when the line must go through libcsv. The
+ * quote or NUL, and a blank only when blanks is set; ascii says that
+ * its bytes are all ASCII (passed on in the row). Returns 0 when the line must go through libcsv. The
  * test suite checks that both paths give the same records
  * (tests/unit/test_csv.c). */
 /* Field k of the fast path: b[a..e) trimmed of blanks (unless the
@@ -461,7 +462,7 @@ fast_field(struct reader *r, char *b, size_t a, size_t e, size_t k,
 
 static int
 fast_record(struct reader *r, const char *line, size_t len, char term,
-	    const uint16_t *dmask, int blanks)
+	    const uint16_t *dmask, int blanks, int ascii)
 {
 	const char d = r->delimiter;
 	size_t k = 0, a = 0;
@@ -518,6 +519,8 @@ fast_record(struct reader *r, const char *line, size_t len, char term,
 	row.delimiter = d;
 	row.raw = line;
 	row.raw_len = len;
+	row.trimmed = 1;
+	row.ascii = (unsigned char)ascii;
 	st = r->row_fn(r->ud, &row);
 	if (st != AL_OK && r->stop == AL_OK)
 		r->stop = st;
@@ -533,21 +536,22 @@ fast_record(struct reader *r, const char *line, size_t len, char term,
 #define SCAN_PAD (16 * SCAN_BLOCKS)
 
 /* The line at s (avail bytes of data, SCAN_PAD more readable): its
- * length to the first CR or LF, its delimiters as bits in dmask and in
- * *blanks whether it holds a space or a tab (a field to trim), when it
+ * length to the first CR or LF, its delimiters as bits in dmask, in
+ * *blanks whether it holds a space or a tab (a field to trim) and in
+ * *ascii whether all its bytes are below 0x80, when it
  * ends within SCAN_PAD bytes and holds no quote and no NUL;
  * else 0, to leave it to the byte-by-byte path. 16 bytes a step, by
  * SSE2 compares (every x86-64 has them); elsewhere always 0. */
 static int
 scan_line(const char *s, size_t avail, char d, size_t *len,
-	  uint16_t dmask[SCAN_BLOCKS], int *blanks)
+	  uint16_t dmask[SCAN_BLOCKS], int *blanks, int *ascii)
 {
 #ifdef __SSE2__
 	const __m128i lf = _mm_set1_epi8('\n'), cr = _mm_set1_epi8('\r'),
 		      qt = _mm_set1_epi8('"'), nul = _mm_setzero_si128(),
 		      dl = _mm_set1_epi8(d), sp = _mm_set1_epi8(' '),
 		      tab = _mm_set1_epi8('\t');
-	unsigned any_blank = 0;
+	unsigned any_blank = 0, any_high = 0;
 
 	for (size_t w = 0; w < SCAN_BLOCKS && 16 * w < avail; w++) {
 		__m128i v = _mm_loadu_si128((const __m128i *)(const void *)(s + 16 * w));
@@ -572,9 +576,12 @@ scan_line(const char *s, size_t avail, char d, size_t *len,
 		any_blank |= (unsigned)_mm_movemask_epi8(_mm_or_si128(
 				     _mm_cmpeq_epi8(v, sp),
 				     _mm_cmpeq_epi8(v, tab))) & before;
+		/* a byte's top bit: not ASCII */
+		any_high |= (unsigned)_mm_movemask_epi8(v) & before;
 		if (end) {
 			*len = 16 * w + (size_t)__builtin_ctz(end);
 			*blanks = any_blank != 0;
+			*ascii = any_high == 0;
 			return 1;
 		}
 	}
@@ -585,6 +592,7 @@ scan_line(const char *s, size_t avail, char d, size_t *len,
 	(void)len;
 	(void)dmask;
 	(void)blanks;
+	(void)ascii;
 #endif
 	return 0;
 }
@@ -615,14 +623,14 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 	while (pos < n && r->stop == AL_OK) {
 		size_t q = pos, done, len;
 		uint16_t dmask[SCAN_BLOCKS];
-		int blanks;
+		int blanks, ascii;
 
 		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
 		    scan_line(data + pos, n - pos, r->delimiter, &len, dmask,
-			      &blanks) &&
+			      &blanks, &ascii) &&
 		    len > 0 &&
 		    fast_record(r, data + pos, len, data[pos + len], dmask,
-				blanks)) {
+				blanks, ascii)) {
 			if (r->stop != AL_OK)
 				break;
 			pos = line_end(data, pos, pos + len + 1, phys_line,
@@ -640,7 +648,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
 		    q - pos > 1 && (data[q - 1] == '\n' || data[q - 1] == '\r') &&
 		    fast_record(r, data + pos, q - pos - 1, data[q - 1], NULL,
-				1)) {
+				1, 0)) {
 			if (r->stop != AL_OK)
 				break;
 			pos = line_end(data, pos, q, phys_line, prev_cr);
@@ -917,6 +925,7 @@ struct packed {
 	unsigned long line;
 	char delimiter;
 	char has_error;
+	unsigned char trimmed, ascii; /* the row's */
 };
 
 struct pipe_batch {
@@ -1024,6 +1033,8 @@ pipe_pack(void *ud, const al_csv_row *row)
 	h->line = row->line;
 	h->delimiter = row->delimiter;
 	h->has_error = row->syntax_error != NULL;
+	h->trimmed = row->trimmed;
+	h->ascii = row->ascii;
 	nums = (al_csv_number *)(void *)(h + 1);
 	lens = (uint32_t *)(void *)(nums + row->nfields);
 	offs = lens + row->nfields;
@@ -1107,6 +1118,8 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 		row.delimiter = h->delimiter;
 		row.raw = p;
 		row.raw_len = h->raw_len;
+		row.trimmed = h->trimmed;
+		row.ascii = h->ascii;
 		p += h->raw_len + 1;
 		if (h->has_error) {
 			row.syntax_error = p;

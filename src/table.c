@@ -151,7 +151,7 @@ al_cell(const al_csv_row *row, int col, size_t *len)
 		return "";
 	}
 	*len = row->lens[col];
-	return al_trim(row->fields[col], len);
+	return row->trimmed ? row->fields[col] : al_trim(row->fields[col], len);
 }
 
 int

@@ -51,6 +51,11 @@ typedef struct al_csv_row {
 	 * point numbers_point reads it; NULL otherwise */
 	const al_csv_number *numbers;
 	char numbers_point;
+	/* set by the reader's path for plain lines (0 says nothing):
+	 * trimmed, every field is trimmed of blanks already (al_cell need
+	 * not look); ascii, every byte of the record is below 0x80 (so it is
+	 * valid UTF-8) */
+	unsigned char trimmed, ascii;
 } al_csv_row;
 
 /* Called for every record that has at least one field. Blank lines are

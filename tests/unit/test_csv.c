@@ -247,6 +247,15 @@ record_row(void *ud, const al_csv_row *row)
 		put(t, row->fields[i], row->lens[i]);
 		put(t, "|", 1);
 	}
+	/* what the plain lines' path says of a row holds */
+	for (size_t i = 0; row->trimmed && i < row->nfields; i++) {
+		size_t n = row->lens[i];
+
+		assert_true(n == 0 || (!strchr(" \t", row->fields[i][0]) &&
+				       !strchr(" \t", row->fields[i][n - 1])));
+	}
+	for (size_t i = 0; row->ascii && i < row->raw_len; i++)
+		assert_true((unsigned char)row->raw[i] < 0x80);
 	put(t, "raw=", 4);
 	put(t, row->raw, row->raw_len);
 	if (row->syntax_error)
@@ -400,7 +409,7 @@ fast_path_matches_libcsv(void **state)
 {
 	(void)state;
 	compare_readers(0, 88172645463325252ULL, 6000, "abc123.5",
-			"a1.,,;;\t  \n\n\r\"x-");
+			"a1.,,;;\t  \n\n\r\"x-\xC3\xA9");
 }
 
 /* Piped reading (a second thread splits and parses) hands row_fn what
