@@ -155,9 +155,9 @@ al_cell(const al_csv_row *row, int col, size_t *len)
 }
 
 int
-al_cell_number(const al_csv_row *row, int col, const char *column,
-	       char decimal_point, const char *file, al_diags *diags,
-	       double *value)
+al_cell_number_at(const al_csv_row *row, int col, const char *column,
+		  char decimal_point, const char *file, al_diags *diags,
+		  double *value)
 {
 	size_t len;
 	const char *s;

@@ -6,6 +6,7 @@
 #include <stddef.h>
 
 #include "acidlot/csvread.h"
+#include "acidlot/number.h"
 #include "acidlot/status.h"
 
 /* A header of an instrument export standing for one of our columns,
@@ -50,8 +51,25 @@ const char *al_cell(const al_csv_row *row, int col, size_t *len);
 /* Parses cell `col` as a number. Returns 1 with *value set, 0 when the
  * cell is empty or absent, -1 after adding an error naming the file,
  * line and column to diags. */
-int al_cell_number(const al_csv_row *row, int col, const char *column,
-		   char decimal_point, const char *file, al_diags *diags,
-		   double *value);
+int al_cell_number_at(const al_csv_row *row, int col, const char *column,
+		      char decimal_point, const char *file, al_diags *diags,
+		      double *value);
+/* The same, inline where the answer needs no call (an absent column, a
+ * number parsed ahead), for the many cells of every row. */
+static inline int
+al_cell_number(const al_csv_row *row, int col, const char *column,
+	       char decimal_point, const char *file, al_diags *diags,
+	       double *value)
+{
+	if (col < 0 || (size_t)col >= row->nfields)
+		return 0;
+	if (row->numbers && row->numbers_point == decimal_point &&
+	    row->numbers[col].err == AL_NUM_OK) {
+		*value = row->numbers[col].value;
+		return 1;
+	}
+	return al_cell_number_at(row, col, column, decimal_point, file, diags,
+				 value);
+}
 
 #endif
