@@ -154,6 +154,10 @@ struct al_assay {
 	size_t n_cochran;
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
+	/* the key key_hint fetched the slot of last: product \0 lot \0
+	 * sample, hint_len bytes (0: none) */
+	char hint_key[64];
+	size_t hint_len;
 
 	/* per-file state */
 	const char *file;
@@ -429,6 +433,58 @@ key_ahead(const al_assay *run, const char *p, size_t pl, const char *l,
 	k->h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
 	if (run->n_slots)
 		__builtin_prefetch(&run->slots[k->h32 & (run->n_slots - 1)]);
+}
+
+/* Cell col of a record seen ahead, or "" when the column is absent. */
+static const char *
+hint_cell(const al_csv_cells *c, int col, size_t *len)
+{
+	if (col < 0 || (size_t)col >= c->nfields) {
+		*len = 0;
+		return "";
+	}
+	*len = c->len[col];
+	return c->base + c->off[col];
+}
+
+/* The reader's hint (al_csv_options ahead_fn): a record some rows ahead
+ * of this one. At millions of samples the key's hash slot is a miss to
+ * main memory, and key_ahead's prefetch, a row's checks before its use,
+ * is too late to hide it; fetched now, it is in the cache when the row
+ * comes. Only when the key changes, so that a sample's replicates cost
+ * one compare. A cell not yet trimmed gives a useless prefetch, no
+ * wrong result: nothing but the cache depends on this. */
+static void
+key_hint(void *ud, const al_csv_cells *c)
+{
+	al_assay *run = ud;
+	size_t pl, ll, sl, n;
+	const char *p, *l, *s;
+	uint64_t h;
+
+	if (!run->header_ok || run->n_slots == 0)
+		return;
+	p = hint_cell(c, run->col[C_PRODUCT], &pl);
+	l = hint_cell(c, run->col[C_LOT], &ll);
+	s = hint_cell(c, run->col[C_SAMPLE], &sl);
+	n = pl + ll + sl + 2;
+	if (n <= sizeof run->hint_key) {
+		char *k = run->hint_key;
+
+		if (n == run->hint_len && memcmp(k, p, pl) == 0 &&
+		    memcmp(k + pl + 1, l, ll) == 0 &&
+		    memcmp(k + pl + ll + 2, s, sl) == 0 && k[pl] == '\0' &&
+		    k[pl + ll + 1] == '\0')
+			return;
+		memcpy(k, p, pl);
+		k[pl] = '\0';
+		memcpy(k + pl + 1, l, ll);
+		k[pl + ll + 1] = '\0';
+		memcpy(k + pl + ll + 2, s, sl);
+		run->hint_len = n;
+	}
+	h = key_hash(p, pl, l, ll, s, sl);
+	__builtin_prefetch(&run->slots[SLOT_HASH(h) & (run->n_slots - 1)]);
 }
 
 /* A buffer filled from the front, [0, used) of cap bytes, its pages
@@ -1540,6 +1596,8 @@ read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
 	run->header_done = run->header_ok = 0;
 	run->on_row = on_row;
 	run->ud = ud;
+	run->opt.csv.ahead_fn = piped ? key_hint : NULL;
+	run->hint_len = 0;
 	st = (piped ? al_csv_read_piped : al_csv_read)(&run->opt.csv, read_fn,
 						       ctx, run->file,
 						       on_csv_row, run,

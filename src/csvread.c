@@ -1084,11 +1084,32 @@ pipe_run(void *arg)
 	return NULL;
 }
 
-/* The caller's side: hands each record of a batch to row_fn. */
+/* The cells of the packed record h, for ahead_fn. */
+static void
+packed_cells(const struct packed *h, al_csv_cells *c)
+{
+	const al_csv_number *nums = (const void *)(h + 1);
+
+	c->nfields = h->nfields;
+	c->len = (const void *)(nums + h->nfields);
+	c->off = c->len + h->nfields;
+	c->base = (const char *)(c->off + h->nfields) + h->raw_len + 1;
+	if (h->has_error)
+		c->base += strlen(c->base) + 1;
+}
+
+/* The caller's side: hands each record of a batch to row_fn, and the
+ * one AL_CSV_AHEAD records further on to ahead_fn (when not NULL). */
 static al_status
 pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
-	    void *ud, const char ***ptrs, size_t **lens, size_t *cap)
+	    void (*ahead_fn)(void *, const al_csv_cells *), void *ud,
+	    const char ***ptrs, size_t **lens, size_t *cap)
 {
+	size_t ahead = 0;
+
+	for (int i = 0; ahead_fn && i < AL_CSV_AHEAD && ahead < b->len; i++)
+		ahead += ((const struct packed *)(const void *)(b->buf + ahead))
+				 ->size;
 	for (size_t at = 0; at < b->len;) {
 		const struct packed *h = (const void *)(b->buf + at);
 		const al_csv_number *nums = (const void *)(h + 1);
@@ -1111,6 +1132,15 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 				return AL_ENOMEM;
 			*lens = nl;
 			*cap = h->nfields;
+		}
+		if (ahead_fn && ahead < b->len) {
+			const struct packed *a = (const void *)(b->buf + ahead);
+			al_csv_cells c;
+
+			packed_cells(a, &c);
+			if (c.nfields > 0)
+				ahead_fn(ud, &c);
+			ahead += a->size;
 		}
 		memset(&row, 0, sizeof row);
 		row.nfields = h->nfields;
@@ -1187,7 +1217,8 @@ al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
 		pthread_mutex_unlock(&pp.mu);
 		if (last)
 			break;
-		st = pipe_unpack(b, pp.point, row_fn, ud, &ptrs, &lens, &cap);
+		st = pipe_unpack(b, pp.point, row_fn, pp.opt->ahead_fn, ud,
+				 &ptrs, &lens, &cap);
 		pthread_mutex_lock(&pp.mu);
 		b->full = 0;
 		if (st != AL_OK)

@@ -4,9 +4,12 @@
 #define ACIDLOT_CSVREAD_H
 
 #include <stddef.h>
+#include <stdint.h>
 #include <stdio.h>
 
 #include "acidlot/status.h"
+
+struct al_csv_cells;
 
 typedef struct al_csv_options {
 	char delimiter;     /* ',' when 0; AL_CSV_AUTO to detect it */
@@ -18,7 +21,24 @@ typedef struct al_csv_options {
 	int no_fast_path;   /* every record through libcsv, none through
 			       the reader's own path for plain lines (for
 			       tests that compare the two) */
+	/* al_csv_read_piped only, a hint (NULL: none): called in the
+	 * caller's thread, with the row callback's ud, on the cells of the
+	 * record AL_CSV_AHEAD records after the one the row callback gets
+	 * next, when the same batch holds it, so that the caller can fetch
+	 * into the cache what that record will need. Nothing may depend on
+	 * whether or when it is called. */
+	void (*ahead_fn)(void *ud, const struct al_csv_cells *cells);
 } al_csv_options;
+
+#define AL_CSV_AHEAD 8
+
+/* A record's cells as ahead_fn sees them: cell i is base + off[i], len[i]
+ * bytes, NUL-terminated; valid only during the call. */
+typedef struct al_csv_cells {
+	size_t nfields;
+	const char *base;
+	const uint32_t *off, *len;
+} al_csv_cells;
 
 #define AL_CSV_MAX_FIELD 4096
 /* Records longer than this, or with more fields, are refused. */

@@ -218,19 +218,93 @@ struct transcript {
 	char *text;
 	size_t len, cap;
 	unsigned long rows, stop_at; /* stop_at: row_fn stops there (0: never) */
+	/* the cells of each record, one line each: as row_fn saw them
+	 * (seen) and as the piped reader's ahead_fn did (ahead) */
+	struct cells_log {
+		char *text;
+		size_t len, cap;
+		unsigned long lines;
+	} seen, ahead;
 };
+
+static void
+log_put(struct cells_log *g, const char *s, size_t n)
+{
+	if (g->len + n + 1 > g->cap) {
+		g->cap = 2 * (g->len + n + 1);
+		g->text = realloc(g->text, g->cap);
+		assert_non_null(g->text);
+	}
+	memcpy(g->text + g->len, s, n);
+	g->len += n;
+	g->text[g->len] = '\0';
+}
+
+/* A record's cells, "|" between them and a NUL after the last (no field
+ * holds a NUL; a cell with a line end stays on its line). */
+static void
+log_cell(struct cells_log *g, const char *s, size_t n, int last)
+{
+	log_put(g, s, n);
+	if (last) {
+		g->len++; /* keeps log_put's NUL */
+		g->lines++;
+	} else
+		log_put(g, "|", 1);
+}
+
+static void
+record_ahead(void *ud, const al_csv_cells *c)
+{
+	struct transcript *t = ud;
+
+	for (size_t i = 0; i < c->nfields; i++) {
+		assert_int_equal(c->base[c->off[i] + c->len[i]], '\0');
+		log_cell(&t->ahead, c->base + c->off[i], c->len[i],
+			 i + 1 == c->nfields);
+	}
+}
+
+/* Every record ahead_fn saw is one that row_fn saw AL_CSV_AHEAD records
+ * or more later (the hints form a subsequence of the records, each that
+ * far on), but for those past the record where row_fn stopped the read. */
+static void
+check_ahead(const struct transcript *t)
+{
+	const char *a = t->ahead.text, *s = t->seen.text;
+	unsigned long seen_at = 0;
+
+	for (unsigned long k = 0; k < t->ahead.lines; k++) {
+		size_t n = strlen(a) + 1;
+
+		for (;;) {
+			size_t m;
+
+			if (seen_at == t->seen.lines) {
+								/* only a read stopped early leaves hints unseen */
+				assert_true(t->stop_at != 0);
+				return;
+			}
+			m = strlen(s) + 1;
+			seen_at++;
+			s += m;
+			if (m == n && memcmp(s - m, a, n) == 0 &&
+			    seen_at > k + AL_CSV_AHEAD)
+				break;
+		}
+		a += n;
+	}
+}
 
 static void
 put(struct transcript *t, const char *s, size_t n)
 {
-	if (t->len + n + 1 > t->cap) {
-		t->cap = 2 * (t->len + n + 1);
-		t->text = realloc(t->text, t->cap);
-		assert_non_null(t->text);
-	}
-	memcpy(t->text + t->len, s, n);
-	t->len += n;
-	t->text[t->len] = '\0';
+	struct cells_log g = {t->text, t->len, t->cap, 0};
+
+	log_put(&g, s, n);
+	t->text = g.text;
+	t->len = g.len;
+	t->cap = g.cap;
 }
 
 static al_status
@@ -256,6 +330,11 @@ record_row(void *ud, const al_csv_row *row)
 	}
 	for (size_t i = 0; row->ascii && i < row->raw_len; i++)
 		assert_true((unsigned char)row->raw[i] < 0x80);
+	for (size_t i = 0; i < row->nfields; i++)
+		log_cell(&t->seen, row->fields[i], row->lens[i],
+			 i + 1 == row->nfields);
+	if (row->nfields == 0) /* a malformed record: counted, never hinted */
+		log_cell(&t->seen, "\x02", 1, 1);
 	put(t, "raw=", 4);
 	put(t, row->raw, row->raw_len);
 	if (row->syntax_error)
@@ -293,6 +372,8 @@ transcribe(const al_csv_options *opt, const char *data, size_t len,
 		(void)fgetc(m); /* fmemopen wants a size: start at its end */
 	t->len = 0;
 	t->rows = 0;
+	t->seen.len = t->ahead.len = 0;
+	t->seen.lines = t->ahead.lines = 0;
 	put(t, "", 0);
 	st = piped ? al_csv_read_piped(opt, al_read_stdio, m, "t.csv",
 				       record_row, t, &d)
@@ -352,6 +433,7 @@ compare_readers(int piped, uint64_t x, int rounds, const char *plain,
 	static const char delims[3] = {',', ';', '\t'};
 	struct transcript one = {0}, two = {0};
 	int modes = piped ? 8 : 12, docs = 0;
+	unsigned long hints = 0;
 	size_t cap = 1200000;
 	char *doc = malloc(cap);
 
@@ -384,7 +466,10 @@ compare_readers(int piped, uint64_t x, int rounds, const char *plain,
 			}
 			transcribe(&opt, doc, len, 0, &one);
 			opt.no_fast_path = !piped;
+			opt.ahead_fn = piped ? record_ahead : NULL;
 			transcribe(&opt, doc, len, piped, &two);
+			check_ahead(&two);
+			hints += two.ahead.lines;
 			if (strcmp(one.text, two.text) != 0)
 				fail_msg("document %d, mode %d:\n--- %s\n%.3000s"
 					 "--- %s\n%.3000s",
@@ -395,9 +480,14 @@ compare_readers(int piped, uint64_t x, int rounds, const char *plain,
 		}
 	}
 	assert_int_equal(docs, rounds * modes);
+	/* the large documents fill batches, whose later records are hinted */
+	assert_true(piped ? hints > 1000 : hints == 0);
 	free(doc);
 	free(one.text);
 	free(two.text);
+	free(one.seen.text);
+	free(two.seen.text);
+	free(two.ahead.text);
 }
 
 /* The reader's own path for plain lines gives exactly what libcsv gives
