@@ -1919,7 +1919,8 @@ finish_lanes(struct finish_job *j, int slots,
 	if (run->n_groups >= AL_LANES_MIN && run->opt.threads != 1) {
 		j->rd = al_assay_reader_new(run);
 		for (int s = 0; slots && s < 2; s++)
-			j->slot[s] = al_malloc(AL_LANES_CHUNK * sizeof *j->slot[s]);
+			j->slot[s] = al_malloc(AL_LANES_CHUNK *
+					       sizeof *j->slot[s]);
 		if (j->rd == NULL ||
 		    (slots && (j->slot[0] == NULL || j->slot[1] == NULL)))
 			j->oom = 1;

@@ -421,21 +421,9 @@ restart(struct reader *r, struct csv_parser *p, const char *msg,
 		fail(r, AL_ENOMEM, 0, NULL);
 }
 
-/* The fast path for the common record: one whole line, at a record
- * boundary, with no quote and no NUL, shorter than the field cap (so no
- * field can pass it) and not blank. libcsv (strict, our blank function)
- * gives such a line's fields as the pieces between delimiters with
- * blanks (space and tab, unless the delimiter) trimmed from both ends;
- * so does this, without the per-byte callbacks. dmask, when not NULL,
- * holds the line's delimiters as bits (bit i of dmask[i / 16] for byte
- * i; scan_line), found with its end, and the line is known to hold no
- * quote or NUL, and a blank only when blanks is set; ascii says that
- * its bytes are all ASCII (passed on in the row). Returns 0 when the line must go through libcsv. The
- * test suite checks that both paths give the same records
- * (tests/unit/test_csv.c). */
 /* Field k of the fast path: b[a..e) trimmed of blanks (unless the
- * caller knows it has none: trim 0) and ended by a
- * NUL; sets *content when something is left. 0 when the field cannot be
+ * caller knows it has none: trim 0) and ended by a NUL; sets *content
+ * when something is left. 0 when the field cannot be
  * had here: too many (libcsv's path says why), or no memory (then the
  * reader has failed). */
 static inline __attribute__((always_inline)) int
@@ -460,6 +448,18 @@ fast_field(struct reader *r, char *b, size_t a, size_t e, size_t k,
 	return 1;
 }
 
+/* The fast path for the common record: one whole line, at a record
+ * boundary, with no quote and no NUL, shorter than the field cap (so no
+ * field can pass it) and not blank. libcsv (strict, our blank function)
+ * gives such a line's fields as the pieces between delimiters with
+ * blanks (space and tab, unless the delimiter) trimmed from both ends;
+ * so does this, without the per-byte callbacks. dmask, when not NULL,
+ * holds the line's delimiters as bits (bit i of dmask[i / 16] for byte
+ * i; scan_line), found with its end; the line is then known to hold no
+ * quote or NUL, and a blank only when blanks is set, and ascii says
+ * whether its bytes are all ASCII (passed on in the row). Returns 0
+ * when the line must go through libcsv. The test suite checks that
+ * both paths give the same records (tests/unit/test_csv.c). */
 static int
 fast_record(struct reader *r, const char *line, size_t len, char term,
 	    const uint16_t *dmask, int blanks, int ascii)
@@ -538,10 +538,10 @@ fast_record(struct reader *r, const char *line, size_t len, char term,
 /* The line at s (avail bytes of data, SCAN_PAD more readable): its
  * length to the first CR or LF, its delimiters as bits in dmask, in
  * *blanks whether it holds a space or a tab (a field to trim) and in
- * *ascii whether all its bytes are below 0x80, when it
- * ends within SCAN_PAD bytes and holds no quote and no NUL;
- * else 0, to leave it to the byte-by-byte path. 16 bytes a step, by
- * SSE2 compares (every x86-64 has them); elsewhere always 0. */
+ * *ascii whether all its bytes are below 0x80, when it ends within
+ * SCAN_PAD bytes and holds no quote and no NUL; else 0, to leave it to
+ * the byte-by-byte path. 16 bytes a step, by SSE2 compares (every
+ * x86-64 has them); elsewhere always 0. */
 static int
 scan_line(const char *s, size_t avail, char d, size_t *len,
 	  uint16_t dmask[SCAN_BLOCKS], int *blanks, int *ascii)
@@ -554,15 +554,16 @@ scan_line(const char *s, size_t avail, char d, size_t *len,
 	unsigned any_blank = 0, any_high = 0;
 
 	for (size_t w = 0; w < SCAN_BLOCKS && 16 * w < avail; w++) {
-		__m128i v = _mm_loadu_si128((const __m128i *)(const void *)(s + 16 * w));
-		unsigned end = (unsigned)_mm_movemask_epi8(
-			_mm_or_si128(_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
-		unsigned bad = (unsigned)_mm_movemask_epi8(
-			_mm_or_si128(_mm_cmpeq_epi8(v, qt), _mm_cmpeq_epi8(v, nul)));
+		__m128i v = _mm_loadu_si128(
+			(const __m128i *)(const void *)(s + 16 * w));
+		unsigned end = (unsigned)_mm_movemask_epi8(_mm_or_si128(
+			_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
+		unsigned bad = (unsigned)_mm_movemask_epi8(_mm_or_si128(
+			_mm_cmpeq_epi8(v, qt), _mm_cmpeq_epi8(v, nul)));
 		unsigned before;
 
 		if (avail - 16 * w < 16) {
-			/* past the data: no end there, and its zeros are no NUL */
+			/* past the data: no end there, its zeros no NUL */
 			unsigned valid = (1u << (avail - 16 * w)) - 1;
 
 			end &= valid;
@@ -913,9 +914,9 @@ al_csv_read_mem(const al_csv_options *opt, const char *data, size_t len,
  *   (uint32), raw \0, syntax_error \0 (when set), the fields,
  * padded to 8 bytes. The fields are one copy of the span the reader left
  * them in (fields_span), or each with its \0 in turn; offsets[i] is
- * field i's from the first's. When row_fn stops the read, the second thread is
- * told to stop too and what it found past that point is dropped, as
- * al_csv_read would never have seen it. */
+ * field i's from the first's. When row_fn stops the read, the second
+ * thread is told to stop too and what it found past that point is
+ * dropped, as al_csv_read would never have seen it. */
 #define PIPE_BATCHES 8
 #define PIPE_BYTES ((size_t)256 << 10)
 

@@ -281,7 +281,8 @@ check_ahead(const struct transcript *t)
 			size_t m;
 
 			if (seen_at == t->seen.lines) {
-								/* only a read stopped early leaves hints unseen */
+				/* only a read stopped early leaves hints
+				 * unseen */
 				assert_true(t->stop_at != 0);
 				return;
 			}
