@@ -883,9 +883,14 @@ cmd_assay(int argc, char **argv)
 	al_status st;
 	int rc = EXIT_TROUBLE, bad = 0;
 	const char *out_name;
+	/* the outputs the record lists, hashed by a thread (file_hashes) */
+	file_hashes hashes;
+	const char *out_role[FILE_HASHES_MAX], *out_path[FILE_HASHES_MAX];
+	int hashing = 0, want_record, file_report;
 
 	memset(&a, 0, sizeof a);
 	memset(&rec, 0, sizeof rec);
+	memset(&hashes, 0, sizeof hashes);
 	a.ropt.decimals = -1;
 	switch (parse_args(argc, argv, &a)) {
 	case 1:
@@ -1065,6 +1070,39 @@ cmd_assay(int argc, char **argv)
 			goto out;
 		}
 	}
+	file_report = a.output && strcmp(a.output, "-") != 0;
+	want_record = a.record || file_report;
+	if (want_record) {
+		/* the outputs' bytes are all written: a thread hashes them
+		 * for the record while their fsyncs run */
+		al_outfile *outs[FILE_HASHES_MAX] = {file_report ? report : NULL,
+						     rep_out, rej_out,
+						     budget_out};
+		const char *roles[FILE_HASHES_MAX] = {"report", "replicates",
+						      "rejects", "budget"};
+		const char *names[FILE_HASHES_MAX] = {a.output, a.replicates,
+						      a.rejects, a.budget};
+
+		int all_files = 1;
+
+		for (int i = 0; i < FILE_HASHES_MAX; i++) {
+			if (outs[i] == NULL)
+				continue;
+			if (outs[i] != budget_out) /* prepared (closed) above */
+				fflush(al_outfile_stream(outs[i]));
+			/* a device or a pipe has no temporary file, and is
+			 * read only once every output is in place, as before */
+			all_files &= al_outfile_written_path(outs[i]) !=
+				     al_outfile_path(outs[i]);
+			out_role[hashes.n] = roles[i];
+			out_path[hashes.n] = names[i];
+			hashes.path[hashes.n++] = al_outfile_written_path(outs[i]);
+		}
+		if (all_files) {
+			file_hashes_start(&hashes);
+			hashing = 1;
+		}
+	}
 	/* every output checked before any of them appears */
 	if (al_outfile_prepare(report) != AL_OK) {
 		cli_error("%s: %s", out_name, cli_reason(AL_OK));
@@ -1078,26 +1116,27 @@ cmd_assay(int argc, char **argv)
 		cli_error("%s: %s", a.rejects, cli_reason(AL_OK));
 		goto out;
 	}
-	if (a.record || (a.output && strcmp(a.output, "-") != 0)) {
+	if (want_record) {
 		const char *path = a.record;
+		int hash_bad;
 
+		if (!hashing)
+			file_hashes_start(&hashes);
+		hash_bad = file_hashes_finish(&hashes) != 0;
+		hashing = 0;
 		if (path == NULL) {
 			snprintf(record_path, sizeof record_path,
 				 "%s.record.json", a.output);
 			path = record_path;
 		}
-		rec_out = al_outfile_open(path, &st);
-		if (rec_out == NULL ||
-		    (a.output && strcmp(a.output, "-") != 0 &&
-		     record_output(&rec, "report", a.output,
-				   al_outfile_written_path(report))) ||
-		    (rep_out && record_output(&rec, "replicates", a.replicates,
-					      al_outfile_written_path(rep_out))) ||
-		    (rej_out && record_output(&rec, "rejects", a.rejects,
-					      al_outfile_written_path(rej_out))) ||
-		    (budget_out &&
-		     record_output(&rec, "budget", a.budget,
-				   al_outfile_written_path(budget_out))) ||
+		for (size_t i = 0; !hash_bad && i < hashes.n; i++)
+			hash_bad = record_output_hashed(&rec, out_role[i],
+							out_path[i],
+							hashes.hex[i],
+							hashes.bytes[i]) != 0;
+		if (!hash_bad)
+			rec_out = al_outfile_open(path, &st);
+		if (hash_bad || rec_out == NULL ||
 		    fill_record(&rec, run,
 				a.aopt.qc.decision == AL_DECISION_GUARDED,
 				a.aopt.qc.guard_r, a.aopt.qc.exclude_outliers) != 0 ||
@@ -1129,6 +1168,8 @@ cmd_assay(int argc, char **argv)
 			     : EXIT_ALL_PASS;
 	}
 out:
+	if (hashing) /* an error came first: the thread reads files */
+		(void)file_hashes_finish(&hashes);
 	al_outfile_abort(rep_out);
 	al_outfile_abort(rej_out);
 	al_outfile_abort(report);

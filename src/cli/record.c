@@ -357,21 +357,57 @@ record_input(run_record *r, const char *role, const char *path,
 }
 
 int
+record_output_hashed(run_record *r, const char *role, const char *path,
+		     const char *hex, unsigned long long bytes)
+{
+	json_t *o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
+			      record_text(path), "bytes", (json_int_t)bytes,
+			      "sha256", hex);
+
+	if (o == NULL)
+		return -1;
+	return json_array_append_new(r->outputs, o) ? -1 : 0;
+}
+
+int
 record_output(run_record *r, const char *role, const char *path,
 	      const char *written_path)
 {
 	char hex[65];
 	unsigned long long bytes;
-	json_t *o;
 
 	if (sha256_file(written_path, hex, &bytes) != 0)
 		return -1;
-	o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
-		      record_text(path), "bytes", (json_int_t)bytes, "sha256",
-		      hex);
-	if (o == NULL)
-		return -1;
-	return json_array_append_new(r->outputs, o) ? -1 : 0;
+	return record_output_hashed(r, role, path, hex, bytes);
+}
+
+static void *
+hash_files(void *arg)
+{
+	file_hashes *h = arg;
+
+	for (size_t i = 0; i < h->n; i++)
+		if (sha256_file(h->path[i], h->hex[i], &h->bytes[i]) != 0)
+			h->failed = 1;
+	return NULL;
+}
+
+void
+file_hashes_start(file_hashes *h)
+{
+	h->failed = 0;
+	h->threaded = pthread_create(&h->th, NULL, hash_files, h) == 0;
+	if (!h->threaded)
+		hash_files(h);
+}
+
+int
+file_hashes_finish(file_hashes *h)
+{
+	if (h->threaded)
+		pthread_join(h->th, NULL);
+	h->threaded = 0;
+	return h->failed ? -1 : 0;
 }
 
 int

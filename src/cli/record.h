@@ -5,6 +5,7 @@
 
 #include <jansson.h>
 #include <nettle/sha2.h>
+#include <pthread.h>
 #include <stdio.h>
 
 #include "acidlot/acidlot.h"
@@ -32,6 +33,23 @@ void hashing_reader_hex(hashing_reader *h, char hex[65]);
 /* SHA-256 of a whole file; 0 on success. */
 int sha256_file(const char *path, char hex[65], unsigned long long *bytes);
 
+/* The SHA-256 of a few files whose bytes are all written, taken by a
+ * thread of its own while the caller does other work (the outputs'
+ * fsyncs); where no thread can be had, at once. Set path[] and n, then
+ * start; finish (once, after start) gives 0 when every file was hashed. */
+#define FILE_HASHES_MAX 4
+typedef struct file_hashes {
+	const char *path[FILE_HASHES_MAX];
+	size_t n;
+	char hex[FILE_HASHES_MAX][65];
+	unsigned long long bytes[FILE_HASHES_MAX];
+	int failed, threaded;
+	pthread_t th;
+} file_hashes;
+
+void file_hashes_start(file_hashes *h);
+int file_hashes_finish(file_hashes *h);
+
 typedef struct run_record {
 	json_t *root;
 	json_t *inputs, *outputs;
@@ -57,6 +75,9 @@ int record_input(run_record *r, const char *role, const char *path,
  * (its temporary file before the rename). */
 int record_output(run_record *r, const char *role, const char *path,
 		  const char *written_path);
+/* The same with its hash and size known (file_hashes). */
+int record_output_hashed(run_record *r, const char *role, const char *path,
+			 const char *hex, unsigned long long bytes);
 /* Derives the run's id from the time, command line and input hashes, and
  * stores it ("report_id"). */
 int record_seal(run_record *r);
