@@ -154,8 +154,8 @@ struct al_assay {
 	size_t n_cochran;
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
-	/* the key key_hint fetched the slot of last: product \0 lot \0
-	 * sample, hint_len bytes (0: none) */
+	/* the key key_hint fetched the slot of last, as key_put writes
+	 * it, hint_len bytes (0: none) */
 	char hint_key[64];
 	size_t hint_len;
 
@@ -333,7 +333,7 @@ key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 {
 	uint64_t h = 14695981039346656037ULL;
 
-	if (l == p + pl + 1 && s == l + ll + 1) /* as group_is */
+	if (l == p + pl + 1 && s == l + ll + 1) /* as key_is */
 		return finalise(hash_bytes(h, p, pl + ll + sl + 2));
 	h = hash_bytes(h, p, pl);
 	h = hash_bytes(h, "", 1);
@@ -342,26 +342,47 @@ key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	return finalise(hash_bytes(h, s, sl));
 }
 
-/* The key's three parts follow each other in the arena, each ended by
- * NUL; fields never hold NUL (the reader refuses it), so the parts and
- * their ends compare unambiguously. */
-static int
-group_is(const al_assay *run, const struct group *g, const char *p,
-	 size_t pl, const char *l, size_t ll, const char *s, size_t sl)
+/* A key as the arena keeps it: product \0 lot \0 sample \0, written
+ * at k (pl + ll + sl + 3 bytes). */
+static void
+key_put(char *k, const char *p, size_t pl, const char *l, size_t ll,
+	const char *s, size_t sl)
 {
-	const char *k = run->arena + g->key;
+	memcpy(k, p, pl);
+	k[pl] = '\0';
+	memcpy(k + pl + 1, l, ll);
+	k[pl + 1 + ll] = '\0';
+	memcpy(k + pl + ll + 2, s, sl);
+	k[pl + ll + 2 + sl] = '\0';
+}
 
-	/* the row's cells often lie as the arena keeps them (adjacent
+/* Whether the key that key_put wrote at k (with avail bytes from k on)
+ * is p, l, s. Fields never hold NUL (the reader refuses it), so the
+ * parts and their ends compare unambiguously. */
+static int
+key_is(const char *k, size_t avail, const char *p, size_t pl, const char *l,
+       size_t ll, const char *s, size_t sl)
+{
+	size_t n = pl + ll + sl + 3;
+
+	if (n > avail)
+		return 0;
+	/* the row's cells often lie as key_put writes them (adjacent
 	 * columns of a plain line): one compare */
-	if (l == p + pl + 1 && s == l + ll + 1) {
-		size_t n = pl + ll + sl + 3;
-
-		return g->key + n <= run->arena_len && memcmp(k, p, n) == 0;
-	}
+	if (l == p + pl + 1 && s == l + ll + 1)
+		return memcmp(k, p, n) == 0;
 	return memcmp(k, p, pl) == 0 && k[pl] == '\0' &&
 	       memcmp(k + pl + 1, l, ll) == 0 && k[pl + 1 + ll] == '\0' &&
 	       memcmp(k + pl + ll + 2, s, sl) == 0 &&
 	       k[pl + ll + 2 + sl] == '\0';
+}
+
+static int
+group_is(const al_assay *run, const struct group *g, const char *p,
+	 size_t pl, const char *l, size_t ll, const char *s, size_t sl)
+{
+	return key_is(run->arena + g->key, run->arena_len - g->key, p, pl, l,
+		      ll, s, sl);
 }
 
 /* The lengths of a stored key's product and lot; the key is product \0
@@ -472,22 +493,12 @@ key_hint(void *ud, const al_csv_cells *c)
 	p = hint_cell(c, run->col[C_PRODUCT], &pl);
 	l = hint_cell(c, run->col[C_LOT], &ll);
 	s = hint_cell(c, run->col[C_SAMPLE], &sl);
-	n = pl + ll + sl + 2;
-	if (n <= sizeof run->hint_key) {
-		char *k = run->hint_key;
-
-		if (n == run->hint_len && memcmp(k, p, pl) == 0 &&
-		    memcmp(k + pl + 1, l, ll) == 0 &&
-		    memcmp(k + pl + ll + 2, s, sl) == 0 && k[pl] == '\0' &&
-		    k[pl + ll + 1] == '\0')
-			return;
-		memcpy(k, p, pl);
-		k[pl] = '\0';
-		memcpy(k + pl + 1, l, ll);
-		k[pl + ll + 1] = '\0';
-		memcpy(k + pl + ll + 2, s, sl);
-		run->hint_len = n;
-	}
+	if (key_is(run->hint_key, run->hint_len, p, pl, l, ll, s, sl))
+		return;
+	n = pl + ll + sl + 3;
+	run->hint_len = n <= sizeof run->hint_key ? n : 0;
+	if (run->hint_len)
+		key_put(run->hint_key, p, pl, l, ll, s, sl);
 	h = key_hash(p, pl, l, ll, s, sl);
 	__builtin_prefetch(&run->slots[SLOT_HASH(h) & (run->n_slots - 1)]);
 }
@@ -576,12 +587,7 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
 	g->key = (uint32_t)run->arena_len;
-	memcpy(run->arena + run->arena_len, p, pl);
-	run->arena[run->arena_len + pl] = '\0';
-	memcpy(run->arena + run->arena_len + pl + 1, l, ll);
-	run->arena[run->arena_len + pl + 1 + ll] = '\0';
-	memcpy(run->arena + run->arena_len + pl + ll + 2, s, sl);
-	run->arena[run->arena_len + pl + ll + 2 + sl] = '\0';
+	key_put(run->arena + run->arena_len, p, pl, l, ll, s, sl);
 	run->arena_len += need;
 	run->slots[j] = SLOT_OF(h32, run->n_groups);
 	run->n_groups++;
@@ -1825,8 +1831,6 @@ spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	r->values = group_values(g);
 	r->n_values = g->n;
 	r->flags = g->flags;
-	r->has_grubbs = r->has_excluded = 0;
-	r->grubbs_index = 0;
 	al_eval_stats(&run->opt, g->bits & G_STREAM ? g->values.stream : NULL,
 		      rd->scratch, r, &used);
 	x->has_sd = r->stats.has_sd;

@@ -539,8 +539,9 @@ fast_record(struct reader *r, const char *line, size_t len, char term,
  * length to the first CR or LF, its delimiters as bits in dmask, in
  * *blanks whether it holds a space or a tab (a field to trim) and in
  * *ascii whether all its bytes are below 0x80, when it ends within
- * SCAN_PAD bytes and holds no quote and no NUL; else 0, to leave it to
- * the byte-by-byte path. 16 bytes a step, by SSE2 compares (every
+ * SCAN_PAD bytes and holds no quote and no NUL (1); -1 when it holds a
+ * quote or a NUL, which leaves it to libcsv; else 0, to leave it to the
+ * byte-by-byte path. 16 bytes a step, by SSE2 compares (every
  * x86-64 has them); elsewhere always 0. */
 static int
 scan_line(const char *s, size_t avail, char d, size_t *len,
@@ -571,7 +572,7 @@ scan_line(const char *s, size_t avail, char d, size_t *len,
 		}
 		before = end ? (1u << __builtin_ctz(end)) - 1 : 0xFFFFu;
 		if (bad & before)
-			return 0;
+			return -1; /* a quote or a NUL: libcsv's */
 		dmask[w] = (uint16_t)((unsigned)_mm_movemask_epi8(
 					      _mm_cmpeq_epi8(v, dl)) & before);
 		any_blank |= (unsigned)_mm_movemask_epi8(_mm_or_si128(
@@ -624,12 +625,14 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 	while (pos < n && r->stop == AL_OK) {
 		size_t q = pos, done, len;
 		uint16_t dmask[SCAN_BLOCKS];
-		int blanks, ascii;
+		int blanks, ascii, scan = 0;
+		int start = r->raw_len == 0 && r->nfields == 0 &&
+			    !r->record_error[0];
 
-		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
-		    scan_line(data + pos, n - pos, r->delimiter, &len, dmask,
-			      &blanks, &ascii) &&
-		    len > 0 &&
+		if (start)
+			scan = scan_line(data + pos, n - pos, r->delimiter,
+					 &len, dmask, &blanks, &ascii);
+		if (scan == 1 && len > 0 &&
 		    fast_record(r, data + pos, len, data[pos + len], dmask,
 				blanks, ascii)) {
 			if (r->stop != AL_OK)
@@ -646,8 +649,8 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 
 			q = cr ? (size_t)(cr - data) + 1 : nl ? lim + 1 : n;
 		}
-		if (r->raw_len == 0 && r->nfields == 0 && !r->record_error[0] &&
-		    q - pos > 1 && (data[q - 1] == '\n' || data[q - 1] == '\r') &&
+		if (start && scan == 0 && q - pos > 1 &&
+		    (data[q - 1] == '\n' || data[q - 1] == '\r') &&
 		    fast_record(r, data + pos, q - pos - 1, data[q - 1], NULL,
 				1, 0)) {
 			if (r->stop != AL_OK)

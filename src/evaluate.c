@@ -262,6 +262,8 @@ al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
 	size_t n = r->n_values;
 
 	*used = n;
+	r->has_grubbs = r->has_excluded = 0;
+	r->grubbs_index = 0;
 	if (stream) {
 		many_values(opt, stream, n, r, used);
 		return;

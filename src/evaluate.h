@@ -30,8 +30,9 @@ typedef struct al_eval_inputs {
 /* The first part of al_eval_result: fills r->stats (after an excluded
  * outlier, if the options exclude one), Grubbs's screen and the flags
  * these set, from stream or from r->values (n_values of them, with the
- * flags r had); *used is the count of values in the statistics, and
- * scratch then holds them in input order. Enough for Cochran's test. */
+ * flags r had; what it sets only at times it clears first); *used is
+ * the count of values in the statistics, and scratch then holds them in
+ * input order. Enough for Cochran's test. */
 void al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
 		   double *scratch, al_group_result *r, size_t *used);
 
