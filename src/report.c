@@ -39,9 +39,9 @@ format_g10(double v, char *buf)
 					 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13};
 	double a = v < 0 ? -v : v, p, f;
 	uint64_t d;
-	int e;
-	char digits[10];
-	size_t len = 0;
+	int e, last;
+	char digits[32] = {0};
+	size_t len;
 
 	if (!(a >= 1e-4 && a < 1e10))
 		return 0;
@@ -76,50 +76,48 @@ format_g10(double v, char *buf)
 		return 0;
 	if (f > 0.5)
 		d++;
-	/* the ten digits as two halves of five, in 32-bit arithmetic, two
-	 * digits at a time */
+	/* The ten digits, high first, in bytes 0..9 of a 32-byte buffer:
+	 * d = 100000000 h + l, and l's eight digits are made in one 64-bit
+	 * word, split into halves of four, quarters of two and digits, each
+	 * a multiply and shift (exact for the ranges below 10^4 and 100). The
+	 * buffer's spare bytes let the copies below be of a fixed 16 bytes,
+	 * which the compiler makes single stores. */
 	{
-		static const char pairs[] =
-			"00010203040506070809101112131415161718192021222324"
-			"25262728293031323334353637383940414243444546474849"
-			"50515253545556575859606162636465666768697071727374"
-			"75767778798081828384858687888990919293949596979899";
-		uint32_t half[2] = {(uint32_t)(d / 100000),
-				    (uint32_t)(d % 100000)};
+		uint32_t h = (uint32_t)(d / 100000000);
+		uint64_t l = d % 100000000, w;
 
-		for (int h = 0; h < 2; h++) {
-			uint32_t x = half[h], lo4 = x % 10000;
-			char *o = digits + 5 * h;
-
-			o[0] = (char)('0' + x / 10000);
-			memcpy(o + 1, pairs + 2 * (lo4 / 100), 2);
-			memcpy(o + 3, pairs + 2 * (lo4 % 100), 2);
-		}
+		w = (l / 10000) | ((l % 10000) << 32);
+		w = (((w * 10486) >> 20) & 0x0000007F0000007FULL) |
+		    ((w - 100 * (((w * 10486) >> 20) &
+				 0x0000007F0000007FULL)) << 16);
+		w = (((w * 103) >> 10) & 0x000F000F000F000FULL) |
+		    ((w - 10 * (((w * 103) >> 10) & 0x000F000F000F000FULL))
+		     << 8);
+		/* the last nonzero digit: l's zero digits at its low end are
+		 * zero bytes at the top of w (byte 0 is l's first digit) */
+		last = w ? 9 - __builtin_clzll(w) / 8 : (h % 10 ? 1 : 0);
+		w += 0x3030303030303030ULL;
+		digits[0] = (char)('0' + h / 10);
+		digits[1] = (char)('0' + h % 10);
+		memcpy(digits + 2, &w, 8);
 	}
-	if (v < 0)
-		buf[len++] = '-';
-	{
-		int last = 9;
-
-		while (last > 0 && digits[last] == '0')
-			last--;
-		if (e >= 0) {
-			memcpy(buf + len, digits, (size_t)e + 1);
-			len += (size_t)e + 1;
-			if (last > e) {
-				buf[len++] = '.';
-				memcpy(buf + len, digits + e + 1,
-				       (size_t)(last - e));
-				len += (size_t)(last - e);
-			}
-		} else {
-			buf[len++] = '0';
-			buf[len++] = '.';
-			for (int i = 0; i < -e - 1; i++)
-				buf[len++] = '0';
-			memcpy(buf + len, digits, (size_t)last + 1);
-			len += (size_t)last + 1;
+	buf[0] = '-';
+	len = v < 0;
+	if (e >= 0) {
+		/* e + 1 digits, then the point and the rest if any is not 0 */
+		memcpy(buf + len, digits, 16);
+		len += (size_t)e + 1;
+		if (last > e) {
+			buf[len] = '.';
+			memcpy(buf + len + 1, digits + e + 1, 16);
+			len += (size_t)(last - e) + 1;
 		}
+	} else {
+		/* "0.", -e - 1 zeros, the digits up to the last not 0 */
+		memcpy(buf + len, "0.000000", 8);
+		len += (size_t)(1 - e);
+		memcpy(buf + len, digits, 16);
+		len += (size_t)last + 1;
 	}
 	buf[len] = '\0';
 	return len;
