@@ -89,12 +89,19 @@ al_reserve(void *buf, size_t *cap, size_t need)
 	return grown;
 }
 
+size_t
+al_page_bytes(void)
+{
+	long ps = sysconf(_SC_PAGESIZE);
+
+	return ps > 0 ? (size_t)ps : 4096;
+}
+
 void
 al_prefault(void *base, size_t from, size_t to)
 {
 #ifdef MADV_POPULATE_WRITE
-	long ps = sysconf(_SC_PAGESIZE);
-	uintptr_t page = ps > 0 ? (uintptr_t)ps : 4096, a, b;
+	uintptr_t page = al_page_bytes(), a, b;
 
 	/* whole pages only, inside the range: a page shared with other
 	 * data is mapped already or faults as usual */
@@ -114,19 +121,11 @@ al_prefault(void *base, size_t from, size_t to)
  * 1 GiB key arena, without a move. */
 #define REGION_HOLD ((size_t)1 << 30)
 
-static size_t
-page_bytes(void)
-{
-	long ps = sysconf(_SC_PAGESIZE);
-
-	return ps > 0 ? (size_t)ps : 4096;
-}
-
 /* n rounded up to whole pages; 0 when that overflows */
 static size_t
 whole_pages(size_t n)
 {
-	size_t page = page_bytes();
+	size_t page = al_page_bytes();
 
 	return n > SIZE_MAX - page ? 0 : (n + page - 1) / page * page;
 }

@@ -13,6 +13,7 @@
 #include "acidlot/ta.h"
 #include "evaluate.h"
 #include "lanes.h"
+#include "pages.h"
 
 /* The endpoint must titrate at least this share of the protons that the
  * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
@@ -122,6 +123,8 @@ struct al_assay {
 	 * without moving: at millions of groups, pages moved by realloc
 	 * cost their first touch again. arena and groups are their bases. */
 	al_region arena_r, groups_r;
+	al_pages pages;  /* their first touches, at 1 MiB of groups and up */
+	int pages_tried; /* in this file */
 	char *arena;
 	size_t arena_len, arena_cap;
 	struct group *groups;
@@ -233,6 +236,7 @@ al_assay_free(al_assay *run)
 	for (size_t i = 0; i < run->n_files; i++)
 		al_free(run->files[i]);
 	al_free(run->files);
+	al_pages_stop(&run->pages);
 	al_region_free(&run->groups_r);
 	al_free(run->slots);
 	al_region_free(&run->arena_r);
@@ -532,6 +536,35 @@ map_ahead(void *buf, size_t used, size_t cap, size_t *mapped)
 	}
 }
 
+/* Past this many bytes of groups (14,000 groups) a run's first touches
+ * go to a thread of their own (pages.h); a small run starts none. */
+#define PAGES_FROM ((size_t)1 << 20)
+enum { PAGES_GROUPS, PAGES_ARENA };
+
+/* Region `which` (r) is about to be written up to `end`: with the page
+ * toucher running, *mapped is how far the toucher lets the owner write
+ * without asking (al_pages_use); else map_ahead's count. */
+static void
+pages_ahead(al_assay *run, int which, const al_region *r, size_t end,
+	    size_t *mapped)
+{
+	if (end <= *mapped)
+		return;
+	if (run->pages.running)
+		*mapped = al_pages_use(&run->pages, which, r, end);
+	else
+		map_ahead(r->base, end, r->committed, mapped);
+}
+
+/* Before a growth of region r to `need` bytes that may move it: the
+ * toucher leaves it first. */
+static void
+pages_before_grow(al_assay *run, int which, const al_region *r, size_t need)
+{
+	if (run->pages.running && need > r->reserved)
+		al_pages_drop(&run->pages, which);
+}
+
 /* Finds the group of a key seen by key_ahead, or creates it; *created
  * tells which. */
 static al_status
@@ -572,6 +605,8 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
 	if (run->arena_len + need > run->arena_cap) {
+		pages_before_grow(run, PAGES_ARENA, &run->arena_r,
+				  run->arena_len + need);
 		if (al_region_grow(&run->arena_r, run->arena_len + need) != 0)
 			return AL_ENOMEM;
 		if (run->arena_r.base != run->arena) /* moved: see al_region */
@@ -580,6 +615,8 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 		run->arena_cap = run->arena_r.committed;
 	}
 	if (run->n_groups == run->groups_cap) {
+		pages_before_grow(run, PAGES_GROUPS, &run->groups_r,
+				  (run->n_groups + 1) * sizeof *run->groups);
 		if (al_region_grow(&run->groups_r,
 				   (run->n_groups + 1) * sizeof *run->groups) != 0)
 			return AL_ENOMEM;
@@ -587,11 +624,20 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 			run->groups_mapped = run->n_groups * sizeof *run->groups;
 		run->groups = run->groups_r.base;
 		run->groups_cap = run->groups_r.committed / sizeof *run->groups;
+		if (!run->pages.running && !run->pages_tried &&
+		    run->groups_r.committed >= PAGES_FROM) {
+			run->pages_tried = 1;
+			/* from now on the owner asks before it writes past
+			 * what it has (al_pages_use) */
+			if (al_pages_start(&run->pages) == 0)
+				run->groups_mapped = run->arena_mapped = 0;
+		}
 	}
-	map_ahead(run->arena, run->arena_len + need, run->arena_cap,
-		  &run->arena_mapped);
-	map_ahead(run->groups, (run->n_groups + 1) * sizeof *run->groups,
-		  run->groups_cap * sizeof *run->groups, &run->groups_mapped);
+	pages_ahead(run, PAGES_ARENA, &run->arena_r, run->arena_len + need,
+		    &run->arena_mapped);
+	pages_ahead(run, PAGES_GROUPS, &run->groups_r,
+		    (run->n_groups + 1) * sizeof *run->groups,
+		    &run->groups_mapped);
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
 	g->key = (uint32_t)run->arena_len;
@@ -1621,6 +1667,9 @@ read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
 						       ctx, run->file,
 						       on_csv_row, run,
 						       &run->diags);
+	/* no group is made after the reading */
+	al_pages_stop(&run->pages);
+	run->pages_tried = 0;
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	if (st == AL_OK && !run->header_done) {

@@ -24,6 +24,9 @@ void *al_reserve(void *buf, size_t *cap, size_t need);
  * virtual machine (DEVELOPERS.md, "Speed and memory"). */
 void al_prefault(void *base, size_t from, size_t to);
 
+/* The system's page size in bytes (4096 where it cannot be had). */
+size_t al_page_bytes(void);
+
 /* Memory that grows in place: base stays where it is while the region
  * grows, so that the pages in use are never moved. On this kind of
  * virtual machine a page costs about 10 microseconds the first time it
