@@ -16,6 +16,7 @@ mkdir -p "$work"
 runs=${BENCH_RUNS:-3}
 cc -O2 -o "$work/gen" "$here/gen.c" || exit 2
 cc -O2 -o "$work/floor" "$here/floor.c" -lcsv || exit 2
+cc -O1 -pthread -o "$work/cores" "$here/cores.c" || exit 2
 have_datamash=1
 command -v datamash >/dev/null || have_datamash=0
 [ -x /usr/bin/time ] || { echo "bench needs /usr/bin/time (Debian package time)"; exit 2; }
@@ -34,6 +35,7 @@ measure() {
 	sort -n "$work/times" | awk -v n="$runs" 'NR == int((n + 1) / 2) { print $1, $2 }'
 }
 
+echo "cores this process gets now: $("$work/cores") (bench/cores.c; 2.00 on two free cores)"
 printf '%-10s %-10s %9s %12s %8s %9s %9s %10s\n' rows tool median_s rows_per_s MB_per_s peak_MiB x_floor x_datamash
 for rows in "$@"; do
 	# named by the generator's checksum: a changed generator makes new files
@@ -74,3 +76,4 @@ for rows in "$@"; do
 			       r, t, s, r / s, mb / s, kb / 1024, s / fl, xd) }'
 	done
 done
+echo "cores this process gets now: $("$work/cores")"
