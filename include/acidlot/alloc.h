@@ -36,8 +36,9 @@ size_t al_page_bytes(void);
  * memory"). The region holds address space ahead (1 GiB, or four times
  * what is asked) and makes it usable as it grows; untouched address
  * space costs no memory. Where address space is short (a ulimit -v),
- * or past what it holds, it moves like realloc. Zero-initialise; the
- * bytes [0, committed) are usable and start as zeros. */
+ * or past what it holds, it moves like realloc. A region starts zeroed
+ * (al_region r = {0}); its bytes [0, committed) are usable, and read as
+ * zeros until written. */
 typedef struct al_region {
 	void *base;
 	size_t reserved;  /* bytes of address space held */
@@ -46,8 +47,9 @@ typedef struct al_region {
 
 /* Makes at least need bytes usable at r->base (keeping the bytes there),
  * twice as many as before or need, whichever is more: 0, or -1 when
- * memory runs out (errno ENOMEM; the region is as it was). Counts as
- * one allocation for fault injection, when it has to grow. */
+ * memory runs out (errno ENOMEM; base, committed and the bytes are as
+ * they were). Counts as one allocation for fault injection, when it has
+ * to grow. al_region_free unmaps it and zeroes r. */
 int al_region_grow(al_region *r, size_t need);
 void al_region_free(al_region *r);
 
