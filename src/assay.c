@@ -126,9 +126,9 @@ struct al_assay {
 	al_pages pages;  /* their first touches, at 1 MiB of groups and up */
 	int pages_tried; /* in this file */
 	char *arena;
-	size_t arena_len, arena_cap;
+	size_t arena_len;
 	struct group *groups;
-	size_t n_groups, groups_cap;
+	size_t n_groups;
 	size_t groups_mapped, arena_mapped; /* bytes of each mapped ahead */
 	uint64_t *slots; /* hash: 32 bits of the key's hash over group
 			    index + 1; 0 = empty */
@@ -484,6 +484,11 @@ hint_cell(const al_csv_cells *c, int col, size_t *len)
 	return c->base + c->off[col];
 }
 
+/* A table smaller than this (8 MiB) stays in the caches well enough
+ * that the hint's own work (a compare a row, a hash a key) is not
+ * repaid: 1e6 rows in 333,000 samples take 512 Ki slots. */
+#define HINT_SLOTS ((size_t)1 << 20)
+
 /* The reader's hint (al_csv_options ahead_fn): a record some rows ahead
  * of this one. At millions of samples the key's hash slot is a miss to
  * main memory, and key_ahead's prefetch, a row's checks before its use,
@@ -491,11 +496,6 @@ hint_cell(const al_csv_cells *c, int col, size_t *len)
  * comes. Only when the key changes, so that a sample's replicates cost
  * one compare. A cell not yet trimmed gives a useless prefetch, no
  * wrong result: nothing but the cache depends on this. */
-/* A table smaller than this (8 MiB) stays in the caches well enough
- * that the hint's own work (a compare a row, a hash a key) is not
- * repaid: 1e6 rows in 333,000 samples take 512 Ki slots. */
-#define HINT_SLOTS ((size_t)1 << 20)
-
 static void
 key_hint(void *ud, const al_csv_cells *c)
 {
@@ -556,13 +556,22 @@ pages_ahead(al_assay *run, int which, const al_region *r, size_t end,
 		map_ahead(r->base, end, r->committed, mapped);
 }
 
-/* Before a growth of region r to `need` bytes that may move it: the
- * toucher leaves it first. */
-static void
-pages_before_grow(al_assay *run, int which, const al_region *r, size_t need)
+/* Region `which` (r) grown to need bytes, `used` of them in use: the
+ * toucher leaves it first when the growth may move it, and after a move
+ * *mapped counts again from what is in use. */
+static al_status
+grow_region(al_assay *run, int which, al_region *r, size_t need,
+	    size_t used, size_t *mapped)
 {
+	void *was = r->base;
+
 	if (run->pages.running && need > r->reserved)
 		al_pages_drop(&run->pages, which);
+	if (al_region_grow(r, need) != 0)
+		return AL_ENOMEM;
+	if (r->base != was)
+		*mapped = used;
+	return AL_OK;
 }
 
 /* Finds the group of a key seen by key_ahead, or creates it; *created
@@ -604,26 +613,21 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	need = pl + ll + sl + 3;
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
-	if (run->arena_len + need > run->arena_cap) {
-		pages_before_grow(run, PAGES_ARENA, &run->arena_r,
-				  run->arena_len + need);
-		if (al_region_grow(&run->arena_r, run->arena_len + need) != 0)
+	if (run->arena_len + need > run->arena_r.committed) {
+		if (grow_region(run, PAGES_ARENA, &run->arena_r,
+				run->arena_len + need, run->arena_len,
+				&run->arena_mapped) != AL_OK)
 			return AL_ENOMEM;
-		if (run->arena_r.base != run->arena) /* moved: see al_region */
-			run->arena_mapped = run->arena_len;
 		run->arena = run->arena_r.base;
-		run->arena_cap = run->arena_r.committed;
 	}
-	if (run->n_groups == run->groups_cap) {
-		pages_before_grow(run, PAGES_GROUPS, &run->groups_r,
-				  (run->n_groups + 1) * sizeof *run->groups);
-		if (al_region_grow(&run->groups_r,
-				   (run->n_groups + 1) * sizeof *run->groups) != 0)
+	if ((run->n_groups + 1) * sizeof *run->groups >
+	    run->groups_r.committed) {
+		if (grow_region(run, PAGES_GROUPS, &run->groups_r,
+				(run->n_groups + 1) * sizeof *run->groups,
+				run->n_groups * sizeof *run->groups,
+				&run->groups_mapped) != AL_OK)
 			return AL_ENOMEM;
-		if (run->groups_r.base != (void *)run->groups)
-			run->groups_mapped = run->n_groups * sizeof *run->groups;
 		run->groups = run->groups_r.base;
-		run->groups_cap = run->groups_r.committed / sizeof *run->groups;
 		if (!run->pages.running && !run->pages_tried &&
 		    run->groups_r.committed >= PAGES_FROM) {
 			run->pages_tried = 1;
@@ -1737,8 +1741,6 @@ replay_rows(al_assay *run)
 	return AL_OK;
 }
 
-/* Evaluates group i into the reader's result: statistics, screens,
- * uncertainty, verdict. Reads the run only. */
 /* The acid a result is expressed as: its rows', or, when every row of
  * it was rejected, its spec's or the run's default. */
 static const al_acid *
@@ -1749,6 +1751,9 @@ result_acid(const al_assay *run, const struct group *g, const al_spec *spec)
 	return spec && spec->acid ? spec->acid : run->opt.default_acid;
 }
 
+/* Evaluates group i into the reader's result: statistics, screens,
+ * uncertainty, verdict. Reads the run, but for the verdict and flags
+ * that the first evaluation of a result keeps in its group. */
 static void
 evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 {
@@ -1938,13 +1943,20 @@ cochran_take(void *ctx, size_t begin, size_t end, int s)
 /* Every result evaluated once (evaluate keeps its verdict and flags in
  * the group); nothing to take in order. */
 static void
+judge(const al_assay *run, struct al_assay_reader *rd, size_t begin,
+      size_t end)
+{
+	for (size_t i = begin; i < end; i++)
+		if (!(run->groups[i].bits & G_JUDGED))
+			reader_result(rd, i);
+}
+
+static void
 judge_own(void *ctx, size_t begin, size_t end)
 {
 	struct finish_job *j = ctx;
 
-	for (size_t i = begin; i < end; i++)
-		if (!(j->run->groups[i].bits & G_JUDGED))
-			reader_result(&j->run->own, i);
+	judge(j->run, &j->run->own, begin, end);
 }
 
 static void
@@ -1953,9 +1965,7 @@ judge_make(void *ctx, size_t begin, size_t end, int s)
 	struct finish_job *j = ctx;
 
 	(void)s;
-	for (size_t i = begin; i < end; i++)
-		if (!(j->run->groups[i].bits & G_JUDGED))
-			reader_result(j->rd, i);
+	judge(j->run, j->rd, begin, end);
 }
 
 static void

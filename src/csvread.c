@@ -1117,9 +1117,7 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 	for (size_t at = 0; at < b->len;) {
 		const struct packed *h = (const void *)(b->buf + at);
 		const al_csv_number *nums = (const void *)(h + 1);
-		const uint32_t *l32 = (const void *)(nums + h->nfields);
-		const uint32_t *o32 = l32 + h->nfields;
-		const char *p = (const char *)(o32 + h->nfields);
+		al_csv_cells c;
 		al_csv_row row;
 		al_status st;
 
@@ -1139,29 +1137,26 @@ pipe_unpack(const struct pipe_batch *b, char point, al_csv_row_fn row_fn,
 		}
 		if (ahead_fn && ahead < b->len) {
 			const struct packed *a = (const void *)(b->buf + ahead);
-			al_csv_cells c;
 
 			packed_cells(a, &c);
 			if (c.nfields > 0)
 				ahead_fn(ud, &c);
 			ahead += a->size;
 		}
+		packed_cells(h, &c);
 		memset(&row, 0, sizeof row);
 		row.nfields = h->nfields;
 		row.line = h->line;
 		row.delimiter = h->delimiter;
-		row.raw = p;
+		row.raw = (const char *)(c.off + h->nfields);
 		row.raw_len = h->raw_len;
 		row.trimmed = h->trimmed;
 		row.ascii = h->ascii;
-		p += h->raw_len + 1;
-		if (h->has_error) {
-			row.syntax_error = p;
-			p += strlen(p) + 1;
-		}
+		if (h->has_error)
+			row.syntax_error = row.raw + h->raw_len + 1;
 		for (size_t i = 0; i < h->nfields; i++) {
-			(*ptrs)[i] = p + o32[i];
-			(*lens)[i] = l32[i];
+			(*ptrs)[i] = c.base + c.off[i];
+			(*lens)[i] = c.len[i];
 		}
 		row.fields = *ptrs;
 		row.lens = *lens;

@@ -84,15 +84,13 @@ format_g10(double v, char *buf)
 	 * which the compiler makes single stores. */
 	{
 		uint32_t h = (uint32_t)(d / 100000000);
-		uint64_t l = d % 100000000, w;
+		uint64_t l = d % 100000000, w, q;
 
 		w = (l / 10000) | ((l % 10000) << 32);
-		w = (((w * 10486) >> 20) & 0x0000007F0000007FULL) |
-		    ((w - 100 * (((w * 10486) >> 20) &
-				 0x0000007F0000007FULL)) << 16);
-		w = (((w * 103) >> 10) & 0x000F000F000F000FULL) |
-		    ((w - 10 * (((w * 103) >> 10) & 0x000F000F000F000FULL))
-		     << 8);
+		q = ((w * 10486) >> 20) & 0x0000007F0000007FULL; /* / 100 */
+		w = q | ((w - 100 * q) << 16);
+		q = ((w * 103) >> 10) & 0x000F000F000F000FULL; /* / 10 */
+		w = q | ((w - 10 * q) << 8);
 		/* the last nonzero digit: l's zero digits at its low end are
 		 * zero bytes at the top of w (byte 0 is l's first digit) */
 		last = w ? 9 - __builtin_clzll(w) / 8 : (h % 10 ? 1 : 0);
