@@ -9,6 +9,7 @@
 #include "acidlot/alloc.h"
 #include "acidlot/date.h"
 #include "acidlot/juice.h"
+#include "acidlot/number.h"
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
 #include "evaluate.h"
@@ -44,7 +45,8 @@ enum {
 	G_ANHYDROUS = 2, /* results on the anhydrous basis */
 	G_HEAP = 4,      /* values.heap holds the values */
 	G_STREAM = 8,    /* values.stream holds running statistics */
-	G_JUDGED = 16    /* verdict and flags are the evaluation's */
+	G_JUDGED = 16,   /* verdict and flags are the evaluation's */
+	G_IMPOSSIBLE = 32 /* a row's value is more than a sample can hold */
 };
 
 /* One group, kept small: memory per group is what bounds a run of
@@ -1210,6 +1212,66 @@ plausibility(al_assay *run, unsigned long line, const al_titration *t)
 	return flags;
 }
 
+/* Every quantity of a titration within the range its arithmetic
+ * allows (AL_MAGNITUDE_MAX): the inputs, then what is made of them, each
+ * named when it leaves the range; 0 when all are in it. */
+static int
+out_of_range(al_assay *run, unsigned long line, const al_titration *t)
+{
+	const struct {
+		const char *name, *what;
+		double v;
+	} q[] = {
+		{ta_column(AL_TF_TITRANT, t->basis), "the titrant volume",
+		 t->titrant_ml},
+		{ta_column(AL_TF_BLANK, t->basis), "the blank", t->blank_ml},
+		{ta_column(AL_TF_CONC, t->basis), "the titrant concentration",
+		 t->titrant_mol_l},
+		{ta_column(AL_TF_AMOUNT, t->basis), "the sample amount",
+		 t->amount},
+		{ta_column(AL_TF_MADE_UP, t->basis), "the made-up volume",
+		 t->made_up_ml},
+		{ta_column(AL_TF_ALIQUOT, t->basis), "the aliquot",
+		 t->aliquot_ml},
+		{"made_up_ml/aliquot_ml", "the dilution", al_ta_dilution(t)},
+		{"titrant_ml", "the meq titrated", al_ta_meq(t)},
+		{ta_column(AL_TF_AMOUNT, t->basis), "the meq per unit of sample",
+		 al_ta_meq(t) / t->amount},
+	};
+
+	for (size_t i = 0; i < sizeof q / sizeof q[0]; i++)
+		if (!al_number_computable(q[i].v)) {
+			ROW_ERR(run, line, q[i].name,
+				"%s (%g) is beyond the range a result can be "
+				"computed in (%g to %g)",
+				q[i].what, q[i].v, AL_MAGNITUDE_MIN,
+				AL_MAGNITUDE_MAX);
+			return 1;
+		}
+	return 0;
+}
+
+/* A result no sample can give: more acid than the sample holds. Per
+ * mass, at most all of it: 100 g/100g, with AL_IMPOSSIBLE_ALLOWANCE for
+ * the scatter of a pure acid's assay (JECFA 2014 limits citric acid to
+ * 99.5-100.5 %; single replicates stray further, common practice). Per
+ * volume, no solution holds more acid per mL than its own density, and
+ * no food acid or its solution is denser than AL_DENSEST_G_ML. */
+#define AL_IMPOSSIBLE_ALLOWANCE 5.0
+#define AL_DENSEST_G_ML 2.0 /* sulfuric acid 1.83 g/mL (CRC Handbook;
+			       from memory), the densest of the catalogue */
+
+static int
+impossible(double value, al_unit unit, const al_acid *acid)
+{
+	double g = al_unit_is_meq(unit) ? value * acid->g_per_meq : value;
+	double per_100 = g * 100 / al_unit_per(unit);
+
+	if (al_unit_basis(unit) == AL_BASIS_MASS)
+		return !(per_100 <= 100 + AL_IMPOSSIBLE_ALLOWANCE);
+	return !(per_100 <= 100 * AL_DENSEST_G_ML);
+}
+
 /* The reasons of the current row, "column: message; ...". */
 static void
 row_reasons(const al_diags *d, char *buf, size_t cap)
@@ -1446,6 +1508,8 @@ row_values(al_assay *run, const al_csv_row *row)
 		for (size_t i = 0; i < np && i < 8; i++)
 			ROW_ERR(run, line, ta_column(probs[i].field, t.basis),
 				"%s", probs[i].message);
+		if (np == 0)
+			out_of_range(run, line, &t);
 	}
 
 	/* The acid: the specification's, else the row's, else the default. */
@@ -1552,6 +1616,22 @@ row_values(al_assay *run, const al_csv_row *row)
 		}
 		/* assay = meq E 100 / (m (1 - water/100)) (METHODS.md s.6) */
 		al_anhydrous(value, water, &value);
+	}
+	if (!al_number_computable(value)) {
+		ROW_ERR(run, line, NULL,
+			"the result (%g %s) is beyond the range a result can "
+			"be computed in (%g to %g)",
+			value, al_unit_name(unit), AL_MAGNITUDE_MIN,
+			AL_MAGNITUDE_MAX);
+		return AL_OK;
+	}
+	if (impossible(value, unit, acid)) {
+		RUN_DIAG(run, AL_SEV_WARNING, line, NULL,
+			 "%g %s of %s is more than the sample can hold: "
+			 "check the mass, volume and units",
+			 value, al_unit_name(unit), acid->name);
+		flags |= AL_FLAG_IMPLAUSIBLE;
+		g->bits |= G_IMPOSSIBLE;
 	}
 	if (got_endpoint == 1 && acid->n_pka > 0) {
 		double titrated =
@@ -1806,6 +1886,7 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 		in.density = x->n_density ? x->sum_density / x->n_density : 0;
 	}
 	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
+	in.impossible = (g->bits & G_IMPOSSIBLE) != 0;
 	al_eval_result(&run->opt, &in, rd->scratch, r);
 	if (!(g->bits & G_JUDGED)) {
 		/* the run keeps each result's verdict and flags from its

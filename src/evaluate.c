@@ -165,7 +165,8 @@ juice(const al_eval_inputs *in, al_group_result *r)
 }
 
 /* Brix, ratio and water limits join the decision: any outside fails;
- * limits without values to judge ask for a retest. */
+ * limits without values to judge can only turn a pass into a retest,
+ * never hide a fail. */
 static void
 other_limits(al_group_result *r)
 {
@@ -174,8 +175,7 @@ other_limits(al_group_result *r)
 	unsigned out = 0;
 	int missing = 0;
 
-	if (sp == NULL || r->verdict == AL_VERDICT_RETEST ||
-	    r->verdict == AL_VERDICT_NO_SPEC)
+	if (sp == NULL || r->stats.n == 0)
 		return;
 	if (sp->has_brix_min || sp->has_brix_max) {
 		if (!r->has_brix)
@@ -201,12 +201,30 @@ other_limits(al_group_result *r)
 		else if (sp->has_water_max && r->water_pct > sp->water_max)
 			out |= AL_FLAG_WATER_HIGH;
 	}
-	r->flags |= out;
-	if (missing) {
-		r->flags |= AL_FLAG_NO_BRIX;
-		r->verdict = AL_VERDICT_RETEST;
-	} else if (out)
+	r->flags |= out | (missing ? AL_FLAG_NO_BRIX : 0);
+	if (out)
 		r->verdict = AL_VERDICT_FAIL;
+	else if (missing && (r->verdict == AL_VERDICT_PASS ||
+			     r->verdict == AL_VERDICT_COND_PASS))
+		r->verdict = AL_VERDICT_RETEST;
+}
+
+/* What cannot be a pass: a result made of a value no sample can give,
+ * or one whose figures left the range of the arithmetic (the rows'
+ * checks keep them in it; this is the last guard). It asks for a
+ * retest unless it already fails. */
+static void
+never_pass(const al_eval_inputs *in, al_group_result *r)
+{
+	int broken = r->stats.n > 0 &&
+		     !(isfinite(r->stats.mean) && isfinite(r->stats.sd) &&
+		       (!r->has_u || isfinite(r->U)));
+
+	if (in->impossible || broken)
+		r->flags |= AL_FLAG_IMPLAUSIBLE;
+	if ((in->impossible || broken) && r->verdict != AL_VERDICT_FAIL &&
+	    r->verdict != AL_VERDICT_NO_SPEC)
+		r->verdict = AL_VERDICT_RETEST;
 }
 
 /* The statistics of a result past AL_VALUES_KEPT values, from running
@@ -357,6 +375,7 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 		r->flags |= AL_FLAG_ABOVE_MAX;
 	juice(in, r);
 	other_limits(r);
+	never_pass(in, r);
 }
 
 struct cochran_cell {

@@ -25,6 +25,7 @@ typedef struct al_eval_inputs {
 	size_t n;
 	int has_brix, has_water;
 	double brix, water_pct, density; /* means; density 0 when unknown */
+	int impossible;  /* a value is more than a sample can hold */
 } al_eval_inputs;
 
 /* The first part of al_eval_result: fills r->stats (after an excluded

@@ -265,6 +265,14 @@ al_number_parse(const char *s, size_t len, char decimal_point, double *out)
 	return parse_rest(s, len, decimal_point, out);
 }
 
+int
+al_number_computable(double x)
+{
+	double a = fabs(x);
+
+	return x == 0 || (a >= AL_MAGNITUDE_MIN && a <= AL_MAGNITUDE_MAX);
+}
+
 const char *
 al_numerr_phrase(al_numerr err)
 {

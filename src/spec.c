@@ -122,11 +122,13 @@ spec_row(void *ud, const al_csv_row *row)
 		char name[64];
 
 		snprintf(name, sizeof name, "%.*s", (int)len, text);
-		if (al_unit_parse(name, &s.unit) != AL_OK)
-			err(r, row->line, "unit",
-			    "is not a unit (use g/100g, g/kg, g/100mL, g/L, "
-			    "meq/100g or meq/L)",
-			    text, len);
+		if (al_unit_parse(name, &s.unit) != AL_OK) {
+			char why[256];
+
+			snprintf(why, sizeof why, "%s (units: %s)",
+				 al_unit_refusal(name), al_unit_list());
+			err(r, row->line, "unit", why, text, len);
+		}
 		else
 			s.has_unit = 1;
 	}

@@ -17,6 +17,7 @@
 #include "acidlot/date.h"
 #include "acidlot/gum.h"
 #include "acidlot/number.h"
+#include "acidlot/ta.h"
 #include "acidlot/table.h"
 
 void
@@ -172,6 +173,9 @@ al_std_lot_at(const al_std_run *run, size_t i)
 #define ERR(run, line, column, ...)                                           \
 	al_diags_add(&(run)->diags, AL_SEV_ERROR, (run)->file, (line),         \
 		     (column), __VA_ARGS__)
+#define WARN(run, line, column, ...)                                          \
+	al_diags_add(&(run)->diags, AL_SEV_WARNING, (run)->file, (line),      \
+		     (column), __VA_ARGS__)
 
 static al_status
 std_header(al_std_run *run, const al_csv_row *row)
@@ -281,6 +285,21 @@ std_row(void *ud, const al_csv_row *row)
 		return AL_OK;
 	r.c = al_std_concentration(r.mass, r.purity, standard->molar_mass,
 				   r.volume);
+	if (!al_number_computable(r.mass) || !al_number_computable(titrant) ||
+	    !al_number_computable(r.volume) || !al_number_computable(r.c) ||
+	    r.c == 0) {
+		ERR(run, line, !al_number_computable(r.mass) ? "mass_g"
+							     : "titrant_ml",
+		    "the concentration (%g g / %g mL) is beyond the range it "
+		    "can be computed in (%g to %g)",
+		    r.mass, r.volume, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (r.c < AL_PLAUSIBLE_CONC_MIN || r.c > AL_PLAUSIBLE_CONC_MAX)
+		WARN(run, line, "mass_g",
+		     "%g mol/L is outside the usual %g-%g mol/L of a "
+		     "titrant: check the mass (g) and the volume (mL)",
+		     r.c, AL_PLAUSIBLE_CONC_MIN, AL_PLAUSIBLE_CONC_MAX);
 	lot = find_lot(run, lot_name, ll);
 	if (lot == NULL) {
 		struct lot *grown;

@@ -25,12 +25,12 @@ static const struct {
 	const char *alias;
 	al_unit unit;
 } aliases[] = {
-	{"%w/w", AL_UNIT_G_100G},     {"%", AL_UNIT_G_100G},
-	{"%m/m", AL_UNIT_G_100G},     {"%w/v", AL_UNIT_G_100ML},
-	{"%m/v", AL_UNIT_G_100ML},    {"mmol/100g", AL_UNIT_MEQ_100G},
-	{"mmol/l", AL_UNIT_MEQ_L},    {"g/1000ml", AL_UNIT_G_L},
-	{"mg/ml", AL_UNIT_G_L},       {"mg/g", AL_UNIT_G_KG},
-	{"g/1000g", AL_UNIT_G_KG},
+	{"%w/w", AL_UNIT_G_100G},       {"%m/m", AL_UNIT_G_100G},
+	{"%w/v", AL_UNIT_G_100ML},      {"%m/v", AL_UNIT_G_100ML},
+	/* ISO 750 writes meq as mmol of H+ */
+	{"mmolh+/100g", AL_UNIT_MEQ_100G}, {"mmolh+/l", AL_UNIT_MEQ_L},
+	{"g/1000ml", AL_UNIT_G_L},      {"mg/ml", AL_UNIT_G_L},
+	{"mg/g", AL_UNIT_G_KG},         {"g/1000g", AL_UNIT_G_KG},
 };
 
 /* Lower case without blanks. */
@@ -66,6 +66,24 @@ al_unit_parse(const char *name, al_unit *unit)
 			return AL_OK;
 		}
 	return AL_ENOTFOUND;
+}
+
+const char *
+al_unit_refusal(const char *name)
+{
+	char key[32];
+
+	if (strlen(name) >= sizeof key)
+		return "is not a unit";
+	squeeze(name, key, sizeof key);
+	if (strcmp(key, "%") == 0)
+		return "could mean g/100g (% w/w) or g/100mL (% w/v): name "
+		       "the one meant";
+	if (strncmp(key, "mmol/", 5) == 0 || strncmp(key, "mol/", 4) == 0)
+		return "is an amount of the acid, not of its protons (for "
+		       "citric acid 1 mmol is 3 meq): use meq/100g or meq/L "
+		       "(mmol H+), or a mass unit";
+	return "is not a unit";
 }
 
 const char *

@@ -120,15 +120,6 @@ enum {
  * that large is usually a sample identifier reused. */
 #define AL_VALUES_KEPT 64
 
-/* Plausibility limits: beyond them a value is possible but unusual, and
- * draws a warning (common practice for bench titrations with a 50 mL
- * burette and 0.1 M or 1 M NaOH). */
-#define AL_PLAUSIBLE_TITRANT_ML 100.0
-#define AL_PLAUSIBLE_SAMPLE 1000.0 /* g or mL */
-#define AL_PLAUSIBLE_CONC_MIN 0.001
-#define AL_PLAUSIBLE_CONC_MAX 2.0
-#define AL_PLAUSIBLE_BLANK_ML 5.0
-
 /* One titration that went into a result, as handed to the row callback.
  * Strings are valid only during the call. */
 typedef struct al_replicate {

@@ -21,6 +21,17 @@ typedef enum al_numerr {
 al_numerr al_number_parse(const char *s, size_t len, char decimal_point,
 			  double *out);
 
+/* The magnitudes the arithmetic of a run stays within: a quantity of a
+ * titration (an input, the dilution, the meq, the result) is 0 or
+ * between 1e-100 and 1e100 in magnitude, so that the sums, squares and
+ * relative uncertainties made of it stay finite for any number of rows
+ * (IEEE double reaches 1.8e308). Beyond them a row is invalid. */
+#define AL_MAGNITUDE_MAX 1e100
+#define AL_MAGNITUDE_MIN 1e-100
+
+/* 1 when x is finite and 0 or within AL_MAGNITUDE_MIN..MAX in size. */
+int al_number_computable(double x);
+
 /* A phrase for a parse error, e.g. "is not a number". */
 const char *al_numerr_phrase(al_numerr err);
 

@@ -8,6 +8,15 @@
 #include "acidlot/units.h"
 
 /* One titration of one sample portion. */
+/* Plausibility limits: beyond them a value is possible but unusual, and
+ * draws a warning (common practice for bench titrations with a 50 mL
+ * burette and 0.1 M or 1 M NaOH). */
+#define AL_PLAUSIBLE_TITRANT_ML 100.0
+#define AL_PLAUSIBLE_SAMPLE 1000.0 /* g or mL */
+#define AL_PLAUSIBLE_CONC_MIN 0.001
+#define AL_PLAUSIBLE_CONC_MAX 2.0
+#define AL_PLAUSIBLE_BLANK_ML 5.0
+
 typedef struct al_titration {
 	double titrant_ml;    /* titrant delivered to the endpoint, mL */
 	double blank_ml;      /* blank titration, mL */

@@ -23,6 +23,10 @@ typedef enum al_unit {
 /* Parses a unit name ("g/100g", "g/L", "meq/L", "%w/w"...; case and
  * blanks ignored). AL_ENOTFOUND when unknown. */
 al_status al_unit_parse(const char *name, al_unit *unit);
+/* Why al_unit_parse refused a name, as a phrase to follow it: "'%'"
+ * alone and amount-of-acid units (mmol/L) are refused with the units
+ * they could mean, never equated with meq. */
+const char *al_unit_refusal(const char *name);
 const char *al_unit_name(al_unit unit);
 al_basis al_unit_basis(al_unit unit);
 int al_unit_is_meq(al_unit unit);

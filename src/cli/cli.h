@@ -32,6 +32,10 @@ int cli_usage_error(const char *cmd, const char *fmt, ...)
  * message and -1. */
 int cli_number(const char *cmd, const char *option, const char *text,
 	       double *out);
+/* Parses a unit name for an option ("--unit", or "UNIT" for an operand);
+ * 0 on success, else a usage error saying why and -1. */
+int cli_unit(const char *cmd, const char *option, const char *text,
+	     al_unit *out);
 /* Prints diagnostics as "acidlot: file:line: column: message", warnings
  * with "warning: ", and how many more were not kept. */
 void cli_print_diags(const al_diags *d);

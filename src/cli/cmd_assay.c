@@ -920,11 +920,8 @@ cmd_assay(int argc, char **argv)
 		}
 	}
 	if (a.unit) {
-		if (al_unit_parse(a.unit, &a.aopt.unit) != AL_OK) {
-			cli_usage_error("assay", "--unit: unknown unit '%s' (use %s)",
-					a.unit, al_unit_list());
+		if (cli_unit("assay", "--unit", a.unit, &a.aopt.unit) != 0)
 			goto out;
-		}
 		a.aopt.has_unit = 1;
 	}
 	if (load_columns(&a, &aliases, &n_aliases) != 0)

@@ -128,14 +128,12 @@ cmd_convert(int argc, char **argv)
 		return EXIT_TROUBLE;
 	if (!(value >= 0))
 		return cli_usage_error("convert", "VALUE must not be negative");
-	if (al_unit_parse(argv[optind + 1], &unit) != AL_OK)
-		return cli_usage_error("convert", "unknown unit '%s' (use %s)",
-				       argv[optind + 1], al_unit_list());
+	if (cli_unit("convert", "UNIT", argv[optind + 1], &unit) != 0)
+		return EXIT_TROUBLE;
 	to_unit = unit;
-	if (to_unit_name && al_unit_parse(to_unit_name, &to_unit) != AL_OK)
-		return cli_usage_error("convert",
-				       "--to-unit: unknown unit '%s' (use %s)",
-				       to_unit_name, al_unit_list());
+	if (to_unit_name &&
+	    cli_unit("convert", "--to-unit", to_unit_name, &to_unit) != 0)
+		return EXIT_TROUBLE;
 	cat = cli_catalogue();
 	if (cat == NULL)
 		return EXIT_TROUBLE;
@@ -175,6 +173,10 @@ cmd_convert(int argc, char **argv)
 				al_unit_basis(to_unit) == AL_BASIS_MASS
 					? "mass"
 					: "volume");
+		goto out;
+	}
+	if (!al_number_computable(out)) {
+		cli_error("convert: the result (%g) is out of range", out);
 		goto out;
 	}
 	al_format_number(out, (int)dec, 0, num, sizeof num);

@@ -59,7 +59,7 @@ cmd_recovery(int argc, char **argv)
 	double ta = -1, start = -1, density = 0, recovered = -1, assay = -1, v;
 	const char *unit_name = NULL, *acid_name = NULL, *base_name = NULL;
 	const char *optname;
-	int c, by_volume = 0, rc = EXIT_TROUBLE;
+	int c, by_volume = 0, not_pass = 0, rc = EXIT_TROUBLE;
 	al_unit unit;
 	al_catalogue *cat = NULL;
 	const al_acid *acid;
@@ -142,9 +142,8 @@ cmd_recovery(int argc, char **argv)
 		return cli_usage_error("recovery",
 				       "say what to compute: --recovered-kg with "
 				       "--assay, or --base");
-	if (al_unit_parse(unit_name, &unit) != AL_OK)
-		return cli_usage_error("recovery", "unknown unit '%s' (use %s)",
-				       unit_name, al_unit_list());
+	if (cli_unit("recovery", "--unit", unit_name, &unit) != 0)
+		return EXIT_TROUBLE;
 	cat = cli_catalogue();
 	if (cat == NULL)
 		return EXIT_TROUBLE;
@@ -181,6 +180,12 @@ cmd_recovery(int argc, char **argv)
 	}
 	meq_total = meq_per * per_unit_amount;
 	acid_kg = meq_total * acid->g_per_meq / 1000;
+	if (!al_number_computable(acid_kg) || !al_number_computable(meq_total) ||
+	    (recovered >= 0 && !(acid_kg > 0))) {
+		cli_error("recovery: the acid present (%g kg) is out of range",
+			  acid_kg);
+		goto out;
+	}
 	printf("acid present: %.6g kg as %s (%.6g mol H+ titratable)\n", acid_kg,
 	       acid->name, meq_total / 1000);
 	if (recovered >= 0) {
@@ -189,6 +194,14 @@ cmd_recovery(int argc, char **argv)
 		printf("acid recovered: %.6g kg (%.6g kg at %.6g %%)\n", got,
 		       recovered, assay);
 		printf("recovery: %.4g %%\n", 100 * got / acid_kg);
+		if (got > acid_kg) {
+			/* more acid out than went in: a wrong input, or a
+			 * material balance to look at before any release */
+			cli_error("warning: recovery is above 100 %%: more acid "
+				  "was recovered than was present; check the "
+				  "inputs");
+			not_pass = 1;
+		}
 	}
 	if (base) {
 		double mol_base = meq_total / 1000 / base->equivalents;
@@ -199,8 +212,8 @@ cmd_recovery(int argc, char **argv)
 		       meq_total / 1000, base->equivalents, base->formula,
 		       mol_base, base->molar_mass);
 	}
-	rc = fflush(stdout) == 0 && !ferror(stdout) ? 0 : EXIT_TROUBLE;
-	if (rc)
+	rc = fflush(stdout) == 0 && !ferror(stdout) ? not_pass : EXIT_TROUBLE;
+	if (rc == EXIT_TROUBLE)
 		cli_error("write error on standard output");
 out:
 	al_catalogue_free(cat);

@@ -41,10 +41,26 @@ cli_number(const char *cmd, const char *option, const char *text,
 {
 	al_numerr err = al_number_parse(text, strlen(text), '.', out);
 
-	if (err == AL_NUM_OK)
+	if (err == AL_NUM_OK && al_number_computable(*out))
 		return 0;
+	if (err == AL_NUM_OK || err == AL_NUM_RANGE) {
+		cli_usage_error(cmd, "%s: %s is out of range (0, or %g to %g "
+				     "in size)",
+				option, text, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
+		return -1;
+	}
 	cli_usage_error(cmd, "%s: '%s' %s", option, text,
 			al_numerr_phrase(err));
+	return -1;
+}
+
+int
+cli_unit(const char *cmd, const char *option, const char *text, al_unit *out)
+{
+	if (al_unit_parse(text, out) == AL_OK)
+		return 0;
+	cli_usage_error(cmd, "%s: '%s' %s (units: %s)", option, text,
+			al_unit_refusal(text), al_unit_list());
 	return -1;
 }
 
