@@ -74,6 +74,12 @@ struct group {
 };
 
 /* The inputs few files have, kept only for the groups that have them. */
+/* The rows of a group's lowest and highest result, kept when an outlier
+ * may be left out (al_eval_row), by group. */
+struct group_extremes {
+	al_eval_row row[2];
+};
+
 struct group_extra {
 	double sum_blank, sum_made_up, sum_aliquot, sum_conc_u;
 	double sum_brix, sum_water, sum_density, min_endpoint;
@@ -141,6 +147,8 @@ struct al_assay {
 	size_t *file_groups; /* groups before each file's first one */
 	struct group_extra *extras;
 	size_t n_extras, cap_extras;
+	struct group_extremes *extremes; /* with exclude_outliers */
+	size_t n_extremes, cap_extremes;
 	const al_acid *acids[255]; /* the acids of groups, by group->acid */
 	size_t n_acids;
 	uint32_t last_group; /* 1 + the group of the previous row */
@@ -215,6 +223,8 @@ al_assay_new(const al_assay_options *opt, al_status *status)
 			run->opt.qc.balance_linearity_g = d.balance_linearity_g;
 		if (run->opt.qc.k == 0)
 			run->opt.qc.k = d.k;
+		if (!run->opt.qc.has_resolution)
+			run->opt.qc.resolution_ml = d.resolution_ml;
 	}
 	run->point = opt->csv.decimal_point ? opt->csv.decimal_point : '.';
 	run->row_diags.cap = 16;
@@ -246,6 +256,7 @@ al_assay_free(al_assay *run)
 	al_free((void *)run->acids_used);
 	al_free((void *)run->specs_used);
 	al_free(run->extras);
+	al_free(run->extremes);
 	al_free(run->scratch);
 	al_free(run->header_text);
 	al_free(run->lots_used);
@@ -682,6 +693,39 @@ extra_of(al_assay *run, struct group *g)
 	x->min_endpoint = HUGE_VAL;
 	g->extra = (uint32_t)run->n_extras;
 	return x;
+}
+
+/* Keeps a row as its group's lowest or highest result where it is one
+ * (the first on a tie), so that an excluded outlier's inputs can come
+ * off the means; only when outliers may be excluded. */
+static al_status
+note_extremes(al_assay *run, const struct group *g, const al_eval_row *row)
+{
+	size_t i = (size_t)(g - run->groups);
+	struct group_extremes *e;
+
+	if (!run->opt.qc.exclude_outliers)
+		return AL_OK;
+	if (i >= run->cap_extremes) {
+		size_t n = run->cap_extremes ? 2 * run->cap_extremes : 64;
+		struct group_extremes *grown;
+
+		while (n <= i)
+			n *= 2;
+		grown = al_realloc(run->extremes, n * sizeof *grown);
+		if (grown == NULL)
+			return AL_ENOMEM;
+		run->extremes = grown;
+		run->cap_extremes = n;
+	}
+	while (run->n_extremes <= i)
+		memset(&run->extremes[run->n_extremes++], 0, sizeof *e);
+	e = &run->extremes[i];
+	if (g->n == 0 || row->value < e->row[0].value)
+		e->row[0] = *row;
+	if (g->n == 0 || row->value > e->row[1].value)
+		e->row[1] = *row;
+	return AL_OK;
 }
 
 static const double *
@@ -1676,9 +1720,27 @@ row_values(al_assay *run, const al_csv_row *row)
 		if ((flags & AL_FLAG_ENDPOINT_LOW) && endpoint < x->min_endpoint)
 			x->min_endpoint = endpoint;
 	}
-	st = push_value(g, value);
-	if (st != AL_OK)
-		return st;
+	{
+		al_eval_row er = {
+			value,
+			t.titrant_ml,
+			t.blank_ml,
+			t.titrant_mol_l,
+			t.amount,
+			t.made_up_ml,
+			t.aliquot_ml,
+			conc_u,
+			got_brix == 1 ? brix : -1,
+			got_water == 1 ? water : -1,
+			got_density == 1 ? density : -1,
+		};
+
+		st = note_extremes(run, g, &er);
+		if (st == AL_OK)
+			st = push_value(g, value);
+		if (st != AL_OK)
+			return st;
+	}
 	g->flags |= flags;
 	g->sum_titrant += t.titrant_ml;
 	g->sum_conc += t.titrant_mol_l;
@@ -1821,6 +1883,23 @@ replay_rows(al_assay *run)
 	return AL_OK;
 }
 
+/* The group's reading resolution relative to its results
+ * (al_eval_resolution at its mean titrant and blank). */
+static double
+resolution_of(const al_assay *run, struct al_assay_reader *rd,
+	      const struct group *g)
+{
+	size_t pl, ll;
+	const char *k = key_parts(run, g, &pl, &ll);
+	const struct group_extra *x = g->extra ? &run->extras[g->extra - 1]
+					       : NULL;
+	double n = g->n ? (double)g->n : 1;
+
+	return al_eval_resolution(&run->opt, spec_of(run, &rd->specs, k, pl),
+				  g->sum_titrant / n,
+				  x ? x->sum_blank / n : 0);
+}
+
 /* The acid a result is expressed as: its rows', or, when every row of
  * it was rejected, its spec's or the run's default. */
 static const al_acid *
@@ -1884,7 +1963,13 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 		in.has_water = x->n_water > 0;
 		in.water_pct = x->n_water ? x->sum_water / x->n_water : 0;
 		in.density = x->n_density ? x->sum_density / x->n_density : 0;
+		in.n_conc_u = x->n_conc_u;
+		in.n_brix = x->n_brix;
+		in.n_water = x->n_water;
+		in.n_density = x->n_density;
 	}
+	if (i < run->n_extremes)
+		in.extremes = run->extremes[i].row;
 	r->anhydrous = (g->bits & G_ANHYDROUS) != 0;
 	in.impossible = (g->bits & G_IMPOSSIBLE) != 0;
 	al_eval_result(&run->opt, &in, rd->scratch, r);
@@ -1975,7 +2060,7 @@ spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	r->n_values = g->n;
 	r->flags = g->flags;
 	al_eval_stats(&run->opt, g->bits & G_STREAM ? g->values.stream : NULL,
-		      rd->scratch, r, &used);
+		      resolution_of(run, rd, g), rd->scratch, r, &used);
 	x->has_sd = r->stats.has_sd;
 	x->var = r->stats.sd * r->stats.sd;
 	x->n = r->stats.n;

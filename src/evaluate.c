@@ -24,6 +24,9 @@ al_qc_options_default(al_qc_options *q)
 	/* analytical balance linearity, QUAM 2012 A2 (seen) */
 	q->balance_linearity_g = 0.00015;
 	q->k = 2;
+	/* a 50 mL burette graduated in 0.1 mL is read to half a division
+	 * (common practice); 0.02 mL for a 25 mL burette in 0.05 mL */
+	q->resolution_ml = 0.05;
 }
 
 /* Class A tolerances, +/- mL, by nominal volume: bulb pipettes ISO 648
@@ -227,15 +230,61 @@ never_pass(const al_eval_inputs *in, al_group_result *r)
 		r->verdict = AL_VERDICT_RETEST;
 }
 
+/* Readings one resolution apart come out a hair either side of res once
+ * converted to the result's unit: a part in a million covers that. */
+#define TIE_SLACK (1 + 1e-6)
+
+/* 1 when a suspect value lies within the reading resolution res of
+ * another replicate: equal readings are no outlier, whatever G says
+ * (with two equal values Grubbs' G at n = 3 is at its maximum). */
+static int
+tied(const double *x, size_t n, size_t suspect, double res)
+{
+	for (size_t i = 0; i < n; i++)
+		if (i != suspect && fabs(x[i] - x[suspect]) <= res * TIE_SLACK)
+			return 1;
+	return 0;
+}
+
+/* Grubbs's flags for a G that is no tie. */
+static void
+grubbs_flags(al_group_result *r, size_t n, int tie)
+{
+	if (tie)
+		return;
+	if (r->grubbs_g > al_grubbs_critical(n, 0.01))
+		r->flags |= AL_FLAG_OUTLIER;
+	else if (r->grubbs_g > al_grubbs_critical(n, 0.05))
+		r->flags |= AL_FLAG_STRAGGLER;
+}
+
+/* Whether a flagged outlier is left out: asked for, and n above 3. */
+static int
+excludes(const al_assay_options *opt, const al_group_result *r, size_t n)
+{
+	return opt->qc.exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
+	       n > 3;
+}
+
+double
+al_eval_resolution(const al_assay_options *opt, const al_spec *spec,
+		   double titrant_ml, double blank_ml)
+{
+	double res = spec && spec->has_resolution ? spec->resolution_ml
+						  : opt->qc.resolution_ml;
+	double net = titrant_ml - blank_ml;
+
+	return net > 0 ? res / net : 0;
+}
+
 /* The statistics of a result past AL_VALUES_KEPT values, from running
  * sums: mean and SD (Welford), Grubbs from the farther extreme, the
  * range from the extremes; an excluded outlier comes off the sums. No
  * median (it needs every value) and no Dixon (n > 10). */
 static void
 many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
-	    al_group_result *r, size_t *used)
+	    double res_rel, al_group_result *r, size_t *used)
 {
-	const al_qc_options *q = &opt->qc;
 	double mean = s->mean, m2 = s->m2, lo = s->lo, hi = s->hi;
 	double sd = sqrt(m2 / (double)(n - 1));
 
@@ -243,15 +292,13 @@ many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
 	if (sd > 0) {
 		int low = mean - s->lo > s->hi - mean ||
 			  (mean - s->lo == s->hi - mean && s->lo_i < s->hi_i);
+		double gap = low ? s->lo2 - s->lo : s->hi - s->hi2;
 
 		r->has_grubbs = 1;
 		r->grubbs_index = low ? s->lo_i : s->hi_i;
 		r->grubbs_g = (low ? mean - s->lo : s->hi - mean) / sd;
-		if (r->grubbs_g > al_grubbs_critical(n, 0.01))
-			r->flags |= AL_FLAG_OUTLIER;
-		else if (r->grubbs_g > al_grubbs_critical(n, 0.05))
-			r->flags |= AL_FLAG_STRAGGLER;
-		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+		grubbs_flags(r, n, gap <= res_rel * fabs(mean) * TIE_SLACK);
+		if (excludes(opt, r, n)) {
 			double x = low ? s->lo : s->hi;
 			double mean2 = ((double)n * mean - x) / (double)(n - 1);
 
@@ -274,45 +321,77 @@ many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
 
 void
 al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
-	      double *scratch, al_group_result *r, size_t *used)
+	      double res_rel, double *scratch, al_group_result *r,
+	      size_t *used)
 {
-	const al_qc_options *q = &opt->qc;
 	size_t n = r->n_values;
+	int excluded;
 
 	*used = n;
 	r->has_grubbs = r->has_excluded = 0;
 	r->grubbs_index = 0;
 	if (stream) {
-		many_values(opt, stream, n, r, used);
+		many_values(opt, stream, n, res_rel, r, used);
 		return;
 	}
 	al_stats_summarise(r->values, n, opt->confidence, &r->stats);
 	if (n >= 3 && r->stats.has_sd) {
-		double g = al_grubbs_g(r->values, n, r->stats.mean,
-				       r->stats.sd, &r->grubbs_index);
-
 		r->has_grubbs = 1;
-		r->grubbs_g = g;
-		if (g > al_grubbs_critical(n, 0.01))
-			r->flags |= AL_FLAG_OUTLIER;
-		else if (g > al_grubbs_critical(n, 0.05))
-			r->flags |= AL_FLAG_STRAGGLER;
+		r->grubbs_g = al_grubbs_g(r->values, n, r->stats.mean,
+					  r->stats.sd, &r->grubbs_index);
+		grubbs_flags(r, n,
+			     tied(r->values, n, r->grubbs_index,
+				  res_rel * fabs(r->stats.mean)));
 	}
 	/* the values the result is made of: all, or all but an excluded
 	 * outlier (ISO 5725-2 keeps it in the record; so do we) */
-	for (size_t i = 0, k = 0; i < n; i++) {
-		if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER) &&
-		    i == r->grubbs_index)
-			continue;
-		scratch[k++] = r->values[i];
-	}
-	if (q->exclude_outliers && (r->flags & AL_FLAG_OUTLIER)) {
+	excluded = excludes(opt, r, n);
+	for (size_t i = 0, k = 0; i < n; i++)
+		if (!excluded || i != r->grubbs_index)
+			scratch[k++] = r->values[i];
+	if (excluded) {
 		*used = n - 1;
 		r->has_excluded = 1;
 		r->excluded_index = r->grubbs_index;
 		r->flags |= AL_FLAG_EXCLUDED;
 		al_stats_summarise(scratch, *used, opt->confidence, &r->stats);
 	}
+}
+
+/* A mean of k values with one of them, x, taken off. */
+static double
+mean_without(double mean, size_t k, double x)
+{
+	return k > 1 ? ((double)k * mean - x) / (double)(k - 1) : 0;
+}
+
+/* Takes one row's inputs off the means of a result's inputs (n rows);
+ * the quantities few rows have come off their own counts. */
+static void
+leave_out(al_eval_inputs *in, const al_eval_row *x)
+{
+	in->titrant_ml = mean_without(in->titrant_ml, in->n, x->titrant_ml);
+	in->blank_ml = mean_without(in->blank_ml, in->n, x->blank_ml);
+	in->conc = mean_without(in->conc, in->n, x->conc);
+	in->amount = mean_without(in->amount, in->n, x->amount);
+	in->made_up_ml = mean_without(in->made_up_ml, in->n, x->made_up_ml);
+	in->aliquot_ml = mean_without(in->aliquot_ml, in->n, x->aliquot_ml);
+	in->n--;
+	if (x->conc_u >= 0)
+		in->conc_u = mean_without(in->conc_u, in->n_conc_u--, x->conc_u);
+	in->all_conc_u = in->n > 0 && in->n_conc_u == in->n;
+	if (x->brix >= 0) {
+		in->brix = mean_without(in->brix, in->n_brix--, x->brix);
+		in->has_brix = in->n_brix > 0;
+	}
+	if (x->water_pct >= 0) {
+		in->water_pct = mean_without(in->water_pct, in->n_water--,
+					     x->water_pct);
+		in->has_water = in->n_water > 0;
+	}
+	if (x->density >= 0)
+		in->density = mean_without(in->density, in->n_density--,
+					   x->density);
 }
 
 void
@@ -324,13 +403,31 @@ al_eval_result(const al_assay_options *opt, const al_eval_inputs *in,
 	double lo, hi;
 	unsigned why;
 	int range_exceeded = 0;
+	double res_rel = al_eval_resolution(opt, r->spec, in->titrant_ml,
+					    in->blank_ml);
+	al_eval_inputs kept;
 
-	al_eval_stats(opt, in->stream, scratch, r, &used);
+	al_eval_stats(opt, in->stream, res_rel, scratch, r, &used);
+	if (r->has_excluded && in->extremes) {
+		/* the excluded outlier is the lowest or the highest value:
+		 * every figure comes from the rows kept */
+		double x = in->stream ? (r->excluded_index == in->stream->lo_i
+						 ? in->stream->lo
+						 : in->stream->hi)
+				      : r->values[r->excluded_index];
+
+		kept = *in;
+		leave_out(&kept, &in->extremes[x == in->extremes[0].value ? 0
+									 : 1]);
+		in = &kept;
+	}
 	if (!in->stream) {
 		if (n >= 3 && n <= 10) {
 			r->has_dixon = 1;
 			r->dixon_q = al_dixon_q(r->values, n, &r->dixon_index);
-			if (r->dixon_q > al_dixon_critical(n, 0.95))
+			if (r->dixon_q > al_dixon_critical(n, 0.95) &&
+			    !tied(r->values, n, r->dixon_index,
+				  res_rel * fabs(r->stats.mean)))
 				r->flags |= AL_FLAG_DIXON;
 		}
 		if (used > 0) {

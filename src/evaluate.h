@@ -15,6 +15,16 @@ typedef struct al_eval_stream {
 	size_t lo_i, hi_i;
 } al_eval_stream;
 
+/* One titration's inputs and result, kept for the lowest and the
+ * highest result of a group when an outlier may be left out: an
+ * outlier is always one of the two, so its inputs can come off the
+ * means. Quantities a row lacks are negative. */
+typedef struct al_eval_row {
+	double value;
+	double titrant_ml, blank_ml, conc, amount, made_up_ml, aliquot_ml;
+	double conc_u, brix, water_pct, density;
+} al_eval_row;
+
 /* Means of a result's inputs, for its uncertainty budget. */
 typedef struct al_eval_inputs {
 	const al_eval_stream *stream; /* NULL: r->values holds them all */
@@ -26,16 +36,29 @@ typedef struct al_eval_inputs {
 	int has_brix, has_water;
 	double brix, water_pct, density; /* means; density 0 when unknown */
 	int impossible;  /* a value is more than a sample can hold */
+	size_t n_conc_u, n_brix, n_water, n_density; /* rows with each */
+	const al_eval_row *extremes; /* [0] the lowest result's row, [1] the
+					highest's; NULL: not kept */
 } al_eval_inputs;
 
 /* The first part of al_eval_result: fills r->stats (after an excluded
  * outlier, if the options exclude one), Grubbs's screen and the flags
  * these set, from stream or from r->values (n_values of them, with the
- * flags r had; what it sets only at times it clears first); *used is
+ * flags r had; what it sets only at times it clears first); an outlier
+ * is left out only from n = 4 on (ISO 5725-2 applies these tests to more
+ * data than a triplicate), and a tie (res_rel) is never one; *used is
  * the count of values in the statistics, and scratch then holds them in
  * input order. Enough for Cochran's test. */
 void al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
-		   double *scratch, al_group_result *r, size_t *used);
+		   double res_rel, double *scratch, al_group_result *r,
+		   size_t *used);
+
+/* The reading resolution relative to a result: the spec's resolution_ml
+ * (else the options') over the mean net titrant volume; 0 when there is
+ * none. A replicate within res_rel x mean of its nearest neighbour is a
+ * tie, never an outlier (burettes are read to 0.02-0.05 mL). */
+double al_eval_resolution(const al_assay_options *opt, const al_spec *spec,
+			  double titrant_ml, double blank_ml);
 
 /* Fills r (whose values, n_values, acid, unit and spec are set) with its
  * statistics, screens, uncertainty and verdict. scratch holds n_values

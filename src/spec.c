@@ -14,12 +14,12 @@ struct al_spec_table {
 
 enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_SR,
        C_R, C_BRIX_MIN, C_BRIX_MAX, C_RATIO_MIN, C_RATIO_MAX, C_WATER_MIN,
-       C_WATER_MAX, C_BASIS, C_COUNT };
+       C_WATER_MAX, C_BASIS, C_RESOLUTION, C_COUNT };
 static const char *const spec_cols[C_COUNT] = {
 	"product",   "acid",	  "unit",      "min",	    "max",
 	"max_rsd_pct", "min_n",	  "sr",	       "r",	    "brix_min",
 	"brix_max",  "ratio_min", "ratio_max", "water_min", "water_max",
-	"basis"};
+	"basis",     "resolution_ml"};
 
 struct spec_reader {
 	const al_catalogue *cat;
@@ -189,6 +189,16 @@ spec_row(void *ud, const al_csv_row *row)
 			s.sr = got_sr == 1 ? sr : rl / 2.8;
 		}
 	}
+	got = al_cell_number(row, r->col[C_RESOLUTION], "resolution_ml",
+			     r->point, r->file, r->diags, &s.resolution_ml);
+	if (got < 0)
+		r->bad = 1;
+	else if (got == 1 && !(s.resolution_ml >= 0 && s.resolution_ml <= 1)) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "resolution_ml", "must be from 0 to 1 mL");
+		r->bad = 1;
+	} else
+		s.has_resolution = got == 1;
 	{
 		static const int cols[6] = {C_BRIX_MIN,	 C_BRIX_MAX,  C_RATIO_MIN,
 					    C_RATIO_MAX, C_WATER_MIN, C_WATER_MAX};

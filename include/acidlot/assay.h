@@ -35,6 +35,11 @@ typedef struct al_qc_options {
 				      concentration, mol/L, for rows whose
 				      lot is not in a register */
 	double k;                  /* coverage factor; 2 */
+	int has_resolution;
+	double resolution_ml;      /* the burette's reading resolution, mL;
+				      0.05 unless has_resolution. A
+				      replicate within it of its nearest
+				      neighbour is no outlier */
 } al_qc_options;
 
 void al_qc_options_default(al_qc_options *q);

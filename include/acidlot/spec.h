@@ -32,6 +32,8 @@ typedef struct al_spec {
 	double water_min, water_max;
 	int has_basis;
 	int anhydrous;       /* results on the anhydrous basis */
+	int has_resolution;
+	double resolution_ml; /* burette reading resolution, mL */
 	unsigned long line;  /* where it stands in its file */
 } al_spec;
 

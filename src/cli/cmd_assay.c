@@ -49,8 +49,13 @@ usage(FILE *out)
 	      "      --decision RULE     simple (default: the mean against the\n"
 	      "                          limits) or guarded[:R] (guard band\n"
 	      "                          w = R x U, R default 1; ILAC G8)\n"
-	      "      --exclude-outliers  leave 1 %% Grubbs outliers out of the\n"
-	      "                          mean (flagged, kept in --replicates)\n"
+	      "      --exclude-outliers  leave a 1 %% Grubbs outlier out of the\n"
+	      "                          result (flagged, kept in --replicates);\n"
+	      "                          never at n = 3\n"
+	      "      --resolution-ml X   burette reading resolution (default\n"
+	      "                          0.05; spec column resolution_ml): a\n"
+	      "                          replicate within it of another is\n"
+	      "                          never an outlier\n"
 	      "      --budget FILE       uncertainty budget of every result (CSV)\n"
 	      "      --titrant-u U       standard uncertainty of the titrant\n"
 	      "                          concentration, mol/L, for rows whose lot\n"
@@ -122,7 +127,7 @@ enum {
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
-	OPT_BASIS
+	OPT_BASIS, OPT_RESOLUTION
 };
 
 static const struct option options[] = {
@@ -152,6 +157,7 @@ static const struct option options[] = {
 	{"budget", required_argument, NULL, OPT_BUDGET},
 	{"titrant-u", required_argument, NULL, OPT_TITRANT_U},
 	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
+	{"resolution-ml", required_argument, NULL, OPT_RESOLUTION},
 	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
 	{"k", required_argument, NULL, OPT_K},
 	{"basis", required_argument, NULL, OPT_BASIS},
@@ -417,6 +423,17 @@ parse_args(int argc, char **argv, struct args *a)
 				a->aopt.qc.burette_tol_ml = v;
 			else
 				a->aopt.qc.balance_linearity_g = v;
+			break;
+		case OPT_RESOLUTION:
+			if (opt_number("--resolution-ml", &v))
+				return -1;
+			if (!(v >= 0 && v <= 1))
+				return cli_usage_error("assay",
+						       "--resolution-ml takes 0 "
+						       "to 1 mL"),
+				       -1;
+			a->aopt.qc.resolution_ml = v;
+			a->aopt.qc.has_resolution = 1;
 			break;
 		case 'h':
 			usage(stdout);

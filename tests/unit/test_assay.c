@@ -376,6 +376,116 @@ lazy_equals_finish(void **state)
 	free(text);
 }
 
+/* The first result of a text, run with the options given. */
+static al_assay *
+first_result(const char *text, int exclude, double titrant_u,
+	     const al_group_result **r)
+{
+	al_assay_options opt;
+	al_status st;
+	al_assay *run;
+
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	opt.qc.exclude_outliers = exclude;
+	opt.qc.has_titrant_u = titrant_u > 0;
+	opt.qc.titrant_u = titrant_u;
+	run = run_with(text, &opt, 0, 0, &st);
+	assert_int_equal(st, AL_OK);
+	*r = al_assay_result(run, 0);
+	return run;
+}
+
+/* Issue 18 A3: with --exclude-outliers every figure of a result (n, mean,
+ * SD, RSD, CI, u, U, Brix ratio) is that of the same data with the
+ * outlier's row deleted, to 1e-12: the outlier's inputs (titrant, blank,
+ * concentration, mass, dilution, Brix) come off the budget's means too.
+ * The rows differ in every input so that a mean taken over all rows
+ * would show. */
+static void
+excluded_equals_deleted(void **state)
+{
+	static const char *const head =
+		"sample,mass_g,titrant_ml,blank_ml,titrant_mol_l,made_up_ml,"
+		"aliquot_ml,brix\n";
+	static const char *const rows =
+		"S,10.02,14.31,0.05,0.1002,100,25,11.8\n"
+		"S,9.98,14.26,0.04,0.1001,100,25,11.9\n"
+		"S,10.05,14.36,0.05,0.1003,100,25,11.7\n"
+		"S,10.01,14.30,0.06,0.1002,100,25,11.8\n"
+		"S,9.97,14.24,0.05,0.1000,100,25,11.8\n";
+	static const char *const outlier =
+		"S,12.50,21.90,0.30,0.1010,250,10,13.0\n";
+	char all[1024], kept[1024];
+	const al_group_result *a, *b;
+	al_assay *ra, *rb;
+	const char *third = strchr(strchr(rows, '\n') + 1, '\n') + 1;
+
+	snprintf(all, sizeof all, "%s%.*s%s%s", head, (int)(third - rows), rows,
+		 outlier, third);
+	(void)state;
+	snprintf(kept, sizeof kept, "%s%s", head, rows);
+	ra = first_result(all, 1, 0.00012, &a);
+	rb = first_result(kept, 0, 0.00012, &b);
+	assert_true(a->flags & AL_FLAG_EXCLUDED);
+	assert_int_equal(a->excluded_index, 2);
+	assert_int_equal(a->stats.n, b->stats.n);
+	assert_rel(a->stats.mean, b->stats.mean, 1e-12);
+	assert_rel(a->stats.sd, b->stats.sd, 1e-12);
+	assert_rel(a->stats.rsd_pct, b->stats.rsd_pct, 1e-12);
+	assert_rel(a->stats.ci_low, b->stats.ci_low, 1e-12);
+	assert_rel(a->stats.ci_high, b->stats.ci_high, 1e-12);
+	assert_rel(a->median, b->median, 1e-12);
+	assert_rel(a->range, b->range, 1e-12);
+	assert_rel(a->u, b->u, 1e-12);
+	assert_rel(a->U, b->U, 1e-12);
+	assert_rel(a->brix, b->brix, 1e-12);
+	assert_rel(a->ratio, b->ratio, 1e-12);
+	assert_int_equal(a->verdict, b->verdict);
+	al_assay_free(ra);
+	al_assay_free(rb);
+}
+
+/* Issue 18 A4: replicates read to the burette's resolution tie all the
+ * time. 14.35, 14.35, 14.40 mL: the 14.40 is within 0.05 mL of its
+ * neighbour, so neither Grubbs (whose G at n = 3 with two equal values
+ * is at its maximum, (n-1)/sqrt(n) = 1.1547) nor Dixon (r10 = 1) flags
+ * it; at a resolution of 0.02 mL both do, and even then an n = 3 result
+ * never leaves a value out. */
+static void
+ties_are_no_outliers(void **state)
+{
+	static const char *const text =
+		"sample,mass_g,titrant_ml,titrant_mol_l\n"
+		"S,1,14.35,0.1\nS,1,14.35,0.1\nS,1,14.40,0.1\n";
+	const al_group_result *r;
+	al_assay_options opt;
+	al_status st;
+	al_assay *run;
+
+	(void)state;
+	run = first_result(text, 1, 0, &r);
+	assert_rel(r->grubbs_g, 2 / sqrt(3.0), 1e-12);
+	assert_false(r->flags & (AL_FLAG_OUTLIER | AL_FLAG_STRAGGLER |
+				 AL_FLAG_DIXON | AL_FLAG_EXCLUDED));
+	assert_int_equal(r->stats.n, 3);
+	al_assay_free(run);
+
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	opt.qc.exclude_outliers = 1;
+	opt.qc.has_resolution = 1;
+	opt.qc.resolution_ml = 0.02;
+	run = run_with(text, &opt, 0, 0, &st);
+	assert_int_equal(st, AL_OK);
+	r = al_assay_result(run, 0);
+	assert_true(r->flags & AL_FLAG_OUTLIER);
+	assert_true(r->flags & AL_FLAG_DIXON);
+	assert_false(r->flags & AL_FLAG_EXCLUDED);
+	assert_int_equal(r->stats.n, 3);
+	al_assay_free(run);
+}
+
 int
 main(void)
 {
@@ -385,6 +495,8 @@ main(void)
 		cmocka_unit_test(endpoint_flag),
 		cmocka_unit_test(report_two_threads),
 		cmocka_unit_test(lazy_equals_finish),
+		cmocka_unit_test(excluded_equals_deleted),
+		cmocka_unit_test(ties_are_no_outliers),
 	};
 
 	return cmocka_run_group_tests(tests, setup, teardown);
