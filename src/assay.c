@@ -12,6 +12,7 @@
 #include "acidlot/number.h"
 #include "acidlot/table.h"
 #include "acidlot/ta.h"
+#include "acidlot/text.h"
 #include "evaluate.h"
 #include "lanes.h"
 #include "pages.h"
@@ -179,6 +180,10 @@ struct al_assay {
 	size_t n_cochran;
 	char *scratch; /* the current row's text cells, NUL-terminated */
 	size_t scratch_cap;
+	char *ident[5]; /* or those of a row with non-ASCII bytes, in NFC */
+	size_t ident_cap[5];
+	char *lot; /* the current row's titrant lot, in NFC */
+	size_t lot_cap;
 	/* the key key_hint fetched the slot of last, as key_put writes
 	 * it, hint_len bytes (0: none) */
 	char hint_key[64];
@@ -256,6 +261,9 @@ al_assay_free(al_assay *run)
 	al_free((void *)run->acids_used);
 	al_free((void *)run->specs_used);
 	al_free(run->extras);
+	for (int i = 0; i < 5; i++)
+		al_free(run->ident[i]);
+	al_free(run->lot);
 	al_free(run->extremes);
 	al_free(run->scratch);
 	al_free(run->header_text);
@@ -1076,11 +1084,22 @@ text_cells(al_assay *run, const al_csv_row *row, const char *out[5],
 				     C_ACID};
 	size_t need = 0, pos = 0;
 
-	for (int i = 0; i < 5; i++) {
+	for (int i = 0; i < 5; i++)
 		out[i] = al_cell(row, run->col[which[i]], &lens[i]);
+	if (!row->ascii) {
+		/* identifiers compare in NFC, trimmed of Unicode blanks */
+		for (int i = 0; i < 5; i++) {
+			if (al_text_identifier(out[i], lens[i], &run->ident[i],
+					       &run->ident_cap[i],
+					       &lens[i]) != AL_OK)
+				return AL_ENOMEM;
+			out[i] = run->ident[i];
+		}
+		return AL_OK;
+	}
+	for (int i = 0; i < 5; i++)
 		if (out[i][lens[i]] != '\0')
 			need += lens[i] + 1;
-	}
 	if (need == 0)
 		return AL_OK;
 	{
@@ -1156,13 +1175,23 @@ titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
 	size_t ll, dl;
 	const char *name = al_cell(row, run->col[C_TITRANT_LOT], &ll);
 	const char *date_text = al_cell(row, run->col[C_DATE], &dl);
-	char lot[256], on[11], until[11], when[11];
+	char on[11], until[11], when[11], *lot;
 	const al_titrant *t;
 	long date = run->opt.today;
 
+	if (al_text_identifier(name, ll, &run->lot, &run->lot_cap, &ll) !=
+	    AL_OK) {
+		run->row_diags.out_of_memory = 1;
+		return NULL;
+	}
+	lot = run->lot;
 	if (ll == 0)
 		return NULL;
-	snprintf(lot, sizeof lot, "%.*s", (int)ll, name);
+	if (ll > AL_IDENT_MAX) {
+		ROW_ERR(run, line, "titrant_lot", "is longer than %d bytes",
+			AL_IDENT_MAX);
+		return NULL;
+	}
 	if (dl > 0 && al_date_parse(date_text, dl, &date) != 0) {
 		ROW_ERR(run, line, "date", "'%.*s' is not a date YYYY-MM-DD",
 			(int)(dl > 40 ? 40 : dl), date_text);
@@ -1464,6 +1493,16 @@ row_values(al_assay *run, const al_csv_row *row)
 	if (tl[2] == 0)
 		ROW_ERR(run, line, "sample", "is empty: every row needs a "
 					    "sample identifier");
+	{
+		static const char *const names[4] = {"product", "lot", "sample",
+						     "replicate"};
+
+		/* cut, a long identifier could match another's start */
+		for (int i = 0; i < 4; i++)
+			if (tl[i] > AL_IDENT_MAX)
+				ROW_ERR(run, line, names[i],
+					"is longer than %d bytes", AL_IDENT_MAX);
+	}
 	got = al_cell_number(row, run->col[C_TITRANT], "titrant_ml",
 				 run->point, run->file, &run->row_diags, &t.titrant_ml);
 	if (got == 0)

@@ -2,6 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/register.h"
 
+#include <math.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
@@ -10,6 +11,7 @@
 #include "acidlot/number.h"
 #include "acidlot/report.h"
 #include "acidlot/table.h"
+#include "acidlot/text.h"
 
 struct al_register {
 	al_titrant *items;
@@ -110,6 +112,8 @@ struct reader {
 	int col[R_COUNT];
 	int header_done, bad;
 	size_t fields;
+	char *ident; /* the current row's lot, in NFC */
+	size_t ident_cap;
 };
 
 static int
@@ -174,8 +178,15 @@ reg_row(void *ud, const al_csv_row *row)
 	    t.u_mol_l < 0)
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "u_mol_l", "needs an uncertainty of 0 or more");
-	if (al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n) == 1)
-		t.n = n >= 0 ? (size_t)n : 0;
+	if (al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n) ==
+	    1) {
+		if (n >= 1 && n <= 1000000 && n == floor(n))
+			t.n = (size_t)n;
+		else
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     "n", "%g is not a whole number from 1 to "
+					  "1000000", n);
+	}
 	t.has_rsd = al_cell_number(row, r->col[R_RSD], "rsd_pct", '.', r->file,
 				   r->diags, &t.rsd_pct) == 1;
 	date_cell(r, row, R_ON, &t.standardised_on);
@@ -188,9 +199,16 @@ reg_row(void *ud, const al_csv_row *row)
 			     "'%.*s' is neither yes nor no", (int)(len > 20 ? 20 : len),
 			     s);
 	s = al_cell(row, r->col[R_LOT], &len);
+	if (al_text_identifier(s, len, &r->ident, &r->ident_cap, &len) != AL_OK)
+		return AL_ENOMEM;
+	s = r->ident;
 	if (len == 0)
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "titrant_lot", "is empty");
+	else if (len > AL_IDENT_MAX)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "titrant_lot", "is longer than %d bytes",
+			     AL_IDENT_MAX);
 	if (r->diags->out_of_memory)
 		return AL_ENOMEM;
 	if (r->diags->errors != errs) {
@@ -229,6 +247,7 @@ al_register_read(FILE *in, const char *name, al_status *status,
 	if (r.reg == NULL)
 		return NULL;
 	st = al_csv_read_file(NULL, in, name, reg_row, &r, diags);
+	al_free(r.ident);
 	if (st == AL_OK && (r.bad || diags->out_of_memory))
 		st = diags->out_of_memory ? AL_ENOMEM : AL_EINPUT;
 	if (st != AL_OK) {

@@ -2,15 +2,77 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/spec.h"
 
+#include <stdint.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
 #include "acidlot/table.h"
+#include "acidlot/text.h"
 
+/* The specs in file order, found by product through an open-addressing
+ * hash (1 + index, 0 empty; at most half full), so that a table of
+ * 200,000 products is read and searched in linear time. loose holds
+ * each product's al_text_loose form, made on the first loose search. */
 struct al_spec_table {
 	al_spec *specs;
 	size_t count, alloc;
+	uint32_t *slots;
+	size_t n_slots;
+	char **loose;
 };
+
+/* FNV-1a, 64 bits (Fowler, Noll, Vo; public domain) */
+static uint64_t
+product_hash(const char *s, size_t len)
+{
+	uint64_t h = 14695981039346656037u;
+
+	for (size_t i = 0; i < len; i++)
+		h = (h ^ (unsigned char)s[i]) * 1099511628211u;
+	return h;
+}
+
+/* The slot of product s[0..len): its spec's, or the empty one where it
+ * would go. */
+static uint32_t *
+find_slot(const al_spec_table *t, const char *s, size_t len)
+{
+	size_t mask = t->n_slots - 1, i = product_hash(s, len) & mask;
+
+	for (;; i = (i + 1) & mask) {
+		const char *p;
+
+		if (t->slots[i] == 0)
+			return &t->slots[i];
+		p = t->specs[t->slots[i] - 1].product;
+		if (strncmp(p, s, len) == 0 && p[len] == '\0')
+			return &t->slots[i];
+	}
+}
+
+/* Room in the hash for one more spec; AL_ENOMEM when memory runs out. */
+static al_status
+grow_slots(al_spec_table *t)
+{
+	size_t n = t->n_slots ? t->n_slots : 32;
+	uint32_t *old = t->slots;
+
+	if (2 * (t->count + 1) <= t->n_slots)
+		return AL_OK;
+	while (2 * (t->count + 1) > n)
+		n *= 2;
+	t->slots = al_calloc(n, sizeof *t->slots);
+	if (t->slots == NULL) {
+		t->slots = old;
+		return AL_ENOMEM;
+	}
+	t->n_slots = n;
+	for (size_t i = 0; i < t->count; i++)
+		*find_slot(t, t->specs[i].product, strlen(t->specs[i].product)) =
+			(uint32_t)(i + 1);
+	al_free(old);
+	return AL_OK;
+}
 
 enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_SR,
        C_R, C_BRIX_MIN, C_BRIX_MAX, C_RATIO_MIN, C_RATIO_MAX, C_WATER_MIN,
@@ -31,6 +93,8 @@ struct spec_reader {
 	int col[C_COUNT];
 	int bad;
 	char point;
+	char *ident; /* the current row's product, in NFC */
+	size_t ident_cap;
 };
 
 static void
@@ -88,23 +152,26 @@ spec_row(void *ud, const al_csv_row *row)
 	s.line = row->line;
 	s.min_n = 2;
 	text = al_cell(row, r->col[C_PRODUCT], &len);
+	if (al_text_identifier(text, len, &r->ident, &r->ident_cap, &len) !=
+		    AL_OK ||
+	    grow_slots(r->table) != AL_OK)
+		return AL_ENOMEM;
+	text = r->ident;
 	if (len == 0)
 		err(r, row->line, "product", "is empty: a product code is required",
 		    text, len);
+	else if (len > AL_IDENT_MAX)
+		err(r, row->line, "product", "is longer than 255 bytes", text, 40);
 	else if (!al_utf8_valid(text, len))
 		err(r, row->line, "product",
 		    "is not valid UTF-8 text (save the file as UTF-8)", text, len);
-	else {
-		for (size_t i = 0; i < r->table->count; i++)
-			if (strlen(r->table->specs[i].product) == len &&
-			    memcmp(r->table->specs[i].product, text, len) == 0) {
-				al_diags_add(r->diags, AL_SEV_ERROR, r->file,
-					     row->line, "product",
-					     "'%.*s' already specified at line %lu",
-					     (int)len, text,
-					     r->table->specs[i].line);
-				r->bad = 1;
-			}
+	else if (*find_slot(r->table, text, len) != 0) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "product", "'%.*s' already specified at line %lu",
+			     (int)len, text,
+			     r->table->specs[*find_slot(r->table, text, len) - 1]
+				     .line);
+		r->bad = 1;
 	}
 	text = al_cell(row, r->col[C_ACID], &len);
 	if (len > 0) {
@@ -260,10 +327,11 @@ spec_row(void *ud, const al_csv_row *row)
 		r->table->specs = grown;
 		r->table->alloc = n;
 	}
-	text = al_cell(row, r->col[C_PRODUCT], &len);
-	s.product = al_strndup(text, len);
+	s.product = al_strndup(r->ident, strlen(r->ident));
 	if (s.product == NULL)
 		return AL_ENOMEM;
+	*find_slot(r->table, s.product, strlen(s.product)) =
+		(uint32_t)(r->table->count + 1);
 	slot = &r->table->specs[r->table->count++];
 	*slot = s;
 	return AL_OK;
@@ -297,6 +365,7 @@ al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
 		st = AL_EINPUT;
 	if (st == AL_OK && diags->out_of_memory)
 		st = AL_ENOMEM;
+	al_free(r.ident);
 	if (st != AL_OK) {
 		al_spec_table_free(r.table);
 		*status = st;
@@ -311,8 +380,13 @@ al_spec_table_free(al_spec_table *table)
 {
 	if (table == NULL)
 		return;
-	for (size_t i = 0; i < table->count; i++)
+	for (size_t i = 0; i < table->count; i++) {
 		al_free(table->specs[i].product);
+		if (table->loose)
+			al_free(table->loose[i]);
+	}
+	al_free(table->loose);
+	al_free(table->slots);
 	al_free(table->specs);
 	al_free(table);
 }
@@ -332,12 +406,49 @@ al_spec_at(const al_spec_table *table, size_t i)
 const al_spec *
 al_spec_find(const al_spec_table *table, const char *product)
 {
-	if (table == NULL)
+	uint32_t slot;
+
+	if (table == NULL || table->count == 0)
 		return NULL;
-	for (size_t i = 0; i < table->count; i++)
-		if (strcmp(table->specs[i].product, product) == 0)
-			return &table->specs[i];
-	return NULL;
+	slot = *find_slot(table, product, strlen(product));
+	return slot ? &table->specs[slot - 1] : NULL;
+}
+
+const al_spec *
+al_spec_find_loose(al_spec_table *table, const char *product, int *oom)
+{
+	char *key;
+	const al_spec *found = NULL;
+
+	*oom = 0;
+	if (table == NULL || table->count == 0)
+		return NULL;
+	if (table->loose == NULL) {
+		table->loose = al_calloc(table->count, sizeof *table->loose);
+		for (size_t i = 0; table->loose && i < table->count; i++)
+			if ((table->loose[i] =
+				     al_text_loose(table->specs[i].product)) ==
+			    NULL) {
+				for (size_t j = 0; j < i; j++)
+					al_free(table->loose[j]);
+				al_free(table->loose);
+				table->loose = NULL;
+			}
+		if (table->loose == NULL) {
+			*oom = 1;
+			return NULL;
+		}
+	}
+	key = al_text_loose(product);
+	if (key == NULL) {
+		*oom = 1;
+		return NULL;
+	}
+	for (size_t i = 0; i < table->count && !found; i++)
+		if (strcmp(table->loose[i], key) == 0)
+			found = &table->specs[i];
+	al_free(key);
+	return found;
 }
 
 const char *

@@ -19,6 +19,7 @@
 #include "acidlot/number.h"
 #include "acidlot/ta.h"
 #include "acidlot/table.h"
+#include "acidlot/text.h"
 
 void
 al_std_params_default(al_std_params *p)
@@ -109,6 +110,8 @@ struct al_std_run {
 	size_t header_fields;
 	int col[7];
 	char point;
+	char *ident; /* the current row's lot, in NFC */
+	size_t ident_cap;
 };
 
 enum { S_LOT, S_STANDARD, S_MASS, S_PURITY, S_TITRANT, S_BLANK, S_DATE };
@@ -146,6 +149,7 @@ al_std_free(al_std_run *run)
 	for (size_t i = 0; i < run->n_files; i++)
 		al_free(run->files[i]);
 	al_free(run->files);
+	al_free(run->ident);
 	al_free(run->lots);
 	al_free(run->results);
 	al_diags_clear(&run->diags);
@@ -232,8 +236,15 @@ std_row(void *ud, const al_csv_row *row)
 	}
 	memset(&r, 0, sizeof r);
 	lot_name = al_cell(row, run->col[S_LOT], &ll);
+	if (al_text_identifier(lot_name, ll, &run->ident, &run->ident_cap,
+			       &ll) != AL_OK)
+		return AL_ENOMEM;
+	lot_name = run->ident;
 	if (ll == 0)
 		ERR(run, line, "titrant_lot", "is empty");
+	else if (ll > AL_IDENT_MAX)
+		ERR(run, line, "titrant_lot", "is longer than %d bytes",
+		    AL_IDENT_MAX);
 	std_name = al_cell(row, run->col[S_STANDARD], &sl);
 	{
 		char buf[64];

@@ -52,8 +52,14 @@ al_spec_table *al_spec_table_read(const al_catalogue *cat,
 void al_spec_table_free(al_spec_table *table);
 size_t al_spec_count(const al_spec_table *table);
 const al_spec *al_spec_at(const al_spec_table *table, size_t i);
-/* The specification of a product (exact, case-sensitive match), or NULL. */
+/* The specification of a product (exact, case-sensitive match of the
+ * NFC forms: products are read through al_text_identifier), or NULL. */
 const al_spec *al_spec_find(const al_spec_table *table, const char *product);
+/* A specification whose product matches ignoring case, blanks and
+ * punctuation (al_text_loose), for a warning only; NULL when none (or
+ * when memory runs out: *oom set). */
+const al_spec *al_spec_find_loose(al_spec_table *table, const char *product,
+				  int *oom);
 
 typedef enum al_verdict {
 	AL_VERDICT_PASS = 0,

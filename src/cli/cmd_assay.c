@@ -91,8 +91,10 @@ usage(FILE *out)
 	      "                          not run it as a formula\n"
 	      "  -h, --help              this help\n"
 	      "\n"
-	      "Exit status: 0 every result pass or no-spec; 1 at least one\n"
-	      "fail or retest; 2 usage, input or I/O error (no report written).\n",
+	      "Exit status: 0 every result pass (or, without --spec, none\n"
+	      "judged); 1 at least one fail, retest, conditional or, with\n"
+	      "--spec, no-spec or without replicates; 2 usage, input or I/O\n"
+	      "error (no report written).\n",
 	      out);
 }
 
@@ -532,6 +534,47 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 			rejected == 1 ? "" : "s", a->rejects);
 }
 
+/* Results that nothing judged: with --spec, each product without a
+ * specification row is named once, with any row it matches ignoring
+ * case and punctuation (never matched silently); without --spec, the
+ * summary says so. The number of results not judged, or -1 when memory
+ * runs out. */
+static long
+unjudged(const al_assay *run, al_spec_table *specs)
+{
+	long count = 0;
+	const char *last = NULL;
+
+	for (size_t i = 0; i < al_assay_group_count(run); i++) {
+		const al_group_result *r = al_assay_result(run, i);
+		const al_spec *near;
+		int oom;
+
+		if (r->verdict != AL_VERDICT_NO_SPEC && r->stats.n > 0)
+			continue;
+		count++;
+		if (specs == NULL || r->verdict != AL_VERDICT_NO_SPEC ||
+		    (last && strcmp(last, r->product) == 0))
+			continue;
+		last = r->product;
+		near = al_spec_find_loose(specs, r->product, &oom);
+		if (oom)
+			return -1;
+		if (near)
+			cli_error("warning: product '%s' (%s/%s) has no "
+				  "specification row; '%s' (line %lu) differs "
+				  "only in case, blanks or punctuation: not "
+				  "judged",
+				  r->product, r->lot, r->sample, near->product,
+				  near->line);
+		else
+			cli_error("warning: product '%s' (%s/%s) has no "
+				  "specification row: not judged",
+				  r->product, r->lot, r->sample);
+	}
+	return count;
+}
+
 static void
 endpoint_warnings(const al_assay *run)
 {
@@ -899,6 +942,7 @@ cmd_assay(int argc, char **argv)
 	al_diags spec_diags = {0};
 	al_status st;
 	int rc = EXIT_TROUBLE, bad = 0;
+	long open_results;
 	const char *out_name;
 	/* the outputs the record lists, hashed by a thread (file_hashes) */
 	file_hashes hashes;
@@ -1117,6 +1161,12 @@ cmd_assay(int argc, char **argv)
 			hashing = 1;
 		}
 	}
+	/* named before the outputs appear, so that a failure leaves none */
+	open_results = unjudged(run, specs);
+	if (open_results < 0) {
+		cli_error("%s", cli_reason(AL_ENOMEM));
+		goto out;
+	}
 	/* every output checked before any of them appears */
 	if (al_outfile_prepare(report) != AL_OK) {
 		cli_error("%s: %s", out_name, cli_reason(AL_OK));
@@ -1169,15 +1219,19 @@ cmd_assay(int argc, char **argv)
 			goto out;
 	}
 	endpoint_warnings(run);
-	summary(run, &a, rejs.count);
 	{
 		al_assay_counts c = al_assay_get_counts(run);
 
-		/* conditional statements are not a pass (ILAC G8 4.2.2) */
+		summary(run, &a, rejs.count);
+		if (specs == NULL)
+			cli_error("nothing was judged: no --spec was given");
+		/* conditional statements are not a pass (ILAC G8 4.2.2);
+		 * a result no specification judged is not released */
 		rc = c.by_verdict[AL_VERDICT_FAIL] ||
 				     c.by_verdict[AL_VERDICT_RETEST] ||
 				     c.by_verdict[AL_VERDICT_COND_PASS] ||
-				     c.by_verdict[AL_VERDICT_COND_FAIL]
+				     c.by_verdict[AL_VERDICT_COND_FAIL] ||
+				     (specs && open_results > 0)
 			     ? EXIT_NOT_PASS
 			     : EXIT_ALL_PASS;
 	}

@@ -191,8 +191,9 @@ report_two_threads(void **state)
 		int reps = 1 + i % 4;
 
 		if (i >= 1100 && i < 2100) {
-			memset(name, 'x', 1500);
-			snprintf(name + 1500, 100, "%d", i);
+			/* long keys, up to the AL_IDENT_MAX allowed */
+			memset(name, 'x', 245);
+			snprintf(name + 245, 100, "%d", i);
 		} else {
 			snprintf(name, sizeof name, "%sS%d", i % 7 ? "" : "=",
 				 i);
