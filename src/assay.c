@@ -930,7 +930,7 @@ check_header(al_assay *run, const al_csv_row *row)
 			pos += len + 1;
 		}
 	}
-	if (al_header_map(row, cols, C_COUNT, run->opt.aliases,
+	if (al_header_map(AL_UNKNOWN_WARN, row, cols, C_COUNT, run->opt.aliases,
 			  run->opt.n_aliases, run->col, run->file,
 			  &run->diags) != AL_OK)
 		ok = 0;

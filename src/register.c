@@ -143,7 +143,7 @@ reg_row(void *ud, const al_csv_row *row)
 	if (!r->header_done) {
 		r->header_done = 1;
 		r->fields = row->nfields;
-		if (al_header_map(row, reg_cols, R_COUNT, NULL, 0, r->col,
+		if (al_header_map(AL_UNKNOWN_ERROR, row, reg_cols, R_COUNT, NULL, 0, r->col,
 				  r->file, r->diags) != AL_OK)
 			r->bad = 1;
 		for (int k = 0; k < R_COUNT; k++)

@@ -119,7 +119,7 @@ spec_row(void *ud, const al_csv_row *row)
 	if (!r->header_done) {
 		r->header_done = 1;
 		r->header_fields = row->nfields;
-		if (al_header_map(row, spec_cols, C_COUNT, NULL, 0, r->col, r->file,
+		if (al_header_map(AL_UNKNOWN_ERROR, row, spec_cols, C_COUNT, NULL, 0, r->col, r->file,
 				  r->diags) != AL_OK)
 			r->bad = 1;
 		/* the specification's delimiter is told from its header: a

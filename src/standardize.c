@@ -186,7 +186,7 @@ std_header(al_std_run *run, const al_csv_row *row)
 {
 	run->header_done = 1;
 	run->header_fields = row->nfields;
-	run->header_ok = al_header_map(row, std_cols, 7, NULL, 0, run->col,
+	run->header_ok = al_header_map(AL_UNKNOWN_WARN, row, std_cols, 7, NULL, 0, run->col,
 				       run->file, &run->diags) == AL_OK;
 	for (int k = S_LOT; k <= S_TITRANT; k++) {
 		if (k == S_STANDARD || k == S_PURITY || run->col[k] >= 0)

@@ -45,8 +45,125 @@ header_column(const char *h, size_t len, const char *const *names,
 	return -1;
 }
 
+/* Levenshtein distance of two short ASCII-folded strings (at most 63
+ * bytes each are compared), for "did you mean". */
+static size_t
+distance(const char *a, size_t la, const char *b, size_t lb)
+{
+	size_t row[64];
+
+	la = la > 63 ? 63 : la;
+	lb = lb > 63 ? 63 : lb;
+	for (size_t j = 0; j <= lb; j++)
+		row[j] = j;
+	for (size_t i = 1; i <= la; i++) {
+		size_t diag = row[0];
+
+		row[0] = i;
+		for (size_t j = 1; j <= lb; j++) {
+			size_t up = row[j];
+			size_t cost = tolower((unsigned char)a[i - 1]) !=
+				      tolower((unsigned char)b[j - 1]);
+			size_t best = diag + cost;
+
+			if (up + 1 < best)
+				best = up + 1;
+			if (row[j - 1] + 1 < best)
+				best = row[j - 1] + 1;
+			row[j] = best;
+			diag = up;
+		}
+	}
+	return row[lb];
+}
+
+/* Words of bench sheets that name our quantities (English, common
+ * practice); a header's words are read through them. */
+static const char *const synonyms[][2] = {
+	{"naoh", "titrant"},   {"base", "titrant"},   {"titre", "titrant"},
+	{"titer", "titrant"},  {"burette", "titrant"}, {"weight", "mass"},
+	{"m", "mol_l"},        {"mol/l", "mol_l"},    {"n", "mol_l"},
+	{"%", "pct"},          {"ep", "endpoint"},    {"water", "water"},
+};
+
+/* A header's common form: lower case, words joined by '_' through the
+ * synonyms, and a unit in brackets appended the same way, e.g.
+ * "Blank (mL)" -> "blank_ml", "NaOH (mol/L)" -> "titrant_mol_l". */
+static void
+common_form(const char *h, size_t len, char *out, size_t cap)
+{
+	size_t n = 0, i = 0;
+
+	out[0] = '\0';
+	while (i < len && n + 16 < cap) {
+		char word[32];
+		size_t w = 0;
+		const char *put = word;
+
+		while (i < len && !isalnum((unsigned char)h[i]) && h[i] != '%' &&
+		       h[i] != '/')
+			i++;
+		while (i < len && w + 1 < sizeof word &&
+		       (isalnum((unsigned char)h[i]) || h[i] == '%' ||
+			h[i] == '/'))
+			word[w++] = (char)tolower((unsigned char)h[i++]);
+		word[w] = '\0';
+		if (w == 0)
+			break;
+		for (size_t s = 0; s < sizeof synonyms / sizeof synonyms[0];
+		     s++)
+			if (strcmp(word, synonyms[s][0]) == 0)
+				put = synonyms[s][1];
+		n += (size_t)snprintf(out + n, cap - n, "%s%s", n ? "_" : "",
+				      put);
+	}
+}
+
+/* The known column a header names in a common form, or -1: its common
+ * form is the name, or the name without its unit ("Blank" ->
+ * blank_ml), or the name with "titrant_" before it. */
+static int
+known_quantity(const char *h, size_t len, const char *const *names,
+	       size_t n_names)
+{
+	char form[128];
+
+	common_form(h, len, form, sizeof form);
+	if (form[0] == '\0')
+		return -1;
+	for (size_t k = 0; k < n_names; k++) {
+		const char *unit = strrchr(names[k], '_');
+		size_t base = unit ? (size_t)(unit - names[k]) : strlen(names[k]);
+
+		if (strcmp(form, names[k]) == 0 ||
+		    (strlen(form) == base && strncmp(form, names[k], base) == 0))
+			return (int)k;
+	}
+	return -1;
+}
+
+/* The known name closest to an unknown header, within a third of its
+ * length in edits; NULL when none is. */
+static const char *
+closest(const char *h, size_t len, const char *const *names, size_t n_names)
+{
+	const char *best = NULL;
+	size_t best_d = len / 3 + 1;
+
+	for (size_t k = 0; k < n_names; k++) {
+		size_t d = distance(h, len, names[k], strlen(names[k]));
+
+		if (d < best_d) {
+			best_d = d;
+			best = names[k];
+		}
+	}
+	return best;
+}
+
 al_status
-al_header_map(const al_csv_row *header, const char *const *names,
+al_header_map(al_unknown_columns mode, const al_csv_row *header,
+	      const char *const *names,
 	      size_t n_names, const al_column_alias *aliases,
 	      size_t n_aliases, int *index, const char *file, al_diags *diags)
 {
@@ -73,6 +190,21 @@ al_header_map(const al_csv_row *header, const char *const *names,
 				st = AL_EINPUT;
 			} else
 				index[k] = (int)i;
+		} else if ((k = known_quantity(h, len, names, n_names)) >= 0) {
+			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
+				     NULL,
+				     "column '%.*s' looks like %s: map it with "
+				     "--column %s='%.*s'",
+				     (int)len, h, names[k], names[k], (int)len, h);
+			st = AL_EINPUT;
+		} else if (mode == AL_UNKNOWN_ERROR) {
+			const char *near = closest(h, len, names, n_names);
+
+			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
+				     NULL, "unknown column '%.*s'%s%s%s",
+				     (int)len, h, near ? " (did you mean '" : "",
+				     near ? near : "", near ? "'?)" : "");
+			st = AL_EINPUT;
 		} else {
 			int w = snprintf(unknown + ulen, sizeof unknown - ulen,
 					 "%s'%.*s'", n_unknown ? ", " : "",
@@ -268,7 +400,7 @@ alias_row(void *ud, const al_csv_row *row)
 
 	if (!r->header_done) {
 		r->header_done = 1;
-		if (al_header_map(row, names, 2, NULL, 0, r->col, r->file,
+		if (al_header_map(AL_UNKNOWN_WARN, row, names, 2, NULL, 0, r->col, r->file,
 				  r->diags) != AL_OK ||
 		    r->col[0] < 0 || r->col[1] < 0) {
 			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,

@@ -16,12 +16,23 @@ typedef struct al_column_alias {
 	const char *header; /* the file's header text */
 } al_column_alias;
 
+/* What an unknown header is: listed in one warning (a titration file
+ * may carry columns of its own), or an error naming the closest known
+ * column (a specification, where a misspelt limit would silently be no
+ * limit). Either way a header that names a known column in a common form
+ * ("Blank (mL)", "endpoint pH", "NaOH (mol/L)") is an error naming the
+ * --column that maps it: read as unknown, its values would be lost. */
+typedef enum al_unknown_columns {
+	AL_UNKNOWN_WARN = 0,
+	AL_UNKNOWN_ERROR = 1
+} al_unknown_columns;
+
 /* Maps a header row onto known column names (matched ignoring case and
  * surrounding blanks), and onto aliases (n_aliases may be 0). index[k]
  * gets the field number of names[k], or -1. A column given twice is an
- * error; unknown headers are listed in one warning. Returns AL_EINPUT
- * after adding the errors to diags. */
-al_status al_header_map(const al_csv_row *header, const char *const *names,
+ * error; unknown headers as `unknown` says. Returns AL_EINPUT after
+ * adding the errors to diags. */
+al_status al_header_map(al_unknown_columns unknown,const al_csv_row *header, const char *const *names,
 			size_t n_names, const al_column_alias *aliases,
 			size_t n_aliases, int *index, const char *file,
 			al_diags *diags);
