@@ -2314,6 +2314,12 @@ al_assay_result_flags(const al_assay *run, size_t i)
 	return run->finished && i < run->n_groups ? run->groups[i].flags : 0;
 }
 
+al_verdict
+al_assay_result_verdict(const al_assay *run, size_t i)
+{
+	return (al_verdict)run->groups[i].verdict;
+}
+
 const al_acid *
 al_assay_acid_used(const al_assay *run, size_t i)
 {

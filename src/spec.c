@@ -115,6 +115,7 @@ spec_row(void *ud, const al_csv_row *row)
 	const char *text;
 	double v;
 	int got, limit_bad;
+	uint32_t dup;
 
 	if (!r->header_done) {
 		r->header_done = 1;
@@ -165,12 +166,10 @@ spec_row(void *ud, const al_csv_row *row)
 	else if (!al_utf8_valid(text, len))
 		err(r, row->line, "product",
 		    "is not valid UTF-8 text (save the file as UTF-8)", text, len);
-	else if (*find_slot(r->table, text, len) != 0) {
+	else if ((dup = *find_slot(r->table, text, len)) != 0) {
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "product", "'%.*s' already specified at line %lu",
-			     (int)len, text,
-			     r->table->specs[*find_slot(r->table, text, len) - 1]
-				     .line);
+			     (int)len, text, r->table->specs[dup - 1].line);
 		r->bad = 1;
 	}
 	text = al_cell(row, r->col[C_ACID], &len);

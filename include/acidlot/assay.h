@@ -265,6 +265,8 @@ const al_cochran *al_assay_cochran_at(const al_assay *run, size_t i);
 
 /* The flags of the i-th result (as in al_assay_result), without
  * evaluating it; 0 past the end. */
+/* Result i's verdict, without evaluating it again (after finishing). */
+al_verdict al_assay_result_verdict(const al_assay *run, size_t i);
 unsigned al_assay_result_flags(const al_assay *run, size_t i);
 
 /* The acids and the specifications of the results, each once, in the

@@ -534,29 +534,33 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 			rejected == 1 ? "" : "s", a->rejects);
 }
 
-/* Results that nothing judged: with --spec, each product without a
- * specification row is named once, with any row it matches ignoring
+/* Results that nothing judged (no-spec; with --spec a result whose
+ * rows were all rejected is a retest): with --spec, each product without
+ * a specification row is named once, with any row it matches ignoring
  * case and punctuation (never matched silently); without --spec, the
  * summary says so. The number of results not judged, or -1 when memory
- * runs out. */
+ * runs out. Only the no-spec results are evaluated again. */
 static long
 unjudged(const al_assay *run, al_spec_table *specs)
 {
-	long count = 0;
-	const char *last = NULL;
+	long count = (long)al_assay_get_counts(run).by_verdict[AL_VERDICT_NO_SPEC];
+	const char *last = NULL; /* in the run's keys: stays valid */
 
-	for (size_t i = 0; i < al_assay_group_count(run); i++) {
-		const al_group_result *r = al_assay_result(run, i);
+	for (size_t i = 0; specs && count && i < al_assay_group_count(run);
+	     i++) {
+		const al_group_result *r;
 		const al_spec *near;
 		int oom;
 
-		if (r->verdict != AL_VERDICT_NO_SPEC && r->stats.n > 0)
+		if (al_assay_result_verdict(run, i) != AL_VERDICT_NO_SPEC)
 			continue;
-		count++;
-		if (specs == NULL || r->verdict != AL_VERDICT_NO_SPEC ||
-		    (last && strcmp(last, r->product) == 0))
+		r = al_assay_result(run, i);
+		if (last && strcmp(last, r->product) == 0)
 			continue;
 		last = r->product;
+		near = al_spec_find_loose(specs, r->product, &oom);
+		if (oom)
+			return -1;
 		near = al_spec_find_loose(specs, r->product, &oom);
 		if (oom)
 			return -1;
