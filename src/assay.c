@@ -230,6 +230,8 @@ al_assay_new(const al_assay_options *opt, al_status *status)
 			run->opt.qc.k = d.k;
 		if (!run->opt.qc.has_resolution)
 			run->opt.qc.resolution_ml = d.resolution_ml;
+		if (!run->opt.qc.has_water_u)
+			run->opt.qc.water_u_pct = d.water_u_pct;
 	}
 	run->point = opt->csv.decimal_point ? opt->csv.decimal_point : '.';
 	run->row_diags.cap = 16;

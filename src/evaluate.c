@@ -27,6 +27,10 @@ al_qc_options_default(al_qc_options *q)
 	/* a 50 mL burette graduated in 0.1 mL is read to half a division
 	 * (common practice); 0.02 mL for a 25 mL burette in 0.05 mL */
 	q->resolution_ml = 0.05;
+	/* a water determination by Karl Fischer or loss on drying, +/-0.1 %
+	 * w/w as a standard uncertainty (common practice; set the method's
+	 * own with --water-u-pct) */
+	q->water_u_pct = 0.1;
 }
 
 /* Class A tolerances, +/- mL, by nominal volume: bulb pipettes ISO 648
@@ -99,6 +103,10 @@ uncertainty(const al_assay_options *opt, const al_eval_inputs *in,
 		     al_gum_triangular(tolerance(pipettes, 8, in->aliquot_ml)),
 		     -1);
 	}
+	/* anhydrous = as-is / (1 - w/100): u_rel = u(w) / (100 - w) */
+	if (r->anhydrous && in->has_water)
+		term(r, "water content (1 - water/100)", "", 1 - in->water_pct / 100,
+		     q->water_u_pct / 100, -1);
 	if (r->stats.has_sd)
 		term(r, "repeatability of the mean", "", 1.0,
 		     r->stats.sd / sqrt((double)r->stats.n) / r->stats.mean, 1);

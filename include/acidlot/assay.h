@@ -40,6 +40,11 @@ typedef struct al_qc_options {
 				      0.05 unless has_resolution. A
 				      replicate within it of its nearest
 				      neighbour is no outlier */
+	int has_water_u;
+	double water_u_pct;        /* standard uncertainty of the water
+				      determination, % w/w, in an anhydrous
+				      result's budget; 0.1 unless
+				      has_water_u */
 } al_qc_options;
 
 void al_qc_options_default(al_qc_options *q);

@@ -49,7 +49,7 @@ usage(FILE *out)
 	      "      --decision RULE     simple (default: the mean against the\n"
 	      "                          limits) or guarded[:R] (guard band\n"
 	      "                          w = R x U, R default 1; ILAC G8)\n"
-	      "      --exclude-outliers  leave a 1 %% Grubbs outlier out of the\n"
+	      "      --exclude-outliers  leave a 1 % Grubbs outlier out of the\n"
 	      "                          result (flagged, kept in --replicates);\n"
 	      "                          never at n = 3\n"
 	      "      --resolution-ml X   burette reading resolution (default\n"
@@ -67,6 +67,9 @@ usage(FILE *out)
 	      "      --basis B           as-is (default) or anhydrous (needs\n"
 	      "                          water_pct) when the specification names\n"
 	      "                          no basis\n"
+	      "      --water-u-pct U     standard uncertainty of water_pct, %\n"
+	      "                          w/w, in an anhydrous result's u\n"
+	      "                          (default 0.1)\n"
 	      "\n"
 	      "Reading:\n"
 	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
@@ -129,7 +132,7 @@ enum {
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
-	OPT_BASIS, OPT_RESOLUTION
+	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U
 };
 
 static const struct option options[] = {
@@ -160,6 +163,7 @@ static const struct option options[] = {
 	{"titrant-u", required_argument, NULL, OPT_TITRANT_U},
 	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
 	{"resolution-ml", required_argument, NULL, OPT_RESOLUTION},
+	{"water-u-pct", required_argument, NULL, OPT_WATER_U},
 	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
 	{"k", required_argument, NULL, OPT_K},
 	{"basis", required_argument, NULL, OPT_BASIS},
@@ -436,6 +440,17 @@ parse_args(int argc, char **argv, struct args *a)
 				       -1;
 			a->aopt.qc.resolution_ml = v;
 			a->aopt.qc.has_resolution = 1;
+			break;
+		case OPT_WATER_U:
+			if (opt_number("--water-u-pct", &v))
+				return -1;
+			if (!(v >= 0 && v <= 10))
+				return cli_usage_error("assay",
+						       "--water-u-pct takes 0 "
+						       "to 10 %% w/w"),
+				       -1;
+			a->aopt.qc.water_u_pct = v;
+			a->aopt.qc.has_water_u = 1;
 			break;
 		case 'h':
 			usage(stdout);

@@ -487,6 +487,59 @@ ties_are_no_outliers(void **state)
 	al_assay_free(run);
 }
 
+/* Issue 18 A9: an anhydrous-basis result's u includes the water
+ * determination. Rows after the worked example of METHODS.md s.6 (JECFA
+ * 2014 / USP citric acid assay: 0.5500 g, water 0.20 %, 8.575 mL of
+ * 1.000 N NaOH -> 100.03 % anhydrous). The budget is GUM's product
+ * model (GUM 5.1.6), so the water term adds (mean u(w) / (100 - w))^2 to
+ * u^2, whatever the other terms are. */
+static al_assay *
+anhydrous_run(int has_water_u, double water_u, const al_group_result **r)
+{
+	static const char *const text =
+		"sample,mass_g,titrant_ml,titrant_mol_l,water_pct\n"
+		"C,0.5500,8.575,1.000,0.20\nC,0.5512,8.590,1.000,0.20\n"
+		"C,0.5489,8.560,1.000,0.20\n";
+	al_assay_options opt;
+	al_status st;
+	al_assay *run;
+
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	opt.anhydrous = 1;
+	opt.qc.has_water_u = has_water_u;
+	opt.qc.water_u_pct = water_u;
+	run = run_with(text, &opt, 0, 0, &st);
+	assert_int_equal(st, AL_OK);
+	*r = al_assay_result(run, 0);
+	return run;
+}
+
+static void
+water_in_budget(void **state)
+{
+	const al_group_result *none, *some, *dflt;
+	al_assay *a = anhydrous_run(1, 0, &none);
+	al_assay *b = anhydrous_run(1, 0.3, &some);
+	al_assay *c = anhydrous_run(0, 0, &dflt);
+	double w;
+
+	(void)state;
+	/* the first row alone is the worked example: 100.03 % with USP's
+	 * 64.03 mg per mL, scaled to METHODS.md's 192.123 / 3 = 64.041 */
+	assert_true(fabs(al_assay_result(a, 0)->values[0] -
+			 100.03 * (192.123 / 3) / 64.03) < 0.005);
+	assert_true(none->anhydrous);
+	w = some->stats.mean * 0.3 / (100 - 0.20);
+	assert_rel(some->u * some->u - none->u * none->u, w * w, 1e-9);
+	/* the documented default, 0.1 % w/w */
+	w = dflt->stats.mean * 0.1 / (100 - 0.20);
+	assert_rel(dflt->u * dflt->u - none->u * none->u, w * w, 1e-9);
+	al_assay_free(a);
+	al_assay_free(b);
+	al_assay_free(c);
+}
+
 int
 main(void)
 {
@@ -498,6 +551,7 @@ main(void)
 		cmocka_unit_test(lazy_equals_finish),
 		cmocka_unit_test(excluded_equals_deleted),
 		cmocka_unit_test(ties_are_no_outliers),
+		cmocka_unit_test(water_in_budget),
 	};
 
 	return cmocka_run_group_tests(tests, setup, teardown);
