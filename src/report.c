@@ -142,6 +142,11 @@ format_number(double v, int decimals, int decimal_comma, const char *point,
 {
 	char *p;
 
+	/* fixed decimals only below 1e15, where a double's 15-17 digits
+	 * still cover the integer part: beyond, %f would print the binary
+	 * value's digits that no input had (and outgrow the buffer) */
+	if (!(fabs(v) < 1e15))
+		decimals = -1;
 	if (decimals < 0 && cap >= 32 && put_g10(v, decimal_comma, buf) > 0)
 		return;
 	if (decimals >= 0)
