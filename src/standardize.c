@@ -5,8 +5,9 @@
  * example A2: c = 1000 m P / (M V) with the balance (linearity, counted
  * for the tare and the gross weighing), the purity of the standard, its
  * molar mass (from the atomic weights), the burette (calibration
- * tolerance, triangular) and the temperature (volume expansion of water,
- * rectangular), and the repeatability of the replicates. */
+ * tolerance, triangular) and the temperature (volume expansion of water
+ * over a +/- range taken as a 95 % interval, normal, as QUAM A2 does),
+ * and the repeatability: the replicates' own, or the method's. */
 #include "acidlot/standardize.h"
 
 #include <gsl/gsl_statistics_double.h>
@@ -26,8 +27,8 @@ al_std_params_default(al_std_params *p)
 {
 	/* QUAM 2012 A2 (seen through its published re-computation):
 	 * balance linearity +/-0.15 mg, burette +/-0.03 mL triangular,
-	 * 2.1e-4 /K volume expansion of water. The +/-3 K lab temperature
-	 * range is common practice (QUAM A3 uses +/-4 K); set your own. */
+	 * 2.1e-4 /K volume expansion of water, +/-3 K lab temperature as a
+	 * 95 % interval (u = V 2.1e-4 3 / 1.96 = 0.006 mL at 18.64 mL). */
 	p->balance_linearity_g = 0.00015;
 	p->burette_tol_ml = 0.03;
 	p->temp_range_c = 3;
@@ -433,13 +434,19 @@ al_std_finish(al_std_run *run)
 		in.u_molar_mass = lot->standard->molar_mass_u;
 		in.volume_ml = v;
 		u_vcal = al_gum_triangular(run->p.burette_tol_ml);
-		u_vtemp = al_gum_rectangular(v * run->p.expansion_per_k *
-					     run->p.temp_range_c);
+		/* QUAM A2: the +/- range is a 95 % interval of a normal */
+		u_vtemp = v * run->p.expansion_per_k * run->p.temp_range_c /
+			  1.96;
 		in.u_volume_ml = u_vcal;
 		in.u_volume_temp_ml = u_vtemp;
-		in.rep_rel = res->has_sd ? res->sd / sqrt((double)lot->n) /
-						   res->mean
-					 : 0;
+		if (run->p.repeatability_rsd_pct > 0)
+			in.rep_rel = run->p.repeatability_rsd_pct / 100 /
+				     sqrt((double)lot->n);
+		else
+			in.rep_rel = res->has_sd ? res->sd /
+							   sqrt((double)lot->n) /
+							   res->mean
+						 : 0;
 		al_std_uncertainty(&in, &res->budget);
 		/* the budget's c is that of the mean inputs; report the mean
 		 * of the replicates, with the budget's relative uncertainty */

@@ -18,11 +18,18 @@ typedef struct al_std_params {
 	double burette_tol_ml;      /* +/- calibration tolerance of the
 				       burette, triangular; 0.03 mL */
 	double temp_range_c;        /* +/- lab temperature about the burette's
-				       calibration temperature, rectangular; 3 */
+				       calibration temperature, a 95 %
+				       interval (normal, / 1.96, as QUAM A2);
+				       3 */
 	double expansion_per_k;     /* volume expansion of water, 2.1e-4 /K */
 	double k;                   /* coverage factor, 2 */
 	double max_rsd_pct;         /* replicate acceptance, 0.2 % */
 	size_t min_n;               /* replicate acceptance, 3 */
+	double repeatability_rsd_pct; /* the method's repeatability, RSD %
+				       of one titration: the repeatability
+				       term is it / sqrt(n) instead of the
+				       lot's s / sqrt(n) (QUAM A2); 0: the
+				       lot's own */
 	long valid_days;            /* register validity, 30 days */
 } al_std_params;
 

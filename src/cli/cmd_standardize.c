@@ -26,14 +26,25 @@ usage(FILE *out)
 	      "                           REGISTER.record.json)\n"
 	      "      --analyst NAME       who ran it, for the record\n"
 	      "      --max-rsd PCT        largest RSD accepted (default 0.2)\n"
-	      "      --min-n N            fewest replicates accepted (default 3)\n"
+	      "      --min-n N            fewest replicates accepted (default 3;\n"
+	      "                           1 only with --repeatability-rsd)\n"
+	      "      --repeatability-rsd PCT  the method's repeatability, RSD %\n"
+	      "                           of one titration: the repeatability\n"
+	      "                           term is PCT / sqrt(n) (QUAM A2) instead\n"
+	      "                           of the lot's own s / sqrt(n)\n"
 	      "      --valid-days D       days a standardisation stays valid\n"
 	      "                           (default 30)\n"
 	      "      --balance-linearity-g X  balance linearity, +/- g per\n"
 	      "                           weighing (default 0.00015)\n"
 	      "      --burette-tol-ml X   burette tolerance, +/- mL (default 0.03)\n"
 	      "      --temp-range-c X     lab temperature range, +/- K about the\n"
-	      "                           burette's calibration (default 3)\n"
+	      "                           burette's calibration, a 95 % interval\n"
+	      "                           (default 3)\n"
+	      "Uncertainty terms and their distributions: balance linearity,\n"
+	      "rectangular, tare and gross; purity, rectangular (catalogue);\n"
+	      "molar mass, rectangular per atomic weight; burette tolerance,\n"
+	      "triangular; temperature, V x 2.1e-4 /K x range / 1.96, normal;\n"
+	      "repeatability, s / sqrt(n) or PCT / sqrt(n), normal.\n"
 	      "      --k K                coverage factor (default 2)\n"
 	      "      --delimiter D, --decimal-comma   as for assay\n"
 	      "  -h, --help               this help\n"
@@ -47,7 +58,7 @@ usage(FILE *out)
 enum {
 	OPT_BUDGET = 256, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
-	OPT_DELIMITER, OPT_DECIMAL_COMMA
+	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY
 };
 
 static const struct option options[] = {
@@ -57,6 +68,7 @@ static const struct option options[] = {
 	{"analyst", required_argument, NULL, OPT_ANALYST},
 	{"max-rsd", required_argument, NULL, OPT_MAX_RSD},
 	{"min-n", required_argument, NULL, OPT_MIN_N},
+	{"repeatability-rsd", required_argument, NULL, OPT_REPEATABILITY},
 	{"valid-days", required_argument, NULL, OPT_VALID_DAYS},
 	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
 	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
@@ -124,6 +136,16 @@ parse_args(int argc, char **argv, struct args *a)
 				       -1;
 			a->p.min_n = (size_t)v;
 			break;
+		case OPT_REPEATABILITY:
+			if (positive("--repeatability-rsd", &v, 0))
+				return -1;
+			if (v > 10)
+				return cli_usage_error("standardize",
+						       "--repeatability-rsd takes "
+						       "a percentage up to 10"),
+				       -1;
+			a->p.repeatability_rsd_pct = v;
+			break;
 		case OPT_VALID_DAYS:
 			if (positive("--valid-days", &v, 0))
 				return -1;
@@ -180,6 +202,12 @@ parse_args(int argc, char **argv, struct args *a)
 	if (optind >= argc)
 		return cli_usage_error("standardize",
 				       "no standardisation file given"),
+		       -1;
+	/* one titration has no spread of its own to go by */
+	if (a->p.min_n < 2 && a->p.repeatability_rsd_pct == 0)
+		return cli_usage_error("standardize",
+				       "--min-n 1 needs --repeatability-rsd (one "
+				       "titration has no spread of its own)"),
 		       -1;
 	return cli_check_decimal_comma("standardize", &a->csv) ? -1 : 0;
 }
@@ -435,14 +463,17 @@ cmd_standardize(int argc, char **argv)
 				 "%s.record.json", a.reg);
 			path = record_path;
 		}
-		params = json_pack("{s:f, s:f, s:f, s:f, s:f, s:f, s:I, s:I}",
+		params = json_pack("{s:f, s:f, s:f, s:f, s:f, s:f, s:I, s:I, "
+				   "s:f}",
 				   "balance_linearity_g", a.p.balance_linearity_g,
 				   "burette_tol_ml", a.p.burette_tol_ml,
 				   "temp_range_c", a.p.temp_range_c,
 				   "expansion_per_k", a.p.expansion_per_k, "k",
 				   a.p.k, "max_rsd_pct", a.p.max_rsd_pct, "min_n",
 				   (json_int_t)a.p.min_n, "valid_days",
-				   (json_int_t)a.p.valid_days);
+				   (json_int_t)a.p.valid_days,
+				   "repeatability_rsd_pct",
+				   a.p.repeatability_rsd_pct);
 		for (size_t i = 0; lots && i < al_std_lot_count(run); i++) {
 			const al_std_lot *l = al_std_lot_at(run, i);
 
