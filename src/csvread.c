@@ -44,7 +44,19 @@ struct reader {
 	int last_term;          /* terminator of the previous record */
 	al_status stop;         /* first failure; callbacks do nothing after */
 	char record_error[160]; /* recover mode: the record is malformed */
+
+	/* the quoting of the record being read through libcsv, followed
+	 * beside it (quote_scan), so that a malformed record is skipped
+	 * whole and an unclosed quote's line is known */
+	int quote;                /* Q_* */
+	int quote_cr;             /* the last byte scanned was a CR */
+	unsigned long quote_lines; /* line ends inside the record so far */
+	unsigned long quote_open; /* line of the last quote opened */
+	int skipping;             /* recover mode: past a malformed record's
+				     error, up to its end */
 };
+
+enum { Q_FIELD, Q_PLAIN, Q_QUOTED, Q_QUOTE_SEEN };
 
 /* libcsv's allocator hook has no context, so the cap on its field buffer
  * is per thread, set for the duration of one al_csv_read. */
@@ -184,7 +196,12 @@ on_field(void *data, size_t len, void *ud)
 	struct reader *r = ud;
 	int prev_cr = 0;
 
-	if (r->stop != AL_OK || r->record_error[0])
+	if (r->stop != AL_OK)
+		return;
+	/* counted for a malformed record too: the next one's line */
+	if (len > 0)
+		r->extra += count_line_ends(data, len, &prev_cr);
+	if (r->record_error[0])
 		return;
 	if (len > r->max_field) {
 		char msg[96];
@@ -222,8 +239,6 @@ on_field(void *data, size_t len, void *ud)
 	r->lens[r->nfields] = len;
 	r->nfields++;
 	r->buf_len += len + 1;
-	if (len > 0)
-		r->extra += count_line_ends(data, len, &prev_cr);
 }
 
 /* Hands a malformed record to the callback (recover mode) and forgets
@@ -599,6 +614,63 @@ scan_line(const char *s, size_t avail, char d, size_t *len,
 	return 0;
 }
 
+/* Follows RFC 4180 quoting over s[0..n) from r->quote: a quote opens a
+ * quoted field only at a field's start (after blanks), "" inside one is
+ * a quote, and the record ends at the first line end outside quotes.
+ * Returns the offset just past that line end, or 0 when the record goes
+ * on. Where the bytes are malformed it reads on as libcsv would have
+ * had to: a quote inside a plain field is text. */
+static size_t
+quote_scan(struct reader *r, const char *s, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		unsigned char c = (unsigned char)s[i];
+		int cr = r->quote_cr;
+
+		r->quote_cr = c == '\r';
+		if (r->quote == Q_QUOTED) {
+			if (c == '"')
+				r->quote = Q_QUOTE_SEEN;
+			else if (c == '\r' || (c == '\n' && !cr))
+				r->quote_lines++;
+			continue;
+		}
+		if (r->quote == Q_QUOTE_SEEN && c == '"') {
+			r->quote = Q_QUOTED;
+			continue;
+		}
+		if (c == '\r' || c == '\n') {
+			r->quote = Q_FIELD;
+			r->quote_lines = 0;
+			return i + 1;
+		}
+		if (c == (unsigned char)r->delimiter)
+			r->quote = Q_FIELD;
+		else if (c == '"' && r->quote == Q_FIELD) {
+			r->quote = Q_QUOTED;
+			r->quote_open = r->cur_line + r->quote_lines;
+		} else if (!((r->quote == Q_FIELD || r->quote == Q_QUOTE_SEEN) &&
+			     is_blank_char(c)))
+			r->quote = Q_PLAIN;
+	}
+	return 0;
+}
+
+/* Recover mode, past a malformed record's error: s[0..n), the rest of
+ * a segment, is followed to the record's end; there the record goes to
+ * the callback and a fresh parser starts at next_line. term is the
+ * segment's last byte, so that the LF of a CRLF is no blank line. */
+static void
+skip_bad(struct reader *r, struct csv_parser *p, const char *s, size_t n,
+	 unsigned long next_line, char term)
+{
+	if (quote_scan(r, s, n) == 0)
+		return;
+	r->skipping = 0;
+	restart(r, p, r->record_error, next_line);
+	r->last_term = term;
+}
+
 /* Counts the line end of the segment data[pos..q), which ends in at most
  * one (a CR, or an LF not right after a CR); returns q. */
 static size_t
@@ -661,6 +733,14 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 		keep_raw(r, data + pos, q - pos);
 		if (r->stop != AL_OK)
 			break;
+		if (r->skipping) {
+			size_t from = pos;
+
+			pos = line_end(data, pos, q, phys_line, prev_cr);
+			skip_bad(r, p, data + from, q - from, *phys_line,
+				 data[q - 1]);
+			continue;
+		}
 		if (r->record_error[0] && r->raw_len >= AL_CSV_MAX_RECORD - CHUNK)
 			done = 0; /* a runaway record: give up on it here */
 		else
@@ -670,8 +750,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 			break;
 		if (done != q - pos && r->opt->recover) {
 			char msg[160];
-			unsigned long next = *phys_line +
-				(data[q - 1] == '\n' || data[q - 1] == '\r');
+			size_t from = pos + done;
 
 			if (r->record_error[0])
 				snprintf(msg, sizeof msg, "%s", r->record_error);
@@ -688,7 +767,16 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 				fail(r, AL_ENOMEM, 0, NULL);
 				break;
 			}
-			restart(r, p, msg, next);
+			/* the record is rejected whole: its quoting up to the
+			 * error, then on to its end */
+			quote_scan(r, data + pos, done);
+			snprintf(r->record_error, sizeof r->record_error, "%s",
+				 msg);
+			r->skipping = 1;
+			pos = line_end(data, pos, q, phys_line, prev_cr);
+			skip_bad(r, p, data + from, q - from, *phys_line,
+				 data[q - 1]);
+			continue;
 		} else if (done != q - pos) {
 			if (hook_refused) {
 				char msg[128];
@@ -713,6 +801,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 				fail(r, AL_ENOMEM, 0, NULL);
 			break;
 		}
+		quote_scan(r, data + pos, q - pos);
 		pos = line_end(data, pos, q, phys_line, prev_cr);
 	}
 	return r->stop == AL_OK;
@@ -836,22 +925,23 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 		if (!feed(&r, &p, chunk + skip, n - skip, &phys_line, &prev_cr))
 			break;
 	}
-	if (r.stop == AL_OK) {
-		unsigned long field_line = r.cur_line + r.extra;
-
+	/* a quote still open at the end is an error in either mode: the
+	 * rows after it would be lost in its field */
+	if (r.stop == AL_OK && r.quote == Q_QUOTED)
+		fail(&r, AL_ESYNTAX, r.quote_open,
+		     "unterminated quoted field (the quote opened here is never "
+		     "closed)");
+	if (r.stop == AL_OK && r.skipping)
+		deliver_bad(&r, r.record_error);
+	else if (r.stop == AL_OK) {
 		if (csv_fini(&p, on_field, on_record, &r) != 0 &&
-		    r.stop == AL_OK) {
-			if (csv_error(&p) == CSV_EPARSE && opt->recover) {
-				deliver_bad(&r, "unterminated quoted field "
-						"(the quote opened here is "
-						"never closed)");
-			} else if (csv_error(&p) == CSV_EPARSE)
-				fail(&r, AL_ESYNTAX, field_line,
-				     "unterminated quoted field (the quote "
-				     "opened here is never closed)");
-			else
-				fail(&r, AL_ENOMEM, 0, NULL);
-		} else if (r.stop == AL_OK && r.record_error[0])
+		    r.stop == AL_OK)
+			fail(&r, csv_error(&p) == CSV_EPARSE ? AL_ESYNTAX
+							     : AL_ENOMEM,
+			     r.quote_open,
+			     "unterminated quoted field (the quote opened here "
+			     "is never closed)");
+		else if (r.stop == AL_OK && r.record_error[0])
 			deliver_bad(&r, r.record_error);
 	}
 	st = r.stop;

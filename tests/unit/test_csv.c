@@ -516,6 +516,134 @@ piped_matches_reader(void **state)
 			"a1.,,;;\t  \n\n\r\"x-e");
 }
 
+/* Issue 18 B12: with --rejects a malformed record is rejected whole and
+ * reading goes on at the next physical line: a line over the reader's
+ * 64 KiB chunk is one reject, not pieces read as rows; a too-long quoted
+ * field spanning lines is one reject and the rows after it keep their
+ * physical lines (RFC 4180 s.2 rule 6: a quoted field may hold line
+ * breaks); a quote still open at the end is an error naming its line,
+ * never a field that swallows the rows after it. */
+struct verdicts {
+	size_t n;
+	unsigned long line[64];
+	int bad[64];
+};
+
+static al_status
+note_row(void *ud, const al_csv_row *row)
+{
+	struct verdicts *v = ud;
+
+	if (v->n < 64) {
+		v->line[v->n] = row->line;
+		v->bad[v->n] = row->syntax_error != NULL;
+	}
+	v->n++;
+	return AL_OK;
+}
+
+static al_status
+recover_read(const char *text, size_t len, struct verdicts *v, al_diags *d)
+{
+	al_csv_options opt = {0};
+
+	opt.recover = 1;
+	memset(v, 0, sizeof *v);
+	return al_csv_read_mem(&opt, text, len, "t.csv", note_row, v, d);
+}
+
+static void
+rejects_keep_place(void **state)
+{
+	/* what the reader builds a file of: {text, repeat} pieces */
+	static const struct {
+		const char *pieces[4];
+		size_t repeat[4];
+		size_t n;
+		unsigned long line[6];
+		int bad[6];
+	} cases[] = {
+		/* a 70 kB field, then one of rows' text, LF and CRLF */
+		{{"h,k\nP,1\nP,", "x", "\nP,4\n"}, {1, 70000, 1},
+		 3, {1, 2, 3, 4}, {0, 0, 1, 0}},
+		{{"h,k\r\nP,1\r\nP,", "P,9,", "\r\nP,4\r\n"}, {1, 20000, 1},
+		 3, {1, 2, 3, 4}, {0, 0, 1, 0}},
+		/* 20,000 fields on one line */
+		{{"h,k\nP,1\n", "1,", "2\nP,4\n"}, {1, 20000, 1},
+		 3, {1, 2, 3, 4}, {0, 0, 1, 0}},
+		/* a too-long quoted field over lines 3-5 */
+		{{"h,k\nP,1\nP,\"", "y", "\n\n\",x\nP,6\n"}, {1, 5000, 1},
+		 3, {1, 2, 3, 6}, {0, 0, 1, 0}},
+		{{"h,k\nP,1\nP,\"", "y", "\r\n\r\n\",x\r\nP,6\r\n"},
+		 {1, 70000, 1}, 3, {1, 2, 3, 6}, {0, 0, 1, 0}},
+		/* text after a closing quote, the record over lines 2-4 */
+		{{"h,k\nP,\"a\n\nb\"c\nP,5\n\nP,7\n"}, {1}, 1,
+		 {1, 2, 5, 7}, {0, 1, 0, 0}},
+	};
+	(void)state;
+	for (size_t c = 0; c < sizeof cases / sizeof cases[0]; c++) {
+		size_t len = 0, at = 0;
+		char *text;
+		struct verdicts v;
+		al_diags d = {0};
+
+		for (size_t i = 0; i < cases[c].n; i++) {
+			len += cases[c].repeat[i] * strlen(cases[c].pieces[i]);
+		}
+		text = malloc(len + 1);
+		assert_non_null(text);
+		for (size_t i = 0; i < cases[c].n; i++) {
+			size_t k = strlen(cases[c].pieces[i]);
+
+			for (size_t j = 0; j < cases[c].repeat[i]; j++, at += k)
+				memcpy(text + at, cases[c].pieces[i], k);
+		}
+		assert_int_equal(recover_read(text, len, &v, &d), AL_OK);
+		assert_int_equal(v.n, 4);
+		for (size_t i = 0; i < 4; i++) {
+			assert_int_equal(v.line[i], cases[c].line[i]);
+			assert_int_equal(v.bad[i], cases[c].bad[i]);
+		}
+		al_diags_clear(&d);
+		free(text);
+	}
+}
+
+/* An unclosed quote: an error at the quote's line in either mode, short
+ * (libcsv's end) or long (the field outgrows its cap first). */
+static void
+unclosed_quote(void **state)
+{
+	static const char head[] = "h,k\nP,1\nP,\"open\n";
+	size_t rows = 3000, len = strlen(head) + rows * 4;
+	char *text = malloc(len + 1);
+	struct verdicts v;
+
+	(void)state;
+	assert_non_null(text);
+	memcpy(text, head, strlen(head));
+	for (size_t i = 0; i < rows; i++)
+		memcpy(text + strlen(head) + 4 * i, "P,2\n", 4);
+	for (int recover = 0; recover < 2; recover++) {
+		for (size_t n = strlen(head) + 8; n <= len; n = len) {
+			al_diags d = {0};
+			al_csv_options opt = {0};
+
+			opt.recover = recover;
+			memset(&v, 0, sizeof v);
+			assert_int_equal(al_csv_read_mem(&opt, text, n, "t.csv",
+							 note_row, &v, &d),
+					 AL_ESYNTAX);
+			assert_int_equal(d.count, 1);
+			assert_int_equal(d.items[0].line, 3);
+			al_diags_clear(&d);
+			if (n == len)
+				break;
+		}
+	}
+	free(text);
+}
+
 int
 main(void)
 {
@@ -526,6 +654,8 @@ main(void)
 		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
 		cmocka_unit_test(chunk_boundary),
 		cmocka_unit_test(fast_path_matches_libcsv),
+		cmocka_unit_test(rejects_keep_place),
+		cmocka_unit_test(unclosed_quote),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
