@@ -14,6 +14,8 @@
 #include "acidlot/ta.h"
 #include "acidlot/text.h"
 #include "evaluate.h"
+#include "hash.h"
+#include "labels.h"
 #include "lanes.h"
 #include "pages.h"
 
@@ -62,6 +64,7 @@ struct group {
 	uint8_t unit;
 	uint8_t bits;        /* G_ */
 	uint8_t verdict;     /* the evaluation's (G_JUDGED) */
+	al_label_slots labels; /* its first replicate labels */
 	/* sums of the inputs, for the uncertainty budget at their means */
 	double sum_titrant, sum_conc, sum_amount;
 	union {
@@ -148,6 +151,7 @@ struct al_assay {
 	size_t *file_groups; /* groups before each file's first one */
 	struct group_extra *extras;
 	size_t n_extras, cap_extras;
+	al_labels *labels; /* replicate labels beyond the groups' slots */
 	struct group_extremes *extremes; /* with exclude_outliers */
 	size_t n_extremes, cap_extremes;
 	const al_acid *acids[255]; /* the acids of groups, by group->acid */
@@ -267,6 +271,7 @@ al_assay_free(al_assay *run)
 		al_free(run->ident[i]);
 	al_free(run->lot);
 	al_free(run->extremes);
+	al_labels_free(run->labels);
 	al_free(run->scratch);
 	al_free(run->header_text);
 	al_free(run->lots_used);
@@ -341,44 +346,20 @@ al_assay_reader_free(al_assay_reader *rd)
 	al_free(rd);
 }
 
-/* FNV-1a, 64 bit */
-static uint64_t
-hash_bytes(uint64_t h, const char *s, size_t len)
-{
-	for (size_t i = 0; i < len; i++) {
-		h ^= (unsigned char)s[i];
-		h *= 1099511628211ULL;
-	}
-	return h;
-}
-
-/* FNV's low bits follow the last bytes closely; serial sample numbers
- * would cluster in linear probing: mix them in (the splitmix64
- * finaliser, Steele, Lea and Flood 2014). */
-static uint64_t
-finalise(uint64_t h)
-{
-	h ^= h >> 30;
-	h *= 0xBF58476D1CE4E5B9ULL;
-	h ^= h >> 27;
-	h *= 0x94D049BB133111EBULL;
-	return h ^ (h >> 31);
-}
-
 /* The hash of product \0 lot \0 sample, as the arena stores the key. */
 static uint64_t
 key_hash(const char *p, size_t pl, const char *l, size_t ll, const char *s,
 	 size_t sl)
 {
-	uint64_t h = 14695981039346656037ULL;
+	uint64_t h = AL_FNV_OFFSET;
 
 	if (l == p + pl + 1 && s == l + ll + 1) /* as key_is */
-		return finalise(hash_bytes(h, p, pl + ll + sl + 2));
-	h = hash_bytes(h, p, pl);
-	h = hash_bytes(h, "", 1);
-	h = hash_bytes(h, l, ll);
-	h = hash_bytes(h, "", 1);
-	return finalise(hash_bytes(h, s, sl));
+		return al_mix64(al_fnv1a(h, p, pl + ll + sl + 2));
+	h = al_fnv1a(h, p, pl);
+	h = al_fnv1a(h, "", 1);
+	h = al_fnv1a(h, l, ll);
+	h = al_fnv1a(h, "", 1);
+	return al_mix64(al_fnv1a(h, s, sl));
 }
 
 /* A key as the arena keeps it: product \0 lot \0 sample \0, written
@@ -849,14 +830,27 @@ group_acid(const al_assay *run, const struct group *g)
 
 /* The file a group was first seen in: groups are numbered in order of
  * creation, file by file. */
-static const char *
-group_file(const al_assay *run, const struct group *g)
+static size_t
+group_file_index(const al_assay *run, const struct group *g)
 {
 	size_t i = (size_t)(g - run->groups), f = run->n_files - 1;
 
 	while (f > 0 && run->file_groups[f] > i)
 		f--;
-	return run->files[f];
+	return f;
+}
+
+static const char *
+group_file(const al_assay *run, const struct group *g)
+{
+	return run->files[group_file_index(run, g)];
+}
+
+/* Where a group began, for its labels. */
+static al_label_at
+group_start(const al_assay *run, const struct group *g)
+{
+	return (al_label_at){(uint32_t)group_file_index(run, g), g->first_line};
 }
 
 /* The specification of a product (len bytes, NUL-terminated),
@@ -1245,6 +1239,31 @@ init_group(struct group *g, unsigned long line)
 	/* the acid is set by the first valid row; the spec is the
 	 * product's, looked up again when the result is evaluated */
 	g->first_line = line > UINT32_MAX ? UINT32_MAX : (uint32_t)line;
+}
+
+/* A replicate label that the row's result has already: the same data
+ * twice (a file given twice, rows pasted twice), an error naming both
+ * rows. 1 when so (or when memory ran out: row_diags says). Checked
+ * while the result keeps its values (AL_VALUES_KEPT): past them it keeps
+ * running statistics only, and no memory grows with its rows. */
+static int
+twice(al_assay *run, const struct group *g, unsigned long line,
+      const char *label, size_t len)
+{
+	al_label_at at;
+
+	if (run->labels == NULL && (run->labels = al_labels_new()) == NULL) {
+		run->row_diags.out_of_memory = 1;
+		return 1;
+	}
+	if (!al_labels_find(run->labels, &g->labels, (size_t)(g - run->groups),
+			    group_start(run, g), label, len, &at))
+		return 0;
+	ROW_ERR(run, line, "replicate",
+		"'%s' is given twice for one result: also at %s:%lu (the same "
+		"data twice?)",
+		label, run->files[at.file], at.line);
+	return 1;
 }
 
 /* Possible but unusual values: a warning naming the row, and a flag. */
@@ -1653,6 +1672,9 @@ row_values(al_assay *run, const al_csv_row *row)
 			group_file(run, g), (unsigned long)g->first_line);
 		return AL_OK;
 	}
+	if (tl[3] > 0 && g->n < AL_VALUES_KEPT &&
+	    twice(run, g, line, replicate, tl[3]))
+		return run->row_diags.out_of_memory ? AL_ENOMEM : AL_OK;
 	unit = (al_unit)g->unit;
 	if (al_unit_basis(unit) != t.basis && got_density != 1 &&
 	    got_brix == 1) {
@@ -1777,6 +1799,12 @@ row_values(al_assay *run, const al_csv_row *row)
 		};
 
 		st = note_extremes(run, g, &er);
+		if (st == AL_OK && tl[3] > 0 && g->n < AL_VALUES_KEPT)
+			st = al_labels_add(
+				run->labels, &g->labels,
+				(size_t)(g - run->groups), group_start(run, g),
+				replicate, tl[3],
+				(al_label_at){(uint32_t)(run->n_files - 1), line});
 		if (st == AL_OK)
 			st = push_value(g, value);
 		if (st != AL_OK)

@@ -12,6 +12,7 @@
 #include "acidlot/alloc.h"
 #include "acidlot/juice.h"
 #include "acidlot/screens.h"
+#include "hash.h"
 
 void
 al_qc_options_default(al_qc_options *q)
@@ -517,12 +518,8 @@ al_cochran_acc_free(al_cochran_acc *acc)
 static uint64_t
 cell_hash(const char *product, size_t n)
 {
-	uint64_t h = 14695981039346656037ULL;
+	uint64_t h = al_fnv1a(AL_FNV_OFFSET, product, strlen(product));
 
-	for (; *product; product++) {
-		h ^= (unsigned char)*product;
-		h *= 1099511628211ULL;
-	}
 	return (h ^ n) * 1099511628211ULL;
 }
 

@@ -8,6 +8,7 @@
 #include "acidlot/alloc.h"
 #include "acidlot/table.h"
 #include "acidlot/text.h"
+#include "hash.h"
 
 /* The specs in file order, found by product through an open-addressing
  * hash (1 + index, 0 empty; at most half full), so that a table of
@@ -21,23 +22,12 @@ struct al_spec_table {
 	char **loose;
 };
 
-/* FNV-1a, 64 bits (Fowler, Noll, Vo; public domain) */
-static uint64_t
-product_hash(const char *s, size_t len)
-{
-	uint64_t h = 14695981039346656037u;
-
-	for (size_t i = 0; i < len; i++)
-		h = (h ^ (unsigned char)s[i]) * 1099511628211u;
-	return h;
-}
-
 /* The slot of product s[0..len): its spec's, or the empty one where it
  * would go. */
 static uint32_t *
 find_slot(const al_spec_table *t, const char *s, size_t len)
 {
-	size_t mask = t->n_slots - 1, i = product_hash(s, len) & mask;
+	size_t mask = t->n_slots - 1, i = al_fnv1a(AL_FNV_OFFSET, s, len) & mask;
 
 	for (;; i = (i + 1) & mask) {
 		const char *p;

@@ -54,6 +54,10 @@ int cli_check_decimal_comma(const char *cmd, const al_csv_options *csv);
 int cli_delimiter(const char *text, char *out);
 /* 1 when both paths name the same existing file. */
 int cli_same_file(const char *a, const char *b);
+/* A usage error when two of the n input files are one (by device and
+ * inode, however spelt, or '-' twice): its rows would count twice.
+ * Returns 0 when they are distinct. */
+int cli_distinct_inputs(const char *cmd, char *const *files, int n);
 /* Names the known acids on stderr after an unknown name. */
 void cli_list_acids(const al_catalogue *cat);
 

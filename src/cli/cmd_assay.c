@@ -467,6 +467,8 @@ parse_args(int argc, char **argv, struct args *a)
 	}
 	if (optind >= argc)
 		return cli_usage_error("assay", "no titration file given"), -1;
+	if (cli_distinct_inputs("assay", argv + optind, argc - optind))
+		return -1;
 	return cli_check_decimal_comma("assay", &a->aopt.csv) ? -1 : 0;
 }
 

@@ -209,6 +209,8 @@ parse_args(int argc, char **argv, struct args *a)
 				       "--min-n 1 needs --repeatability-rsd (one "
 				       "titration has no spread of its own)"),
 		       -1;
+	if (cli_distinct_inputs("standardize", argv + optind, argc - optind))
+		return -1;
 	return cli_check_decimal_comma("standardize", &a->csv) ? -1 : 0;
 }
 

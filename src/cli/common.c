@@ -144,6 +144,24 @@ cli_same_file(const char *a, const char *b)
 	       sa.st_dev == sb.st_dev && sa.st_ino == sb.st_ino;
 }
 
+int
+cli_distinct_inputs(const char *cmd, char *const *files, int n)
+{
+	for (int i = 0; i < n; i++)
+		for (int j = i + 1; j < n; j++) {
+			int both_stdin = strcmp(files[i], "-") == 0 &&
+					 strcmp(files[j], "-") == 0;
+
+			if (both_stdin || cli_same_file(files[i], files[j]))
+				return cli_usage_error(
+					cmd,
+					"'%s' and '%s' are the same file: its "
+					"rows would count twice",
+					files[i], files[j]);
+		}
+	return 0;
+}
+
 const char *
 cli_reason(al_status st)
 {
