@@ -1163,17 +1163,35 @@ keep_row(al_assay *run, const struct group *g, unsigned long line,
 	return AL_OK;
 }
 
+/* The row's date (a calendar date YYYY-MM-DD, checked whether or not a
+ * register uses it), else the day of the run. 0, or -1 after an error. */
+static int
+row_date(al_assay *run, const al_csv_row *row, unsigned long line,
+	 long *date)
+{
+	size_t dl;
+	const char *text = al_cell(row, run->col[C_DATE], &dl);
+
+	*date = run->opt.today;
+	if (dl > 0 && al_date_parse(text, dl, date) != 0) {
+		ROW_ERR(run, line, "date",
+			"'%.*s' is not a calendar date YYYY-MM-DD",
+			(int)(dl > 40 ? 40 : dl), text);
+		return -1;
+	}
+	return 0;
+}
+
 /* The register entry of a row's titrant lot, checked for validity on the
  * row's date; NULL when the row names no lot (or after an error). */
 static const al_titrant *
-titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
+titrant_of(al_assay *run, const al_csv_row *row, unsigned long line,
+	   long date)
 {
 	size_t ll, dl;
 	const char *name = al_cell(row, run->col[C_TITRANT_LOT], &ll);
-	const char *date_text = al_cell(row, run->col[C_DATE], &dl);
 	char on[11], until[11], when[11], *lot;
 	const al_titrant *t;
-	long date = run->opt.today;
 
 	if (al_text_identifier(name, ll, &run->lot, &run->lot_cap, &ll) !=
 	    AL_OK) {
@@ -1186,11 +1204,6 @@ titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
 	if (ll > AL_IDENT_MAX) {
 		ROW_ERR(run, line, "titrant_lot", "is longer than %d bytes",
 			AL_IDENT_MAX);
-		return NULL;
-	}
-	if (dl > 0 && al_date_parse(date_text, dl, &date) != 0) {
-		ROW_ERR(run, line, "date", "'%.*s' is not a date YYYY-MM-DD",
-			(int)(dl > 40 ? 40 : dl), date_text);
 		return NULL;
 	}
 	t = al_register_find(run->opt.titrants, lot);
@@ -1209,6 +1222,7 @@ titrant_of(al_assay *run, const al_csv_row *row, unsigned long line)
 			lot, on);
 		return NULL;
 	}
+	(void)al_cell(row, run->col[C_DATE], &dl);
 	if (date > t->valid_until || date < t->standardised_on) {
 		ROW_ERR(run, line, "titrant_lot",
 			"titrant lot '%s' is valid from %s to %s, not on %s%s",
@@ -1465,6 +1479,7 @@ row_values(al_assay *run, const al_csv_row *row)
 	unsigned flags = 0;
 	double needed = 0, conc_u = -1, brix = 0, water = 0;
 	int got_brix, got_water;
+	long date;
 	struct group *g;
 	struct key_look look;
 	int created;
@@ -1546,8 +1561,10 @@ row_values(al_assay *run, const al_csv_row *row)
 		t.blank_ml = 0;
 	got = number_or_default(run, row, C_CONC, run->opt.has_titrant,
 				run->opt.titrant_mol_l, &t.titrant_mol_l);
-	if (run->opt.titrants && run->col[C_TITRANT_LOT] >= 0) {
-		const al_titrant *reg_lot = titrant_of(run, row, line);
+	if (row_date(run, row, line, &date) != 0)
+		got = 1; /* the row is invalid: no lot looked up on no date */
+	else if (run->opt.titrants && run->col[C_TITRANT_LOT] >= 0) {
+		const al_titrant *reg_lot = titrant_of(run, row, line, date);
 
 		if (reg_lot) {
 			if (got == 1 &&

@@ -73,6 +73,14 @@ al_date_parse(const char *s, size_t len, long *days)
 	return 0;
 }
 
+long
+al_date_add_days(long day, long n)
+{
+	long last = days_from_civil(9999, 12, 31);
+
+	return day > last - n ? last : day + n;
+}
+
 void
 al_date_format(long days, char buf[11])
 {

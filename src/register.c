@@ -125,7 +125,8 @@ date_cell(struct reader *r, const al_csv_row *row, int k, long *days)
 	if (al_date_parse(s, len, days) == 0)
 		return 0;
 	al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, reg_cols[k],
-		     "'%.*s' is not a date YYYY-MM-DD", (int)(len > 40 ? 40 : len),
+		     "'%.*s' is not a calendar date YYYY-MM-DD",
+		     (int)(len > 40 ? 40 : len),
 		     s);
 	return -1;
 }
@@ -189,8 +190,11 @@ reg_row(void *ud, const al_csv_row *row)
 	}
 	t.has_rsd = al_cell_number(row, r->col[R_RSD], "rsd_pct", '.', r->file,
 				   r->diags, &t.rsd_pct) == 1;
-	date_cell(r, row, R_ON, &t.standardised_on);
-	date_cell(r, row, R_UNTIL, &t.valid_until);
+	if (date_cell(r, row, R_ON, &t.standardised_on) == 0 &&
+	    date_cell(r, row, R_UNTIL, &t.valid_until) == 0 &&
+	    t.valid_until < t.standardised_on)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "valid_until", "is before standardised_on");
 	s = al_cell(row, r->col[R_VALID], &len);
 	if (al_word_eq(s, len, "yes"))
 		t.valid = 1;

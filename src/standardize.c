@@ -289,7 +289,7 @@ std_row(void *ud, const al_csv_row *row)
 	date_text = al_cell(row, run->col[S_DATE], &dl);
 	r.date = run->today;
 	if (dl > 0 && al_date_parse(date_text, dl, &r.date) != 0)
-		ERR(run, line, "date", "'%.*s' is not a date YYYY-MM-DD",
+		ERR(run, line, "date", "'%.*s' is not a calendar date YYYY-MM-DD",
 		    (int)(dl > 40 ? 40 : dl), date_text);
 	if (run->diags.out_of_memory)
 		return AL_ENOMEM;

@@ -413,7 +413,7 @@ cmd_standardize(int argc, char **argv)
 		t.has_rsd = l->has_sd;
 		t.rsd_pct = l->rsd_pct;
 		t.standardised_on = l->date;
-		t.valid_until = l->date + a.p.valid_days;
+		t.valid_until = al_date_add_days(l->date, a.p.valid_days);
 		t.valid = l->valid;
 		if (!l->valid)
 			any_rejected = 1;
