@@ -142,6 +142,46 @@ known_quantity(const char *h, size_t len, const char *const *names,
 	return -1;
 }
 
+/* The same header, as header_column matches them. */
+static int
+same_header(const char *a, const char *b)
+{
+	size_t al = strlen(a), bl = strlen(b);
+
+	a = al_trim(a, &al);
+	b = al_trim(b, &bl);
+	return al == bl && strncasecmp_ascii(a, b, al) == 0;
+}
+
+/* Alias k (of the rest) whose name one of the first n_first has. */
+static int
+overridden(const al_column_alias *aliases, size_t n_first, size_t k)
+{
+	for (size_t i = 0; k >= n_first && i < n_first; i++)
+		if (strcmp(aliases[i].name, aliases[k].name) == 0)
+			return 1;
+	return 0;
+}
+
+al_alias_conflict
+al_column_aliases_check(const al_column_alias *aliases, size_t n,
+			size_t n_first, size_t *i, size_t *j)
+{
+	for (*i = 0; *i < n; (*i)++)
+		for (*j = *i + 1; *j < n; (*j)++) {
+			int same_name = strcmp(aliases[*i].name,
+					       aliases[*j].name) == 0;
+
+			if (same_name && !(*i < n_first && *j >= n_first))
+				return AL_ALIAS_NAME_TWICE;
+			if (!same_name && !overridden(aliases, n_first, *i) &&
+			    !overridden(aliases, n_first, *j) &&
+			    same_header(aliases[*i].header, aliases[*j].header))
+				return AL_ALIAS_HEADER_TWICE;
+		}
+	return AL_ALIAS_OK;
+}
+
 /* The known name closest to an unknown header, within a third of its
  * length in edits; NULL when none is. */
 static const char *

@@ -49,6 +49,20 @@ al_status al_column_aliases_read(FILE *in, const char *file,
 				 al_diags *diags);
 void al_column_aliases_free(al_column_alias *aliases, size_t n);
 
+/* A conflict among aliases[0..n), of which the first n_first may
+ * override the rest's name (options before a file): one name mapped
+ * twice (AL_ALIAS_NAME_TWICE), or one header (ignoring case and blanks)
+ * mapped to two names (AL_ALIAS_HEADER_TWICE), at *i < *j; else
+ * AL_ALIAS_OK. */
+typedef enum {
+	AL_ALIAS_OK,
+	AL_ALIAS_NAME_TWICE,
+	AL_ALIAS_HEADER_TWICE
+} al_alias_conflict;
+al_alias_conflict al_column_aliases_check(const al_column_alias *aliases,
+					  size_t n, size_t n_first, size_t *i,
+					  size_t *j);
+
 /* The length of the well-formed UTF-8 sequence that starts s (of len
  * bytes), 1 to 4, or 0 when none does (RFC 3629: no overlong forms, no
  * surrogates, nothing above U+10FFFF, not cut short). */

@@ -684,6 +684,32 @@ load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
 	return specs;
 }
 
+/* One column mapped twice, or one header to two columns, in the --column
+ * options or the --columns file (an option may override the file's
+ * mapping of a column): a usage error, since one would win in silence. */
+static int
+columns_conflict(const struct args *a, const al_column_alias *all, size_t n)
+{
+	size_t i, j;
+
+	switch (al_column_aliases_check(all, n, a->n_column_opts, &i, &j)) {
+	case AL_ALIAS_NAME_TWICE:
+		cli_usage_error("assay", "%s maps '%s' twice (to '%s' and '%s')",
+				i < a->n_column_opts ? "--column"
+						     : a->columns_file,
+				all[i].name, all[i].header, all[j].header);
+		return -1;
+	case AL_ALIAS_HEADER_TWICE:
+		cli_usage_error("assay",
+				"header '%s' is mapped to two columns, '%s' and "
+				"'%s'",
+				all[i].header, all[i].name, all[j].name);
+		return -1;
+	default:
+		return 0;
+	}
+}
+
 /* Joins the --columns file and the --column options (which win, being
  * later in the list). */
 static int
@@ -744,7 +770,7 @@ load_columns(struct args *a, al_column_alias **all, size_t *n)
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		return -1;
 	}
-	return 0;
+	return columns_conflict(a, *all, *n);
 }
 
 static void
