@@ -94,12 +94,13 @@ fuzz: deps
 	sh tests/fuzz/run.sh $(FUZZ_BUILD) $(FUZZ_SECONDS)
 
 bench: build
-	@for p in datamash time; do \
+	@for p in datamash time bc; do \
 	  dpkg-query -W -f='$${Status}' $$p 2>/dev/null | grep -q 'install ok installed' \
 	    || { $(SUDO) apt-get update -qq; $(SUDO) apt-get install -y -qq $$p; }; done
 	sh bench/run.sh $(BUILD) $(BENCH_ROWS)
 	sh bench/memory.sh $(BUILD)/acidlot $(BUILD)/tests/bench_gen
 	sh bench/startup.sh $(BUILD)/acidlot samples
+	sh bench/tables.sh $(BUILD)/acidlot
 
 clean:
 	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)

@@ -12,11 +12,21 @@
 #include "acidlot/report.h"
 #include "acidlot/table.h"
 #include "acidlot/text.h"
+#include "strindex.h"
 
+/* The lots in file order, found by name through a hash index. */
 struct al_register {
 	al_titrant *items;
 	size_t count, cap;
+	al_strindex index; /* by lot */
 };
+
+/* The index's name of lot i. */
+static const char *
+lot_of(const void *reg, size_t i)
+{
+	return ((const al_register *)reg)->items[i].lot;
+}
 
 enum { R_LOT, R_STANDARD, R_CONC, R_U, R_N, R_RSD, R_ON, R_UNTIL, R_VALID,
        R_COUNT };
@@ -31,6 +41,10 @@ al_register_new(al_status *status)
 	al_register *reg = al_calloc(1, sizeof *reg);
 
 	*status = reg ? AL_OK : AL_ENOMEM;
+	if (reg) {
+		reg->index.name = lot_of;
+		reg->index.ctx = reg;
+	}
 	return reg;
 }
 
@@ -44,6 +58,7 @@ al_register_free(al_register *reg)
 		al_free(reg->items[i].standard);
 	}
 	al_free(reg->items);
+	al_strindex_free(&reg->index);
 	al_free(reg);
 }
 
@@ -62,16 +77,16 @@ al_register_at(const al_register *reg, size_t i)
 const al_titrant *
 al_register_find(const al_register *reg, const char *lot)
 {
-	for (size_t i = 0; reg && i < reg->count; i++)
-		if (strcmp(reg->items[i].lot, lot) == 0)
-			return &reg->items[i];
-	return NULL;
+	long i = reg ? al_strindex_find(&reg->index, lot) : -1;
+
+	return i >= 0 ? &reg->items[i] : NULL;
 }
 
 al_status
 al_register_put(al_register *reg, const al_titrant *t)
 {
 	al_titrant copy = *t, *slot = NULL;
+	uint32_t *index_slot;
 
 	copy.lot = al_strdup(t->lot);
 	copy.standard = al_strdup(t->standard ? t->standard : "");
@@ -80,9 +95,14 @@ al_register_put(al_register *reg, const al_titrant *t)
 		al_free(copy.standard);
 		return AL_ENOMEM;
 	}
-	for (size_t i = 0; i < reg->count; i++)
-		if (strcmp(reg->items[i].lot, t->lot) == 0)
-			slot = &reg->items[i];
+	if (al_strindex_room(&reg->index, reg->count) != AL_OK) {
+		al_free(copy.lot);
+		al_free(copy.standard);
+		return AL_ENOMEM;
+	}
+	index_slot = al_strindex_slot(&reg->index, t->lot, strlen(t->lot));
+	if (*index_slot)
+		slot = &reg->items[*index_slot - 1];
 	if (slot) {
 		al_free(slot->lot);
 		al_free(slot->standard);
@@ -102,6 +122,7 @@ al_register_put(al_register *reg, const al_titrant *t)
 		reg->cap = n;
 	}
 	reg->items[reg->count++] = copy;
+	*index_slot = (uint32_t)reg->count;
 	return AL_OK;
 }
 

@@ -8,60 +8,23 @@
 #include "acidlot/alloc.h"
 #include "acidlot/table.h"
 #include "acidlot/text.h"
-#include "hash.h"
+#include "strindex.h"
 
-/* The specs in file order, found by product through an open-addressing
- * hash (1 + index, 0 empty; at most half full), so that a table of
- * 200,000 products is read and searched in linear time. loose holds
+/* The specs in file order, found by product through a hash index, so
+ * that a table of 200,000 products is read and searched in linear time. loose holds
  * each product's al_text_loose form, made on the first loose search. */
 struct al_spec_table {
 	al_spec *specs;
 	size_t count, alloc;
-	uint32_t *slots;
-	size_t n_slots;
+	al_strindex index; /* by product */
 	char **loose;
 };
 
-/* The slot of product s[0..len): its spec's, or the empty one where it
- * would go. */
-static uint32_t *
-find_slot(const al_spec_table *t, const char *s, size_t len)
+/* The index's name of spec i. */
+static const char *
+product_of(const void *table, size_t i)
 {
-	size_t mask = t->n_slots - 1, i = al_fnv1a(AL_FNV_OFFSET, s, len) & mask;
-
-	for (;; i = (i + 1) & mask) {
-		const char *p;
-
-		if (t->slots[i] == 0)
-			return &t->slots[i];
-		p = t->specs[t->slots[i] - 1].product;
-		if (strncmp(p, s, len) == 0 && p[len] == '\0')
-			return &t->slots[i];
-	}
-}
-
-/* Room in the hash for one more spec; AL_ENOMEM when memory runs out. */
-static al_status
-grow_slots(al_spec_table *t)
-{
-	size_t n = t->n_slots ? t->n_slots : 32;
-	uint32_t *old = t->slots;
-
-	if (2 * (t->count + 1) <= t->n_slots)
-		return AL_OK;
-	while (2 * (t->count + 1) > n)
-		n *= 2;
-	t->slots = al_calloc(n, sizeof *t->slots);
-	if (t->slots == NULL) {
-		t->slots = old;
-		return AL_ENOMEM;
-	}
-	t->n_slots = n;
-	for (size_t i = 0; i < t->count; i++)
-		*find_slot(t, t->specs[i].product, strlen(t->specs[i].product)) =
-			(uint32_t)(i + 1);
-	al_free(old);
-	return AL_OK;
+	return ((const al_spec_table *)table)->specs[i].product;
 }
 
 enum { C_PRODUCT, C_ACID, C_UNIT, C_MIN, C_MAX, C_MAX_RSD, C_MIN_N, C_SR,
@@ -145,7 +108,7 @@ spec_row(void *ud, const al_csv_row *row)
 	text = al_cell(row, r->col[C_PRODUCT], &len);
 	if (al_text_identifier(text, len, &r->ident, &r->ident_cap, &len) !=
 		    AL_OK ||
-	    grow_slots(r->table) != AL_OK)
+	    al_strindex_room(&r->table->index, r->table->count) != AL_OK)
 		return AL_ENOMEM;
 	text = r->ident;
 	if (len == 0)
@@ -156,7 +119,7 @@ spec_row(void *ud, const al_csv_row *row)
 	else if (!al_utf8_valid(text, len))
 		err(r, row->line, "product",
 		    "is not valid UTF-8 text (save the file as UTF-8)", text, len);
-	else if ((dup = *find_slot(r->table, text, len)) != 0) {
+	else if ((dup = *al_strindex_slot(&r->table->index, text, len)) != 0) {
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "product", "'%.*s' already specified at line %lu",
 			     (int)len, text, r->table->specs[dup - 1].line);
@@ -319,7 +282,8 @@ spec_row(void *ud, const al_csv_row *row)
 	s.product = al_strndup(r->ident, strlen(r->ident));
 	if (s.product == NULL)
 		return AL_ENOMEM;
-	*find_slot(r->table, s.product, strlen(s.product)) =
+	*al_strindex_slot(&r->table->index, s.product,
+			  strlen(s.product)) =
 		(uint32_t)(r->table->count + 1);
 	slot = &r->table->specs[r->table->count++];
 	*slot = s;
@@ -344,6 +308,8 @@ al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
 		*status = AL_ENOMEM;
 		return NULL;
 	}
+	r.table->index.name = product_of;
+	r.table->index.ctx = r.table;
 	st = al_csv_read_file(csv, in, name, spec_row, &r, diags);
 	if (st == AL_OK && !r.header_done) {
 		al_diags_add(diags, AL_SEV_ERROR, name, 0, NULL,
@@ -375,7 +341,7 @@ al_spec_table_free(al_spec_table *table)
 			al_free(table->loose[i]);
 	}
 	al_free(table->loose);
-	al_free(table->slots);
+	al_strindex_free(&table->index);
 	al_free(table->specs);
 	al_free(table);
 }
@@ -395,12 +361,9 @@ al_spec_at(const al_spec_table *table, size_t i)
 const al_spec *
 al_spec_find(const al_spec_table *table, const char *product)
 {
-	uint32_t slot;
+	long i = table ? al_strindex_find(&table->index, product) : -1;
 
-	if (table == NULL || table->count == 0)
-		return NULL;
-	slot = *find_slot(table, product, strlen(product));
-	return slot ? &table->specs[slot - 1] : NULL;
+	return i >= 0 ? &table->specs[i] : NULL;
 }
 
 const al_spec *
