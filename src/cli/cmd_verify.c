@@ -23,7 +23,7 @@ usage(FILE *out)
 /* Checks one list of files; returns how many changed or are missing, -1
  * when the record is malformed. */
 static int
-check_files(json_t *list, const char *record)
+check_files(json_t *list, const char *record, cli_hash_fn hash)
 {
 	size_t i;
 	json_t *f;
@@ -47,7 +47,7 @@ check_files(json_t *list, const char *record)
 			       role ? role : "", path);
 			continue;
 		}
-		if (sha256_file(path, hex, &bytes) != 0) {
+		if (hash(path, hex, &bytes) != 0) {
 			printf("MISSING  %s %s\n", role ? role : "", path);
 			changed++;
 		} else if (strcmp(hex, want) != 0) {
@@ -58,6 +58,17 @@ check_files(json_t *list, const char *record)
 			printf("ok       %s %s\n", role ? role : "", path);
 	}
 	return changed;
+}
+
+int
+cli_verify_root(json_t *root, const char *record, cli_hash_fn hash)
+{
+	int a = check_files(json_object_get(root, "inputs"), record, hash);
+	int b = a < 0 ? -1
+		      : check_files(json_object_get(root, "outputs"), record,
+				    hash);
+
+	return a < 0 || b < 0 ? -1 : a + b;
 }
 
 int
@@ -84,7 +95,7 @@ cmd_verify(int argc, char **argv)
 	for (int i = optind; i < argc; i++) {
 		json_error_t err;
 		json_t *root;
-		int a, b;
+		int n;
 
 		/* jansson does not fill every byte of err on every path */
 		memset(&err, 0, sizeof err);
@@ -103,17 +114,15 @@ cmd_verify(int argc, char **argv)
 				  err.line, err.text);
 			return EXIT_TROUBLE;
 		}
-		a = check_files(json_object_get(root, "inputs"), argv[i]);
-		b = a < 0 ? -1 : check_files(json_object_get(root, "outputs"),
-					     argv[i]);
+		n = cli_verify_root(root, argv[i], sha256_file);
 		json_decref(root);
-		if (a < 0 || b < 0) {
+		if (n < 0) {
 			cli_error("%s: not an acidlot record (no inputs and "
 				  "outputs with path and sha256)",
 				  argv[i]);
 			return EXIT_TROUBLE;
 		}
-		changed += a + b;
+		changed += n;
 	}
 	if (fflush(stdout) != 0 || ferror(stdout)) {
 		cli_error("write error on standard output");

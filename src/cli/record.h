@@ -88,4 +88,12 @@ void record_free(run_record *r);
 /* Sets jansson to allocate through al_malloc/al_free. */
 void record_use_library_alloc(void);
 
+/* How verify hashes a file: 0 and its SHA-256 in hex, or -1. */
+typedef int (*cli_hash_fn)(const char *path, char hex[65],
+			   unsigned long long *bytes);
+/* Checks the files a record (its parsed JSON) names against their
+ * hashes, printing a line for each: the count that changed or are
+ * missing, or -1 when it is no record. */
+int cli_verify_root(json_t *root, const char *record, cli_hash_fn hash);
+
 #endif

@@ -1,15 +1,6 @@
 /* acidlot fuzz target: the specification reader.
  * SPDX-License-Identifier: GPL-3.0-or-later */
-#define _POSIX_C_SOURCE 200809L
-#include <stddef.h>
-#include <stdint.h>
-#include <stdio.h>
-
-#include "acidlot/spec.h"
-
-int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
-
-static al_catalogue *cat;
+#include "fuzz.h"
 
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
@@ -19,14 +10,9 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	al_spec_table *t;
 	FILE *f;
 
-	if (cat == NULL && (cat = al_catalogue_new(&st, NULL)) == NULL)
-		__builtin_trap();
-	if (size == 0)
+	if ((f = fuzz_stream(data, size)) == NULL)
 		return 0;
-	f = fmemopen((void *)data, size, "r");
-	if (f == NULL)
-		return 0;
-	t = al_spec_table_read(cat, NULL, f, "fuzz.csv", &st, &d);
+	t = al_spec_table_read(fuzz_catalogue(), NULL, f, "fuzz.csv", &st, &d);
 	for (size_t i = 0; i < al_spec_count(t); i++) {
 		const al_spec *s = al_spec_at(t, i);
 

@@ -13,14 +13,21 @@ run_one() {
 	t=$1
 	mkdir -p "$work/$t" "$work/$t-crashes"
 	"$build/tests/fuzz_$t" -max_total_time="$seconds" -max_len=8192 \
+		-close_fd_mask=3 \
 		-print_final_stats=1 -artifact_prefix="$work/$t-crashes/" \
 		"$work/$t" "$here/corpus/$t" >"$work/$t.log" 2>&1
 	echo $? >"$work/$t.rc"
 }
-run_one csv & run_one number & wait
-run_one spec & run_one assay & wait
+targets="csv number spec assay register standardize columns date options record"
+set -- $targets
+while [ $# -gt 0 ]; do
+	run_one "$1" &
+	[ $# -gt 1 ] && run_one "$2" &
+	wait
+	shift; [ $# -gt 0 ] && shift
+done
 status=0
-for t in csv number spec assay; do
+for t in $targets; do
 	execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$work/$t.log" | tail -1)
 	rc=$(cat "$work/$t.rc")
 	crashes=$(ls "$work/$t-crashes" | wc -l)
