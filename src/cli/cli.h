@@ -54,6 +54,18 @@ int cli_check_decimal_comma(const char *cmd, const al_csv_options *csv);
 int cli_delimiter(const char *text, char *out);
 /* 1 when both paths name the same existing file. */
 int cli_same_file(const char *a, const char *b);
+/* A file a command reads or writes, for cli_check_files. */
+typedef struct cli_file {
+	const char *role; /* how the user named it: "input", "--budget" */
+	const char *path; /* NULL: not given; "-": standard input/output */
+	int output;
+} cli_file;
+/* Refuses an output that is an input or another output, before anything
+ * is read: the same device and inode, or for a file not yet there the
+ * same resolved path; '-' is the standard input or output it names. A
+ * terminal both read and written is fine. Returns 0, or a usage error
+ * (EXIT_TROUBLE) naming both. */
+int cli_check_files(const char *cmd, const cli_file *files, size_t n);
 /* A usage error when two of the n input files are one (by device and
  * inode, however spelt, or '-' twice): its rows would count twice.
  * Returns 0 when they are distinct. */

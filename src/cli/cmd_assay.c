@@ -472,43 +472,37 @@ parse_args(int argc, char **argv, struct args *a)
 	return cli_check_decimal_comma("assay", &a->aopt.csv) ? -1 : 0;
 }
 
-/* Refuses outputs that would overwrite an input or each other. */
+/* Refuses an output that is an input or another output (the record's
+ * default name included), before anything is read. */
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	const char *outs[5] = {a->output, a->replicates, a->rejects, a->record,
-			       a->budget};
-	const char *ins[3] = {a->spec, a->columns_file, a->titrants};
-	struct stat so, si;
+	cli_file *f = al_malloc((8 + (size_t)argc) * sizeof *f);
+	size_t n = 0;
+	char record[4096];
+	int file_report = a->output && strcmp(a->output, "-") != 0, ok;
 
-	for (int i = 0; i < 5; i++) {
-		if (outs[i] == NULL || strcmp(outs[i], "-") == 0)
-			continue;
-		for (int j = i + 1; j < 5; j++)
-			if (outs[j] && strcmp(outs[i], outs[j]) == 0) {
-				cli_usage_error("assay",
-						"'%s' is named for two outputs",
-						outs[i]);
-				return 0;
-			}
-		if (stat(outs[i], &so) != 0 || !S_ISREG(so.st_mode))
-			continue;
-		for (int k = optind; k < argc + 3; k++) {
-			const char *in = k < argc ? argv[k] : ins[k - argc];
-
-			if (in == NULL || strcmp(in, "-") == 0 ||
-			    stat(in, &si) != 0)
-				continue;
-			if (si.st_dev == so.st_dev && si.st_ino == so.st_ino) {
-				cli_usage_error("assay",
-						"refusing to write '%s' over the "
-						"input '%s'",
-						outs[i], in);
-				return 0;
-			}
-		}
+	if (f == NULL) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return 0;
 	}
-	return 1;
+	f[n++] = (cli_file){"-o", a->output, 1};
+	f[n++] = (cli_file){"--replicates", a->replicates, 1};
+	f[n++] = (cli_file){"--rejects", a->rejects, 1};
+	f[n++] = (cli_file){"--budget", a->budget, 1};
+	if (a->record || file_report) {
+		snprintf(record, sizeof record, "%s.record.json", a->output);
+		f[n++] = (cli_file){a->record ? "--record" : "the record",
+				    a->record ? a->record : record, 1};
+	}
+	f[n++] = (cli_file){"--spec", a->spec, 0};
+	f[n++] = (cli_file){"--columns", a->columns_file, 0};
+	f[n++] = (cli_file){"--titrants", a->titrants, 0};
+	for (int i = optind; i < argc; i++)
+		f[n++] = (cli_file){"input", argv[i], 0};
+	ok = cli_check_files("assay", f, n) == 0;
+	al_free(f);
+	return ok;
 }
 
 static void

@@ -214,6 +214,35 @@ parse_args(int argc, char **argv, struct args *a)
 	return cli_check_decimal_comma("standardize", &a->csv) ? -1 : 0;
 }
 
+/* Refuses an output (the register, which is read and replaced, the
+ * budget, the record by any name) that is an input or another output,
+ * before anything is read. */
+static int
+outputs_safe(const struct args *a, int argc, char **argv)
+{
+	cli_file *f = al_malloc((4 + (size_t)argc) * sizeof *f);
+	size_t n = 0;
+	char record[4096];
+	int ok;
+
+	if (f == NULL) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return 0;
+	}
+	f[n++] = (cli_file){"-o", a->reg, 1};
+	f[n++] = (cli_file){"--budget", a->budget, 1};
+	if (a->record || a->reg) {
+		snprintf(record, sizeof record, "%s.record.json", a->reg);
+		f[n++] = (cli_file){a->record ? "--record" : "the record",
+				    a->record ? a->record : record, 1};
+	}
+	for (int i = optind; i < argc; i++)
+		f[n++] = (cli_file){"input", argv[i], 0};
+	ok = cli_check_files("standardize", f, n) == 0;
+	al_free(f);
+	return ok;
+}
+
 static void
 number(FILE *out, double v, int sig)
 {
@@ -322,6 +351,8 @@ cmd_standardize(int argc, char **argv)
 	case -1:
 		return EXIT_TROUBLE;
 	}
+	if (!outputs_safe(&a, argc, argv))
+		return EXIT_TROUBLE;
 	if (record_start(&rec, "standardize", argc, argv, a.analyst) != 0) {
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		goto out;
@@ -343,13 +374,6 @@ cmd_standardize(int argc, char **argv)
 			cli_error("%s: %s", argv[i], cli_reason(AL_OK));
 			bad = 1;
 			continue;
-		}
-		if (a.reg && in != stdin && cli_same_file(argv[i], a.reg)) {
-			cli_usage_error("standardize",
-					"'%s' is both an input and the register",
-					argv[i]);
-			fclose(in);
-			goto out;
 		}
 		hashing_reader_init(&h, in);
 		st = al_std_read_source(run, hashing_read, &h,

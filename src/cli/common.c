@@ -1,9 +1,14 @@
 /* acidlot command line: messages and option helpers.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _XOPEN_SOURCE 700
 #include <errno.h>
+#include <limits.h>
+#include <stdio.h>
+#include <stdlib.h>
 #include <stdarg.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <sys/types.h>
 
 #include "cli.h"
 
@@ -142,6 +147,79 @@ cli_same_file(const char *a, const char *b)
 
 	return stat(a, &sa) == 0 && stat(b, &sb) == 0 &&
 	       sa.st_dev == sb.st_dev && sa.st_ino == sb.st_ino;
+}
+
+/* What a path names: a device and inode, or where it would be made. */
+struct identity {
+	int exists, is_char;
+	dev_t dev;
+	ino_t ino;
+	char where[PATH_MAX + NAME_MAX + 2];
+};
+
+static void
+identify(const cli_file *f, struct identity *id)
+{
+	struct stat st;
+	const char *slash = strrchr(f->path, '/');
+	char dir[PATH_MAX];
+
+	memset(id, 0, sizeof *id);
+	if (strcmp(f->path, "-") == 0 ? fstat(f->output ? 1 : 0, &st) == 0
+				       : stat(f->path, &st) == 0) {
+		id->exists = 1;
+		id->is_char = S_ISCHR(st.st_mode);
+		id->dev = st.st_dev;
+		id->ino = st.st_ino;
+		return;
+	}
+	/* not there yet: its folder's real path and its name */
+	snprintf(dir, sizeof dir, "%.*s",
+		 slash ? (int)(slash - f->path) + (slash == f->path) : 1,
+		 slash ? f->path : ".");
+	if (realpath(dir, id->where) == NULL)
+		snprintf(id->where, sizeof id->where, "%s", f->path);
+	else {
+		size_t n = strlen(id->where);
+
+		snprintf(id->where + n, sizeof id->where - n, "/%s",
+			 slash ? slash + 1 : f->path);
+	}
+}
+
+static int
+same_identity(const struct identity *a, const struct identity *b)
+{
+	if (a->exists != b->exists)
+		return 0;
+	return a->exists ? a->dev == b->dev && a->ino == b->ino
+			 : strcmp(a->where, b->where) == 0;
+}
+
+int
+cli_check_files(const char *cmd, const cli_file *files, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		for (size_t j = i + 1; j < n; j++) {
+			struct identity a, b;
+
+			if (files[i].path == NULL || files[j].path == NULL ||
+			    !(files[i].output || files[j].output))
+				continue;
+			identify(&files[i], &a);
+			identify(&files[j], &b);
+			if (!same_identity(&a, &b))
+				continue;
+			/* a terminal both read and written */
+			if (a.is_char && !(files[i].output && files[j].output))
+				continue;
+			return cli_usage_error(
+				cmd, "%s '%s' and %s '%s' are the same file: "
+				     "one would replace the other",
+				files[i].role, files[i].path, files[j].role,
+				files[j].path);
+		}
+	return 0;
 }
 
 int
