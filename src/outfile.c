@@ -14,6 +14,7 @@
 struct al_outfile {
 	FILE *stream;
 	char *path;
+	char *dest; /* the file replaced: path, or a symbolic link's target */
 	char *tmp;  /* NULL when written in place */
 	int direct; /* a device or pipe, written in place and closed */
 	int closed; /* prepared: flushed, checked and closed */
@@ -26,7 +27,8 @@ al_outfile_open(const char *path, al_status *status)
 	const char *slash;
 	size_t dirlen;
 	int fd, saved;
-	mode_t mask;
+	mode_t mode;
+	struct stat sb;
 
 	if (f == NULL)
 		goto nomem;
@@ -38,38 +40,53 @@ al_outfile_open(const char *path, al_status *status)
 		*status = AL_OK;
 		return f;
 	}
-	{
-		struct stat sb;
-
-		/* A device or a FIFO (/dev/null, /dev/stdout, a pipe) cannot
-		 * be replaced by a rename: write to it in place. */
-		if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode)) {
-			if (S_ISDIR(sb.st_mode)) {
-				errno = EISDIR;
-				goto io;
-			}
-			f->stream = fopen(path, "w");
-			if (f->stream == NULL)
-				goto io;
-			f->direct = 1;
-			*status = AL_OK;
-			return f;
+	/* A device or a FIFO (/dev/null, /dev/stdout, a pipe) cannot
+	 * be replaced by a rename: write to it in place. */
+	if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode)) {
+		if (S_ISDIR(sb.st_mode)) {
+			errno = EISDIR;
+			goto io;
 		}
+		f->stream = fopen(path, "w");
+		if (f->stream == NULL)
+			goto io;
+		f->direct = 1;
+		*status = AL_OK;
+		return f;
 	}
-	slash = strrchr(path, '/');
-	dirlen = slash ? (size_t)(slash - path + 1) : 0;
+	/* A symbolic link to a file is written through to it, never
+	 * replaced by a file of its own; a dangling one is refused */
+	if (lstat(path, &sb) == 0 && S_ISLNK(sb.st_mode)) {
+		char *real = realpath(path, NULL);
+
+		if (real == NULL)
+			goto io;
+		f->dest = al_strdup(real);
+		free(real);
+	} else
+		f->dest = al_strdup(path);
+	if (f->dest == NULL)
+		goto nomem;
+	if (stat(f->dest, &sb) == 0)
+		mode = sb.st_mode & 07777; /* a file replaced keeps its mode */
+	else {
+		mode_t mask = umask(0);
+
+		umask(mask);
+		mode = 0666 & ~mask; /* a new one, the usual */
+	}
+	slash = strrchr(f->dest, '/');
+	dirlen = slash ? (size_t)(slash - f->dest + 1) : 0;
 	f->tmp = al_malloc(dirlen + sizeof ".acidlot-XXXXXX");
 	if (f->tmp == NULL)
 		goto nomem;
-	memcpy(f->tmp, path, dirlen);
+	memcpy(f->tmp, f->dest, dirlen);
 	memcpy(f->tmp + dirlen, ".acidlot-XXXXXX", sizeof ".acidlot-XXXXXX");
 	fd = mkstemp(f->tmp);
 	if (fd < 0)
 		goto io;
-	/* mkstemp makes 0600; give the report the usual 0666 & ~umask */
-	mask = umask(0);
-	umask(mask);
-	if (fchmod(fd, 0666 & ~mask) != 0 ||
+	/* mkstemp makes 0600 */
+	if (fchmod(fd, mode) != 0 ||
 	    (f->stream = fdopen(fd, "w")) == NULL) {
 		saved = errno;
 		close(fd);
@@ -84,6 +101,7 @@ al_outfile_open(const char *path, al_status *status)
 io:
 	saved = errno;
 	al_free(f->tmp);
+	al_free(f->dest);
 	al_free(f->path);
 	al_free(f);
 	errno = saved;
@@ -92,6 +110,7 @@ io:
 nomem:
 	if (f) {
 		al_free(f->tmp);
+		al_free(f->dest);
 		al_free(f->path);
 	}
 	al_free(f);
@@ -117,10 +136,17 @@ al_outfile_written_path(const al_outfile *f)
 	return f->tmp ? f->tmp : f->path;
 }
 
+int
+al_outfile_in_place(const al_outfile *f)
+{
+	return f->tmp == NULL;
+}
+
 static void
 release(al_outfile *f)
 {
 	al_free(f->tmp);
+	al_free(f->dest);
 	al_free(f->path);
 	al_free(f);
 }
@@ -146,7 +172,7 @@ al_outfile_commit(al_outfile *f)
 	int bad;
 
 	if (f->closed) {
-		bad = rename(f->tmp, f->path) != 0;
+		bad = rename(f->tmp, f->dest) != 0;
 		if (bad) {
 			int saved = errno;
 
@@ -168,7 +194,7 @@ al_outfile_commit(al_outfile *f)
 		bad = 1;
 	if (fclose(f->stream) != 0)
 		bad = 1;
-	if (!bad && rename(f->tmp, f->path) != 0)
+	if (!bad && rename(f->tmp, f->dest) != 0)
 		bad = 1;
 	if (bad) {
 		int saved = errno;

@@ -19,6 +19,9 @@ const char *al_outfile_path(const al_outfile *f);
 /* Where the bytes are until commit: the temporary file, or the target
  * itself when written in place. */
 const char *al_outfile_written_path(const al_outfile *f);
+/* 1 when written in place (standard output, a device, a FIFO): such an
+ * output is written once and never read back. */
+int al_outfile_in_place(const al_outfile *f);
 /* Flushes, checks every write and closes, without renaming yet, so that
  * several outputs can all be checked before any appears. AL_EIO on a
  * failure (the caller then aborts). */

@@ -988,6 +988,9 @@ cmd_assay(int argc, char **argv)
 	/* the outputs the record lists, hashed by a thread (file_hashes) */
 	file_hashes hashes;
 	const char *out_role[FILE_HASHES_MAX], *out_path[FILE_HASHES_MAX];
+	const char *in_place_role[FILE_HASHES_MAX];
+	const char *in_place_path[FILE_HASHES_MAX];
+	size_t n_in_place = 0;
 	int hashing = 0, want_record, file_report;
 
 	memset(&a, 0, sizeof a);
@@ -1182,25 +1185,26 @@ cmd_assay(int argc, char **argv)
 		const char *names[FILE_HASHES_MAX] = {a.output, a.replicates,
 						      a.rejects, a.budget};
 
-		int all_files = 1;
-
 		for (int i = 0; i < FILE_HASHES_MAX; i++) {
 			if (outs[i] == NULL)
 				continue;
+			/* a device, FIFO or standard output is written once
+			 * and never read back (reading a FIFO would steal its
+			 * bytes): listed unhashed */
+			if (al_outfile_in_place(outs[i])) {
+				in_place_role[n_in_place] = roles[i];
+				in_place_path[n_in_place++] =
+					al_outfile_path(outs[i]);
+				continue;
+			}
 			if (outs[i] != budget_out) /* prepared (closed) above */
 				fflush(al_outfile_stream(outs[i]));
-			/* a device or a pipe has no temporary file, and is
-			 * read only once every output is in place, as before */
-			all_files &= al_outfile_written_path(outs[i]) !=
-				     al_outfile_path(outs[i]);
 			out_role[hashes.n] = roles[i];
 			out_path[hashes.n] = names[i];
 			hashes.path[hashes.n++] = al_outfile_written_path(outs[i]);
 		}
-		if (all_files) {
-			file_hashes_start(&hashes);
-			hashing = 1;
-		}
+		file_hashes_start(&hashes);
+		hashing = 1;
 	}
 	/* named before the outputs appear, so that a failure leaves none */
 	open_results = unjudged(run, specs);
@@ -1239,6 +1243,9 @@ cmd_assay(int argc, char **argv)
 							out_path[i],
 							hashes.hex[i],
 							hashes.bytes[i]) != 0;
+		for (size_t i = 0; !hash_bad && i < n_in_place; i++)
+			hash_bad = record_output_unhashed(&rec, in_place_role[i],
+							  in_place_path[i]) != 0;
 		if (!hash_bad)
 			rec_out = al_outfile_open(path, &st);
 		if (hash_bad || rec_out == NULL ||

@@ -214,6 +214,19 @@ parse_args(int argc, char **argv, struct args *a)
 	return cli_check_decimal_comma("standardize", &a->csv) ? -1 : 0;
 }
 
+/* Lists an output in the record: hashed, or unhashed when written in
+ * place (a device or FIFO is never read back). 0 on success. */
+static int
+listed(run_record *rec, const char *role, const char *path,
+       const al_outfile *out)
+{
+	if (out == NULL)
+		return 0;
+	if (al_outfile_in_place(out))
+		return record_output_unhashed(rec, role, path);
+	return record_output(rec, role, path, al_outfile_written_path(out));
+}
+
 /* Refuses an output (the register, which is read and replaced, the
  * budget, the record by any name) that is an input or another output,
  * before anything is read. */
@@ -523,11 +536,8 @@ cmd_standardize(int argc, char **argv)
 					   params) != 0;
 		rec_out = al_outfile_open(path, &st);
 		if (bad || rec_out == NULL ||
-		    (budget_out &&
-		     record_output(&rec, "budget", a.budget,
-				   al_outfile_written_path(budget_out))) ||
-		    (reg_out && record_output(&rec, "register", a.reg,
-					      al_outfile_written_path(reg_out))) ||
+		    listed(&rec, "budget", a.budget, budget_out) ||
+		    listed(&rec, "register", a.reg, reg_out) ||
 		    record_seal(&rec) != 0 ||
 		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
 		    al_outfile_prepare(rec_out) != AL_OK) {

@@ -39,7 +39,15 @@ check_files(json_t *list, const char *record, cli_hash_fn hash)
 		char hex[65];
 		unsigned long long bytes;
 
-		if (path == NULL || want == NULL)
+		if (path == NULL)
+			return -1;
+		if (want == NULL && json_is_null(json_object_get(f, "sha256"))) {
+			printf("skipped  %s %s (written in place to a device or "
+			       "pipe: not hashed)\n",
+			       role ? role : "", path);
+			continue;
+		}
+		if (want == NULL)
 			return -1;
 		if (strcmp(path, "-") == 0) {
 			printf("skipped  %s %s (standard input cannot be read "

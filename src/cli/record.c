@@ -381,6 +381,19 @@ record_output(run_record *r, const char *role, const char *path,
 	return record_output_hashed(r, role, path, hex, bytes);
 }
 
+int
+record_output_unhashed(run_record *r, const char *role, const char *path)
+{
+	json_t *o = json_pack("{s:s, s:o, s:n, s:s}", "role", role, "path",
+			      record_text(path), "sha256", "written",
+			      "in place (a device, FIFO or standard output), "
+			      "not read back");
+
+	if (o == NULL)
+		return -1;
+	return json_array_append_new(r->outputs, o) ? -1 : 0;
+}
+
 static void *
 hash_files(void *arg)
 {

@@ -75,6 +75,11 @@ int record_input(run_record *r, const char *role, const char *path,
  * (its temporary file before the rename). */
 int record_output(run_record *r, const char *role, const char *path,
 		  const char *written_path);
+/* An output written in place (a device, a FIFO, standard output), not
+ * read back and so not hashed: listed with sha256 null. verify skips
+ * it and says why. */
+int record_output_unhashed(run_record *r, const char *role,
+			   const char *path);
 /* The same with its hash and size known (file_hashes). */
 int record_output_hashed(run_record *r, const char *role, const char *path,
 			 const char *hex, unsigned long long bytes);
