@@ -1910,9 +1910,12 @@ read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
 		st = run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
 	} else if (st == AL_OK && !run->header_ok)
 		st = AL_EINPUT;
-	else if (st == AL_OK && run->counts.rows_read == rows_before)
-		RUN_DIAG(run, AL_SEV_WARNING, 0, NULL,
-			 "no titration rows after the header");
+	else if (st == AL_OK && run->counts.rows_read == rows_before) {
+		/* a header alone, or blank lines: nothing to judge, and no
+		 * report replaced by a bare header */
+		RUN_DIAG(run, AL_SEV_ERROR, 0, NULL, "no titrations");
+		st = run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
+	}
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	return st;

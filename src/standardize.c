@@ -108,6 +108,7 @@ struct al_std_run {
 	/* per file */
 	const char *file;
 	int header_done, header_ok;
+	unsigned long rows; /* records after the header */
 	size_t header_fields;
 	int col[7];
 	char point;
@@ -226,6 +227,7 @@ std_row(void *ud, const al_csv_row *row)
 		return std_header(run, row);
 	if (!run->header_ok)
 		return AL_OK;
+	run->rows++;
 	if (row->syntax_error) {
 		ERR(run, line, NULL, "%s", row->syntax_error);
 		return AL_OK;
@@ -376,6 +378,7 @@ al_std_read_source(al_std_run *run, al_read_fn read_fn, void *ctx,
 		return AL_ENOMEM;
 	run->file = run->files[run->n_files++];
 	run->header_done = run->header_ok = 0;
+	run->rows = 0;
 	run->point = csv && csv->decimal_point ? csv->decimal_point : '.';
 	st = al_csv_read(csv, read_fn, ctx, run->file, std_row, run,
 			 &run->diags);
@@ -384,6 +387,11 @@ al_std_read_source(al_std_run *run, al_read_fn read_fn, void *ctx,
 		st = AL_EINPUT;
 	} else if (st == AL_OK && !run->header_ok)
 		st = AL_EINPUT;
+	else if (st == AL_OK && run->rows == 0) {
+		/* a header alone: no register replaced by nothing */
+		ERR(run, 0, NULL, "no titrations");
+		st = AL_EINPUT;
+	}
 	if (run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	return st;

@@ -1006,7 +1006,12 @@ cmd_assay(int argc, char **argv)
 	if (!outputs_safe(&a, argc, argv))
 		return EXIT_TROUBLE;
 	out_name = a.output ? a.output : "standard output";
-	if (record_start(&rec, "assay", argc, argv, a.analyst) != 0) {
+	switch (record_start(&rec, "assay", argc, argv, a.analyst)) {
+	case 0:
+		break;
+	case -2: /* the run's time, said */
+		goto out;
+	default:
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		goto out;
 	}

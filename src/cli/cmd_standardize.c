@@ -366,7 +366,12 @@ cmd_standardize(int argc, char **argv)
 	}
 	if (!outputs_safe(&a, argc, argv))
 		return EXIT_TROUBLE;
-	if (record_start(&rec, "standardize", argc, argv, a.analyst) != 0) {
+	switch (record_start(&rec, "standardize", argc, argv, a.analyst)) {
+	case 0:
+		break;
+	case -2: /* the run's time, said */
+		goto out;
+	default:
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		goto out;
 	}

@@ -241,34 +241,49 @@ record_use_library_alloc(void)
 	json_set_alloc_funcs(json_alloc, al_free);
 }
 
+/* The last second YYYY-MM-DDTHH:MM:SSZ can write: 9999-12-31T23:59:59Z */
+#define LAST_SECOND 253402300799LL
+
 /* The run's time: now, or SOURCE_DATE_EPOCH (reproducible-builds
- * convention) so that tests get the same record and ids every time. */
-static time_t
-run_time(void)
+ * convention) so that tests get the same record and ids every time. 0,
+ * or -1 after saying why SOURCE_DATE_EPOCH is refused: a whole number
+ * of seconds from 0 to 9999-12-31T23:59:59Z, nothing else. */
+static int
+run_time(time_t *now)
 {
 	const char *epoch = getenv("SOURCE_DATE_EPOCH");
+	char *end;
+	long long v;
 
-	if (epoch && *epoch) {
-		char *end;
-		long long v = strtoll(epoch, &end, 10);
-
-		if (*end == '\0' && v >= 0)
-			return (time_t)v;
+	*now = time(NULL);
+	if (epoch == NULL)
+		return 0;
+	errno = 0;
+	v = strtoll(epoch, &end, 10);
+	if (*epoch < '0' || *epoch > '9' || *end != '\0' || errno != 0 ||
+	    v > LAST_SECOND) {
+		cli_error("SOURCE_DATE_EPOCH: '%.40s' is not a whole number of "
+			  "seconds from 0 to %lld (9999-12-31T23:59:59Z)",
+			  epoch, LAST_SECOND);
+		return -1;
 	}
-	return time(NULL);
+	*now = (time_t)v;
+	return 0;
 }
 
 int
 record_start(run_record *r, const char *command, int argc, char **argv,
 	     const char *analyst)
 {
-	time_t now = run_time();
+	time_t now;
 	struct tm tm;
 	char when[32];
 	json_t *args;
 	int bad = 0;
 
 	memset(r, 0, sizeof r[0]);
+	if (run_time(&now) != 0)
+		return -2;
 	gmtime_r(&now, &tm);
 	strftime(when, sizeof when, "%Y-%m-%dT%H:%M:%SZ", &tm);
 	r->today = (long)(now / 86400);

@@ -66,7 +66,8 @@ json_t *record_text(const char *s);
 
 /* Starts a record: program, version, command line, UTC time (or
  * SOURCE_DATE_EPOCH when set, for reproducible tests), analyst. 0 on
- * success, -1 out of memory. */
+ * success, -1 out of memory, -2 when SOURCE_DATE_EPOCH is refused (said
+ * on stderr). */
 int record_start(run_record *r, const char *command, int argc, char **argv,
 		 const char *analyst);
 int record_input(run_record *r, const char *role, const char *path,
