@@ -160,6 +160,7 @@ reg_row(void *ud, const al_csv_row *row)
 	size_t len;
 	const char *s;
 	double n;
+	int got;
 	unsigned long errs = r->diags->errors;
 
 	if (!r->header_done) {
@@ -200,8 +201,11 @@ reg_row(void *ud, const al_csv_row *row)
 	    t.u_mol_l < 0)
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "u_mol_l", "needs an uncertainty of 0 or more");
-	if (al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n) ==
-	    1) {
+	got = al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n);
+	if (got == 0)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "n",
+			     "is empty: the number of titrations is needed");
+	else if (got == 1) {
 		if (n >= 1 && n <= 1000000 && n == floor(n))
 			t.n = (size_t)n;
 		else
