@@ -514,9 +514,8 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 		const al_cochran *t = al_assay_cochran_at(run, i);
 		const al_group_result *r = al_assay_result(run, t->result);
 
-		fprintf(stderr,
-			PROG ": Cochran %s: C = %.4f over %zu results of n = %zu "
-			     "(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s\n",
+		cli_say("Cochran %s: C = %.4f over %zu results of n = %zu "
+			"(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s",
 			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
 			t->c > t->crit1	  ? ": variance outlier "
 			: t->c > t->crit5 ? ": variance straggler "
@@ -541,7 +540,7 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
 	fputc('\n', stderr);
 	if (rejected)
-		fprintf(stderr, PROG ": %lu row%s rejected: see %s\n", rejected,
+		cli_say("%lu row%s rejected: see %s", rejected,
 			rejected == 1 ? "" : "s", a->rejects);
 }
 
@@ -603,12 +602,11 @@ endpoint_warnings(const al_assay *run)
 		r = al_assay_result(run, i);
 
 		if (r->flags & AL_FLAG_RANGE)
-			fprintf(stderr,
-				PROG ": warning: %s/%s/%s: the range %.4g of %zu "
-				     "results exceeds the critical range %.4g = "
-				     "f(%zu) sr (ISO 5725-6): take further results; "
-				     "if the range of all of them still exceeds its "
-				     "critical range, report the median\n",
+			cli_say("warning: %s/%s/%s: the range %.4g of %zu "
+				"results exceeds the critical range %.4g = "
+				"f(%zu) sr (ISO 5725-6): take further results; "
+				"if the range of all of them still exceeds its "
+				"critical range, report the median",
 				r->product, r->lot, r->sample, r->range, r->stats.n,
 				r->critical_range, r->stats.n);
 
@@ -616,10 +614,9 @@ endpoint_warnings(const al_assay *run)
 			continue;
 		got = al_protons_titrated(r->acid->pka, r->acid->n_pka,
 					  r->endpoint_ph);
-		fprintf(stderr,
-			PROG ": warning: %s/%s/%s: endpoint pH %.2f titrates "
-			     "%.3f of the %d protons of %s the factor assumes; "
-			     "pH %.1f or above would titrate 99 %%\n",
+		cli_say("warning: %s/%s/%s: endpoint pH %.2f titrates "
+			"%.3f of the %d protons of %s the factor assumes; "
+			"pH %.1f or above would titrate 99 %%",
 			r->product, r->lot, r->sample, r->endpoint_ph, got,
 			r->acid->protons, r->acid->name,
 			ceil(r->endpoint_ph_needed * 10 - 1e-9) / 10);

@@ -12,6 +12,59 @@
 
 #include "cli.h"
 
+/* Writes s to stderr with every control character shown escaped (\r,
+ * \n, \t, \x1b; C1 controls as their UTF-8 bytes \xc2\x9b), so that no
+ * byte from an input can move the cursor or forge a line. */
+static void
+put_escaped(const char *s)
+{
+	for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+		if (*p == '\r')
+			fputs("\\r", stderr);
+		else if (*p == '\n')
+			fputs("\\n", stderr);
+		else if (*p == '\t')
+			fputs("\\t", stderr);
+		else if (*p < 0x20 || *p == 0x7f)
+			fprintf(stderr, "\\x%02x", *p);
+		else if (*p == 0xc2 && p[1] >= 0x80 && p[1] <= 0x9f) {
+			fprintf(stderr, "\\xc2\\x%02x", p[1]);
+			p++;
+		} else
+			fputc(*p, stderr);
+	}
+}
+
+/* The formatted message, escaped. */
+static void
+vput_escaped(const char *fmt, va_list ap)
+{
+	char small[512], *text = small;
+	va_list again;
+	int n;
+
+	va_copy(again, ap);
+	n = vsnprintf(small, sizeof small, fmt, ap);
+	if (n >= (int)sizeof small && (text = malloc((size_t)n + 1)) != NULL)
+		vsnprintf(text, (size_t)n + 1, fmt, again);
+	va_end(again);
+	put_escaped(text ? text : small);
+	if (text != small)
+		free(text);
+}
+
+void
+cli_say(const char *fmt, ...)
+{
+	va_list ap;
+
+	fputs(PROG ": ", stderr);
+	va_start(ap, fmt);
+	vput_escaped(fmt, ap);
+	va_end(ap);
+	fputc('\n', stderr);
+}
+
 void
 cli_error(const char *fmt, ...)
 {
@@ -19,7 +72,7 @@ cli_error(const char *fmt, ...)
 
 	fputs(PROG ": ", stderr);
 	va_start(ap, fmt);
-	vfprintf(stderr, fmt, ap);
+	vput_escaped(fmt, ap);
 	va_end(ap);
 	fputc('\n', stderr);
 }
@@ -31,7 +84,7 @@ cli_usage_error(const char *cmd, const char *fmt, ...)
 
 	fputs(PROG ": ", stderr);
 	va_start(ap, fmt);
-	vfprintf(stderr, fmt, ap);
+	vput_escaped(fmt, ap);
 	va_end(ap);
 	if (cmd)
 		fprintf(stderr, "\ntry '" PROG " %s --help'\n", cmd);
@@ -77,18 +130,15 @@ cli_print_diags(const al_diags *d)
 	for (size_t i = 0; i < d->count; i++) {
 		const al_diag *g = &d->items[i];
 
-		fputs(PROG ": ", stderr);
-		if (g->file) {
-			fputs(g->file, stderr);
-			if (g->line)
-				fprintf(stderr, ":%lu", g->line);
-			fputs(": ", stderr);
-		}
-		if (g->severity == AL_SEV_WARNING)
-			fputs("warning: ", stderr);
-		if (g->column)
-			fprintf(stderr, "%s: ", g->column);
-		fprintf(stderr, "%s\n", g->message);
+		char where[32] = "";
+
+		if (g->file && g->line)
+			snprintf(where, sizeof where, ":%lu", g->line);
+		cli_say("%s%s%s%s%s%s%s", g->file ? g->file : "", where,
+			g->file ? ": " : "",
+			g->severity == AL_SEV_WARNING ? "warning: " : "",
+			g->column ? g->column : "", g->column ? ": " : "",
+			g->message);
 	}
 	if (d->errors > cap)
 		fprintf(stderr, PROG ": ... and %lu more errors\n",
