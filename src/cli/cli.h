@@ -24,11 +24,10 @@ int cmd_verify(int argc, char **argv);
 int cmd_recovery(int argc, char **argv);
 
 /* "acidlot: message" on stderr. */
+/* A message line on stderr, "acidlot: " first (errors and warnings
+ * alike); control characters from inputs are shown escaped (\r, \x1b),
+ * here and in cli_usage_error and cli_print_diags. */
 void cli_error(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
-/* A message line on stderr, "acidlot: " first; control characters from
- * inputs are shown escaped (\r, \x1b), here and in cli_error,
- * cli_usage_error and cli_print_diags. */
-void cli_say(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 /* A usage error: the message, then "try 'acidlot CMD --help'"; returns 2. */
 int cli_usage_error(const char *cmd, const char *fmt, ...)
 	__attribute__((format(printf, 2, 3)));

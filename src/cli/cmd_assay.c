@@ -514,7 +514,7 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 		const al_cochran *t = al_assay_cochran_at(run, i);
 		const al_group_result *r = al_assay_result(run, t->result);
 
-		cli_say("Cochran %s: C = %.4f over %zu results of n = %zu "
+		cli_error("Cochran %s: C = %.4f over %zu results of n = %zu "
 			"(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s",
 			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
 			t->c > t->crit1	  ? ": variance outlier "
@@ -540,7 +540,7 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
 	fputc('\n', stderr);
 	if (rejected)
-		cli_say("%lu row%s rejected: see %s", rejected,
+		cli_error("%lu row%s rejected: see %s", rejected,
 			rejected == 1 ? "" : "s", a->rejects);
 }
 
@@ -602,7 +602,7 @@ endpoint_warnings(const al_assay *run)
 		r = al_assay_result(run, i);
 
 		if (r->flags & AL_FLAG_RANGE)
-			cli_say("warning: %s/%s/%s: the range %.4g of %zu "
+			cli_error("warning: %s/%s/%s: the range %.4g of %zu "
 				"results exceeds the critical range %.4g = "
 				"f(%zu) sr (ISO 5725-6): take further results; "
 				"if the range of all of them still exceeds its "
@@ -614,7 +614,7 @@ endpoint_warnings(const al_assay *run)
 			continue;
 		got = al_protons_titrated(r->acid->pka, r->acid->n_pka,
 					  r->endpoint_ph);
-		cli_say("warning: %s/%s/%s: endpoint pH %.2f titrates "
+		cli_error("warning: %s/%s/%s: endpoint pH %.2f titrates "
 			"%.3f of the %d protons of %s the factor assumes; "
 			"pH %.1f or above would titrate 99 %%",
 			r->product, r->lot, r->sample, r->endpoint_ph, got,

@@ -54,18 +54,6 @@ vput_escaped(const char *fmt, va_list ap)
 }
 
 void
-cli_say(const char *fmt, ...)
-{
-	va_list ap;
-
-	fputs(PROG ": ", stderr);
-	va_start(ap, fmt);
-	vput_escaped(fmt, ap);
-	va_end(ap);
-	fputc('\n', stderr);
-}
-
-void
 cli_error(const char *fmt, ...)
 {
 	va_list ap;
@@ -134,7 +122,7 @@ cli_print_diags(const al_diags *d)
 
 		if (g->file && g->line)
 			snprintf(where, sizeof where, ":%lu", g->line);
-		cli_say("%s%s%s%s%s%s%s", g->file ? g->file : "", where,
+		cli_error("%s%s%s%s%s%s%s", g->file ? g->file : "", where,
 			g->file ? ": " : "",
 			g->severity == AL_SEV_WARNING ? "warning: " : "",
 			g->column ? g->column : "", g->column ? ": " : "",
