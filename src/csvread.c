@@ -870,10 +870,18 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 				skip = 3;
 			first = 0;
 			if (n >= 2 && (memcmp(chunk, "\xFF\xFE", 2) == 0 ||
-				       memcmp(chunk, "\xFE\xFF", 2) == 0)) {
+				       memcmp(chunk, "\xFE\xFF", 2) == 0 ||
+				       (n >= 4 &&
+					memcmp(chunk, "\0\0\xFE\xFF", 4) == 0))) {
+				/* FF FE 00 00 is UTF-32 LE, 00 00 FE FF BE */
+				int wide = n >= 4 && (memcmp(chunk + 2, "\0\0", 2) == 0 ||
+						      chunk[0] == 0);
+
 				fail(&r, AL_ESYNTAX, 1,
-				     "the file is UTF-16 text: save or export "
-				     "it as UTF-8 CSV");
+				     wide ? "the file is UTF-32 text: save or "
+					    "export it as UTF-8 CSV"
+					  : "the file is UTF-16 text: save or "
+					    "export it as UTF-8 CSV");
 				break;
 			}
 			/* A spreadsheet's "sep=;" first line names the

@@ -57,6 +57,12 @@ int cli_check_decimal_comma(const char *cmd, const al_csv_options *csv);
 int cli_delimiter(const char *text, char *out);
 /* 1 when both paths name the same existing file. */
 int cli_same_file(const char *a, const char *b);
+/* The option getopt_long just refused, as the user wrote it: "--name",
+ * or "-x" from a cluster such as "-x.csv" (not the argument before). */
+const char *cli_bad_option(char **argv);
+/* fopen(path, "rb") for an input, refusing a directory (errno EISDIR)
+ * rather than failing on its first read. */
+FILE *cli_open_input(const char *path);
 /* A file a command reads or writes, for cli_check_files. */
 typedef struct cli_file {
 	const char *role; /* how the user named it: "input", "--budget" */

@@ -54,7 +54,7 @@ cmd_acids(int argc, char **argv)
 			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
 		} else
 			return cli_usage_error("acids", "unknown option '%s'",
-					       argv[optind - 1]);
+					       cli_bad_option(argv));
 	}
 	if (optind < argc)
 		return cli_usage_error("acids", "unexpected argument '%s'",
@@ -93,7 +93,7 @@ cmd_acids(int argc, char **argv)
 	}
 	al_catalogue_free(cat);
 	if (fflush(stdout) != 0 || ferror(stdout)) {
-		cli_error("write error on standard output");
+		cli_error("standard output: %s", cli_reason(AL_OK));
 		return EXIT_TROUBLE;
 	}
 	return 0;

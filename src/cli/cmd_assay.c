@@ -412,16 +412,18 @@ parse_args(int argc, char **argv, struct args *a)
 			break;
 		case OPT_BURETTE:
 		case OPT_BALANCE:
-		case OPT_K:
-			if (opt_number(c == OPT_K ? "--k" : c == OPT_BURETTE
-							 ? "--burette-tol-ml"
-							 : "--balance-linearity-g",
-				       &v))
+		case OPT_K: {
+			const char *name = c == OPT_K	      ? "--k"
+					   : c == OPT_BURETTE ? "--burette-tol-ml"
+							      : "--balance-linearity-g";
+
+			if (opt_number(name, &v))
 				return -1;
 			if (!(v > 0 && v < 100))
 				return cli_usage_error("assay",
-						       "%s must be above 0",
-						       argv[optind - 1]),
+						       "%s: %s is not above 0 and "
+						       "below 100",
+						       name, optarg),
 				       -1;
 			if (c == OPT_K)
 				a->aopt.qc.k = v;
@@ -430,6 +432,7 @@ parse_args(int argc, char **argv, struct args *a)
 			else
 				a->aopt.qc.balance_linearity_g = v;
 			break;
+		}
 		case OPT_RESOLUTION:
 			if (opt_number("--resolution-ml", &v))
 				return -1;
@@ -457,11 +460,11 @@ parse_args(int argc, char **argv, struct args *a)
 			return 1;
 		case ':':
 			return cli_usage_error("assay", "option '%s' needs a value",
-					       argv[optind - 1]),
+					       cli_bad_option(argv)),
 			       -1;
 		default:
 			return cli_usage_error("assay", "unknown option '%s'",
-					       argv[optind - 1]),
+					       cli_bad_option(argv)),
 			       -1;
 		}
 	}
@@ -637,7 +640,7 @@ open_output(const char *path, al_status (*header)(FILE *, al_report_options *),
 		return NULL;
 	}
 	if (header && header(al_outfile_stream(f), ropt) != AL_OK) {
-		cli_error("%s: write error", path);
+		cli_error("%s: %s", path, cli_reason(AL_OK));
 		al_outfile_abort(f);
 		return NULL;
 	}
@@ -650,7 +653,7 @@ load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
 	al_status st;
 	al_spec_table *specs;
 	al_csv_options csv;
-	FILE *in = fopen(a->spec, "rb");
+	FILE *in = cli_open_input(a->spec);
 
 	if (in == NULL) {
 		cli_error("%s: %s", a->spec, cli_reason(AL_OK));
@@ -713,7 +716,7 @@ load_columns(struct args *a, al_column_alias **all, size_t *n)
 	*n = 0;
 	if (a->columns_file) {
 		al_diags d = {0};
-		FILE *in = fopen(a->columns_file, "rb");
+		FILE *in = cli_open_input(a->columns_file);
 		al_status st;
 
 		if (in == NULL) {
@@ -797,7 +800,7 @@ load_titrants(const char *path)
 	al_diags d = {0};
 	al_status st;
 	al_register *reg;
-	FILE *in = fopen(path, "rb");
+	FILE *in = cli_open_input(path);
 
 	if (in == NULL) {
 		cli_error("%s: %s", path, cli_reason(AL_OK));
@@ -1078,7 +1081,7 @@ cmd_assay(int argc, char **argv)
 	for (int i = optind; i < argc; i++) {
 		const char *name = argv[i];
 		int is_stdin = strcmp(name, "-") == 0;
-		FILE *in = is_stdin ? stdin : fopen(name, "rb");
+		FILE *in = is_stdin ? stdin : cli_open_input(name);
 		unsigned long before = al_assay_get_counts(run).rows_read;
 		hashing_reader h;
 		char hex[65];
@@ -1155,7 +1158,7 @@ cmd_assay(int argc, char **argv)
 	if (report == NULL)
 		goto out;
 	if (al_report_write(al_outfile_stream(report), run, &a.ropt) != AL_OK) {
-		cli_error("%s: write error", out_name);
+		cli_error("%s: %s", out_name, cli_reason(AL_OK));
 		goto out;
 	}
 	st = al_assay_settle(run);

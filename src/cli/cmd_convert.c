@@ -115,10 +115,10 @@ cmd_convert(int argc, char **argv)
 		case ':':
 			return cli_usage_error("convert",
 					       "option '%s' needs a value",
-					       argv[optind - 1]);
+					       cli_bad_option(argv));
 		default:
 			return cli_usage_error("convert", "unknown option '%s'",
-					       argv[optind - 1]);
+					       cli_bad_option(argv));
 		}
 	}
 	if (argc - optind != 2)
@@ -186,7 +186,7 @@ cmd_convert(int argc, char **argv)
 		printf("%s %s %s\n", num, al_unit_name(to_unit), to_acid->name);
 	rc = fflush(stdout) == 0 && !ferror(stdout) ? 0 : EXIT_TROUBLE;
 	if (rc)
-		cli_error("write error on standard output");
+		cli_error("standard output: %s", cli_reason(AL_OK));
 out:
 	al_catalogue_free(cat);
 	return rc;

@@ -59,6 +59,7 @@ cmd_recovery(int argc, char **argv)
 	double ta = -1, start = -1, density = 0, recovered = -1, assay = -1, v;
 	const char *unit_name = NULL, *acid_name = NULL, *base_name = NULL;
 	const char *optname;
+	char name_buf[64];
 	int c, by_volume = 0, not_pass = 0, rc = EXIT_TROUBLE;
 	al_unit unit;
 	al_catalogue *cat = NULL;
@@ -77,7 +78,7 @@ cmd_recovery(int argc, char **argv)
 			return cli_usage_error("recovery", "%s '%s'",
 					       c == ':' ? "option needs a value"
 							: "unknown option",
-					       argv[optind - 1]);
+					       cli_bad_option(argv));
 		if (c == OPT_UNIT) {
 			unit_name = optarg;
 			continue;
@@ -90,12 +91,18 @@ cmd_recovery(int argc, char **argv)
 			base_name = optarg;
 			continue;
 		}
-		optname = argv[optind - 1];
+		optname = "an option";
+		for (const struct option *o = options; o->name; o++)
+			if (o->val == c) {
+				snprintf(name_buf, sizeof name_buf, "--%s",
+					 o->name);
+				optname = name_buf;
+			}
 		if (cli_number("recovery", optname, optarg, &v))
 			return EXIT_TROUBLE;
 		if (!(v > 0) && !(c == OPT_BRIX && v == 0))
-			return cli_usage_error("recovery", "%s must be above 0",
-					       optname);
+			return cli_usage_error("recovery", "%s: %s is not above 0",
+					       optname, optarg);
 		switch (c) {
 		case OPT_TA:
 			ta = v;
@@ -214,7 +221,7 @@ cmd_recovery(int argc, char **argv)
 	}
 	rc = fflush(stdout) == 0 && !ferror(stdout) ? not_pass : EXIT_TROUBLE;
 	if (rc == EXIT_TROUBLE)
-		cli_error("write error on standard output");
+		cli_error("standard output: %s", cli_reason(AL_OK));
 out:
 	al_catalogue_free(cat);
 	return rc;

@@ -190,12 +190,12 @@ parse_args(int argc, char **argv, struct args *a)
 		case ':':
 			return cli_usage_error("standardize",
 					       "option '%s' needs a value",
-					       argv[optind - 1]),
+					       cli_bad_option(argv)),
 			       -1;
 		default:
 			return cli_usage_error("standardize",
 					       "unknown option '%s'",
-					       argv[optind - 1]),
+					       cli_bad_option(argv)),
 			       -1;
 		}
 	}
@@ -318,11 +318,16 @@ load_register(const char *path, al_status *st, int *existed)
 {
 	al_diags d = {0};
 	al_register *reg;
-	FILE *in = fopen(path, "rb");
+	struct stat sb;
+	/* a device or FIFO named as the register is written, not read: it
+	 * holds no register to keep (and /dev/zero would never end) */
+	int device = stat(path, &sb) == 0 && !S_ISREG(sb.st_mode) &&
+		     !S_ISDIR(sb.st_mode);
+	FILE *in = device ? NULL : cli_open_input(path);
 
 	*existed = in != NULL;
 	if (in == NULL) {
-		if (errno != ENOENT) {
+		if (!device && errno != ENOENT) {
 			cli_error("%s: %s", path, cli_reason(AL_OK));
 			*st = AL_EIO;
 			return NULL;
@@ -384,7 +389,7 @@ cmd_standardize(int argc, char **argv)
 		goto out;
 	}
 	for (int i = optind; i < argc; i++) {
-		FILE *in = strcmp(argv[i], "-") == 0 ? stdin : fopen(argv[i], "rb");
+		FILE *in = strcmp(argv[i], "-") == 0 ? stdin : cli_open_input(argv[i]);
 		hashing_reader h;
 		char hex[65];
 
@@ -490,12 +495,12 @@ cmd_standardize(int argc, char **argv)
 		}
 		if (al_register_write(al_outfile_stream(reg_out), reg) != AL_OK ||
 		    al_outfile_prepare(reg_out) != AL_OK) {
-			cli_error("%s: write error", a.reg);
+			cli_error("%s: %s", a.reg, cli_reason(AL_OK));
 			goto out;
 		}
 	}
 	if (fflush(stdout) != 0 || ferror(stdout)) {
-		cli_error("write error on standard output");
+		cli_error("standard output: %s", cli_reason(AL_OK));
 		goto out;
 	}
 	if (a.record || a.reg) {

@@ -96,7 +96,7 @@ cmd_verify(int argc, char **argv)
 			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
 		}
 		return cli_usage_error("verify", "unknown option '%s'",
-				       argv[optind - 1]);
+				       cli_bad_option(argv));
 	}
 	if (optind >= argc)
 		return cli_usage_error("verify", "no record given");
@@ -133,7 +133,7 @@ cmd_verify(int argc, char **argv)
 		changed += n;
 	}
 	if (fflush(stdout) != 0 || ferror(stdout)) {
-		cli_error("write error on standard output");
+		cli_error("standard output: %s", cli_reason(AL_OK));
 		return EXIT_TROUBLE;
 	}
 	fprintf(stderr, PROG ": %s\n",

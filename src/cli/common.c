@@ -2,6 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #define _XOPEN_SOURCE 700
 #include <errno.h>
+#include <getopt.h>
 #include <limits.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -185,6 +186,33 @@ cli_same_file(const char *a, const char *b)
 
 	return stat(a, &sa) == 0 && stat(b, &sb) == 0 &&
 	       sa.st_dev == sb.st_dev && sa.st_ino == sb.st_ino;
+}
+
+const char *
+cli_bad_option(char **argv)
+{
+	static char short_opt[3];
+	const char *prev = optind > 0 ? argv[optind - 1] : "";
+
+	if (strncmp(prev, "--", 2) == 0 || !(optopt > ' ' && optopt < 127))
+		return prev;
+	short_opt[0] = '-';
+	short_opt[1] = (char)optopt;
+	return short_opt;
+}
+
+FILE *
+cli_open_input(const char *path)
+{
+	FILE *f = fopen(path, "rb");
+	struct stat st;
+
+	if (f != NULL && fstat(fileno(f), &st) == 0 && S_ISDIR(st.st_mode)) {
+		fclose(f);
+		errno = EISDIR;
+		return NULL;
+	}
+	return f;
 }
 
 /* What a path names: a device and inode, or where it would be made. */
