@@ -230,6 +230,9 @@ reg_row(void *ud, const al_csv_row *row)
 	s = al_cell(row, r->col[R_LOT], &len);
 	if (al_text_identifier(s, len, &r->ident, &r->ident_cap, &len) != AL_OK)
 		return AL_ENOMEM;
+	/* the register is written guarded against formulas: as it was */
+	len = al_csv_unguard(r->ident, len);
+	r->ident[len] = '\0';
 	s = r->ident;
 	if (len == 0)
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
@@ -247,6 +250,8 @@ reg_row(void *ud, const al_csv_row *row)
 	t.lot = al_strndup(s, len);
 	s = al_cell(row, r->col[R_STANDARD], &len);
 	t.standard = al_strndup(s, len);
+	if (t.standard)
+		t.standard[al_csv_unguard(t.standard, strlen(t.standard))] = '\0';
 	if (t.lot && t.standard && al_register_find(r->reg, t.lot)) {
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 			     "titrant_lot", "'%s' is listed twice", t.lot);

@@ -277,15 +277,53 @@ sink_ulong(struct sink *k, unsigned long v)
 	sink_put(k, tmp + i, sizeof tmp - i);
 }
 
-static void
+/* A byte that starts a formula in a spreadsheet cell (OWASP, CSV
+ * injection), and one that a spreadsheet may split cells at: a text
+ * cell is guarded wherever one of its pieces, as a spreadsheet set to
+ * any of these delimiters would split it, starts a formula. */
+#define FORMULA_START "=+-@\t\r"
+#define ANY_DELIMITER ",;\t"
+
+/* Byte i of s starts a piece that a spreadsheet would run as a formula,
+ * or one already guarded ('s before a formula), so that one ' more keeps
+ * the guard reversible (al_csv_unguard). */
+static int
+risky_at(const char *s, size_t len, size_t i)
+{
+	if (i > 0 && strchr(ANY_DELIMITER, s[i - 1]) == NULL)
+		return 0;
+	while (i < len && s[i] == '\'')
+		i++;
+	return i < len && s[i] != '\0' && strchr(FORMULA_START, s[i]) != NULL;
+}
+
+size_t
+al_csv_unguard(char *s, size_t len)
+{
+	size_t n = 0;
+
+	for (size_t i = 0; i < len; i++) {
+		if (s[i] == '\'' && risky_at(s, len, i))
+			i++; /* the guard's ' */
+		if (i < len)
+			s[n++] = s[i];
+	}
+	return n;
+}
+
+/* Writes s as one CSV field, quoted as RFC 4180 asks; with guard, a '
+ * goes before every piece that starts a formula (risky_at). The count of
+ * guards written. */
+static unsigned long
 put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
-	   int prefix)
+	   int guard)
 {
 	/* the bytes that make a field quoted: CR, LF, the quote (and the
 	 * delimiter, compared on its own) */
 	static const unsigned char special[256] = {['\r'] = 1, ['\n'] = 1,
 						   ['"'] = 2};
-	int quote = 0, quotes = 0;
+	int quote = 0, quotes = 0, risky = 0;
+	unsigned long guards = 0;
 
 	for (size_t i = 0; i < len; i++) {
 		unsigned char c = (unsigned char)s[i];
@@ -295,31 +333,31 @@ put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
 			if (special[c] == 2)
 				quotes = 1;
 		}
+		risky |= guard && risky_at(s, len, i);
 	}
 	if (quote)
 		sink_char(k, '"');
-	if (prefix)
-		sink_char(k, '\'');
-	if (!quotes)
+	if (!quotes && !risky)
 		sink_put(k, s, len);
 	else
 		for (size_t i = 0; i < len; i++) {
+			if (risky && risky_at(s, len, i)) {
+				sink_char(k, '\'');
+				guards++;
+			}
 			if (s[i] == '"')
 				sink_char(k, '"');
 			sink_char(k, s[i]);
 		}
 	if (quote)
 		sink_char(k, '"');
+	return guards;
 }
 
 static void
 put_text(struct sink *k, const char *s, size_t len, al_report_options *opt)
 {
-	int guard = len > 0 && !opt->raw_text && strchr("=+-@\t\r", s[0]);
-
-	if (guard)
-		k->guarded++;
-	put_quoted(k, s, len, delim_of(opt), guard);
+	k->guarded += put_quoted(k, s, len, delim_of(opt), !opt->raw_text) > 0;
 }
 
 int
@@ -329,7 +367,7 @@ al_csv_put_field(FILE *out, const char *s, char delimiter)
 	struct sink k;
 
 	sink_open(&k, out, kb, sizeof kb);
-	put_quoted(&k, s, strlen(s), delimiter ? delimiter : ',', 0);
+	put_quoted(&k, s, strlen(s), delimiter ? delimiter : ',', 1);
 	sink_flush(&k);
 	return ferror(out) ? EOF : 0;
 }

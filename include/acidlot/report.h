@@ -28,14 +28,20 @@ typedef struct al_report_options {
 void al_format_number(double v, int decimals, int decimal_comma, char *buf,
 		      size_t cap);
 
-/* Writes one CSV field, quoted as RFC 4180 asks when it holds the
- * delimiter, a quote, CR or LF. Returns 0, or EOF on a write error. */
+/* Writes one CSV text field, quoted as RFC 4180 asks when it holds the
+ * delimiter, a quote, CR or LF, and guarded against formulas as
+ * al_csv_put_text does. Returns 0, or EOF on a write error. */
 int al_csv_put_field(FILE *out, const char *s, char delimiter);
+/* Undoes the guard in place: s[0..len) as it was before it was written;
+ * returns its new length. */
+size_t al_csv_unguard(char *s, size_t len);
 
-/* Writes a text cell copied from the input. Unless opt->raw_text, a cell
- * that starts with '=', '+', '-', '@', tab or CR gets a leading single
- * quote so that a spreadsheet shows it as text instead of running it as a
- * formula (OWASP, CSV injection); opt->guarded counts them. */
+/* Writes a text cell copied from the input. Unless opt->raw_text, every
+ * piece of it that starts with '=', '+', '-', '@', tab or CR (the cell's
+ * start, and after each ',', ';' or tab, where a spreadsheet set to
+ * another delimiter would split it) gets a leading single quote, so that
+ * a spreadsheet shows it as text instead of running it as a formula
+ * (OWASP, CSV injection); opt->guarded counts the cells. */
 int al_csv_put_text(FILE *out, const char *s, size_t len,
 		    al_report_options *opt);
 
