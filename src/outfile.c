@@ -20,6 +20,33 @@ struct al_outfile {
 	int closed; /* prepared: flushed, checked and closed */
 };
 
+/* The temporary files of the outputs open now, for
+ * al_outfile_unlink_all: a slot is set once its name is complete and
+ * cleared before the name is freed, each a single store. */
+#define OPEN_MAX 64
+static char *volatile open_tmp[OPEN_MAX];
+
+static void
+note_tmp(char *tmp, char *old)
+{
+	for (int i = 0; i < OPEN_MAX; i++)
+		if (open_tmp[i] == old) {
+			open_tmp[i] = tmp;
+			return;
+		}
+}
+
+void
+al_outfile_unlink_all(void)
+{
+	for (int i = 0; i < OPEN_MAX; i++) {
+		char *t = open_tmp[i];
+
+		if (t != NULL)
+			unlink(t);
+	}
+}
+
 al_outfile *
 al_outfile_open(const char *path, al_status *status)
 {
@@ -85,12 +112,14 @@ al_outfile_open(const char *path, al_status *status)
 	fd = mkstemp(f->tmp);
 	if (fd < 0)
 		goto io;
+	note_tmp(f->tmp, NULL); /* a signal now removes it */
 	/* mkstemp makes 0600 */
 	if (fchmod(fd, mode) != 0 ||
 	    (f->stream = fdopen(fd, "w")) == NULL) {
 		saved = errno;
 		close(fd);
 		unlink(f->tmp);
+		note_tmp(NULL, f->tmp);
 		errno = saved;
 		goto io;
 	}
@@ -145,6 +174,8 @@ al_outfile_in_place(const al_outfile *f)
 static void
 release(al_outfile *f)
 {
+	if (f->tmp)
+		note_tmp(NULL, f->tmp);
 	al_free(f->tmp);
 	al_free(f->dest);
 	al_free(f->path);

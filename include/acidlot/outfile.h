@@ -33,4 +33,8 @@ al_status al_outfile_commit(al_outfile *f);
 /* Discards everything written; frees f. Accepts NULL. */
 void al_outfile_abort(al_outfile *f);
 
+/* Removes every temporary file of the outputs still open; only unlink,
+ * so a signal handler may call it (async-signal-safe). */
+void al_outfile_unlink_all(void);
+
 #endif

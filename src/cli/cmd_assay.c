@@ -1144,10 +1144,12 @@ cmd_assay(int argc, char **argv)
 	}
 	/* each result is evaluated once, as the report is written */
 	st = al_assay_finish_lazy(run);
-	if (st != AL_OK) {
+	if (st == AL_EIO && a.replicates) /* the replicates are written here */
+		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
+	else if (st != AL_OK)
 		cli_error("%s", al_strerror(st));
+	if (st != AL_OK)
 		goto out;
-	}
 	/* the run's id, in every report row and in the record */
 	if (record_seal(&rec) != 0) {
 		cli_error("%s", al_strerror(AL_ENOMEM));
@@ -1162,10 +1164,12 @@ cmd_assay(int argc, char **argv)
 		goto out;
 	}
 	st = al_assay_settle(run);
-	if (st != AL_OK) {
+	if (st == AL_EIO && a.replicates)
+		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
+	else if (st != AL_OK)
 		cli_error("%s", al_strerror(st));
+	if (st != AL_OK)
 		goto out;
-	}
 	if (a.budget) {
 		budget_out = open_output(a.budget, NULL, &a.ropt);
 		if (budget_out == NULL)

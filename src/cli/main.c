@@ -1,6 +1,8 @@
 /* acidlot command line: dispatch to the sub-commands.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _POSIX_C_SOURCE 200809L
 #include <gsl/gsl_errno.h>
+#include <signal.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -39,6 +41,32 @@ usage(FILE *out)
 
 static int dispatch(int argc, char **argv);
 
+/* A signal that ends the run removes the outputs' temporary files
+ * first, then ends it as the signal would (exit 128 + signal). */
+static void
+on_signal(int sig)
+{
+	al_outfile_unlink_all();
+	signal(sig, SIG_DFL);
+	raise(sig);
+}
+
+static void
+catch_signals(void)
+{
+	static const int sigs[] = {SIGINT, SIGTERM, SIGHUP, SIGPIPE};
+	struct sigaction sa;
+
+	memset(&sa, 0, sizeof sa);
+	sa.sa_handler = on_signal;
+	sigemptyset(&sa.sa_mask);
+	for (size_t i = 0; i < sizeof sigs / sizeof sigs[0]; i++)
+		sigaction(sigs[i], &sa, NULL);
+	/* past a file size limit, a write fails with EFBIG instead: the
+	 * run says so, removes its files and exits 2 */
+	signal(SIGXFSZ, SIG_IGN);
+}
+
 /* Test hooks (DEVELOPERS.md): ACIDLOT_FAIL_ALLOC_AT=N makes the N-th
  * allocation and every later one fail; ACIDLOT_COUNT_ALLOC=1 prints how
  * many allocations the run made. */
@@ -48,6 +76,7 @@ main(int argc, char **argv)
 	const char *fail_at = getenv("ACIDLOT_FAIL_ALLOC_AT");
 	int rc;
 
+	catch_signals();
 	record_use_library_alloc();
 	if (fail_at && *fail_at)
 		al_alloc_fail_at(strtoul(fail_at, NULL, 10));
