@@ -16,6 +16,7 @@ struct al_outfile {
 	char *path;
 	char *dest; /* the file replaced: path, or a symbolic link's target */
 	char *tmp;  /* NULL when written in place */
+	char *old;  /* room for the name of a link to the file replaced */
 	int direct; /* a device or pipe, written in place and closed */
 	int closed; /* prepared: flushed, checked and closed */
 };
@@ -105,7 +106,8 @@ al_outfile_open(const char *path, al_status *status)
 	slash = strrchr(f->dest, '/');
 	dirlen = slash ? (size_t)(slash - f->dest + 1) : 0;
 	f->tmp = al_malloc(dirlen + sizeof ".acidlot-XXXXXX");
-	if (f->tmp == NULL)
+	f->old = al_malloc(dirlen + sizeof ".acidlot-old-XXXXXX");
+	if (f->tmp == NULL || f->old == NULL)
 		goto nomem;
 	memcpy(f->tmp, f->dest, dirlen);
 	memcpy(f->tmp + dirlen, ".acidlot-XXXXXX", sizeof ".acidlot-XXXXXX");
@@ -130,6 +132,7 @@ al_outfile_open(const char *path, al_status *status)
 io:
 	saved = errno;
 	al_free(f->tmp);
+	al_free(f->old);
 	al_free(f->dest);
 	al_free(f->path);
 	al_free(f);
@@ -139,6 +142,7 @@ io:
 nomem:
 	if (f) {
 		al_free(f->tmp);
+		al_free(f->old);
 		al_free(f->dest);
 		al_free(f->path);
 	}
@@ -177,6 +181,7 @@ release(al_outfile *f)
 	if (f->tmp)
 		note_tmp(NULL, f->tmp);
 	al_free(f->tmp);
+	al_free(f->old);
 	al_free(f->dest);
 	al_free(f->path);
 	al_free(f);
@@ -234,6 +239,108 @@ al_outfile_commit(al_outfile *f)
 		errno = saved;
 	}
 	release(f);
+	return bad ? AL_EIO : AL_OK;
+}
+
+/* Flushes, syncs and closes an output not yet closed; 0 or -1. */
+static int
+settle(al_outfile *f)
+{
+	int bad;
+
+	if (f->closed) /* prepared: checked already */
+		return 0;
+	bad = fflush(f->stream) != 0 || ferror(f->stream);
+	if (f->tmp == NULL)
+		return bad ? -1 : 0;
+	if (!bad && fsync(fileno(f->stream)) != 0 && errno != EINVAL)
+		bad = 1;
+	if (fclose(f->stream) != 0)
+		bad = 1;
+	f->closed = 1;
+	return bad ? -1 : 0;
+}
+
+/* A hard link to the file an output will replace, beside it, named in
+ * f->old; NULL when none can be made (then the output is put in place
+ * without one). */
+static char *
+keep_old(al_outfile *f)
+{
+	size_t n = strlen(f->tmp);
+	int fd;
+
+	memcpy(f->old, f->tmp, n - 6);
+	memcpy(f->old + n - 6, "old-XXXXXX", 11);
+	fd = mkstemp(f->old);
+	if (fd >= 0) {
+		close(fd);
+		unlink(f->old);
+		if (link(f->dest, f->old) == 0)
+			return f->old;
+	}
+	return NULL;
+}
+
+al_status
+al_outfile_commit_all(al_outfile **files[], size_t n)
+{
+	char *kept[n ? n : 1];
+	int existed[n ? n : 1], saved = 0;
+	size_t done = 0;
+	int bad = 0;
+
+	for (size_t i = 0; i < n; i++) {
+		kept[i] = NULL;
+		existed[i] = 0;
+		if (*files[i] != NULL && !bad && settle(*files[i]) != 0) {
+			bad = 1;
+			saved = errno;
+		}
+	}
+	for (size_t i = 0; i < n && !bad; i++) {
+		al_outfile *f = *files[i];
+		struct stat sb;
+
+		if (f == NULL || f->tmp == NULL)
+			continue;
+		existed[i] = stat(f->dest, &sb) == 0;
+		if (existed[i])
+			kept[i] = keep_old(f);
+	}
+	for (; done < n && !bad; done++) {
+		al_outfile *f = *files[done];
+
+		if (f != NULL && f->tmp != NULL && rename(f->tmp, f->dest) != 0) {
+			bad = 1;
+			saved = errno;
+			break;
+		}
+	}
+	for (size_t i = 0; i < n; i++) {
+		al_outfile *f = *files[i];
+
+		if (f == NULL)
+			continue;
+		if (bad && f->tmp != NULL && i < done) {
+			/* put back what was there */
+			if (kept[i] != NULL)
+				rename(kept[i], f->dest);
+			else if (!existed[i])
+				unlink(f->dest);
+		} else if (bad && f->tmp != NULL)
+			unlink(f->tmp);
+		if (kept[i] != NULL)
+			unlink(kept[i]);
+		if (f->tmp == NULL && f->direct)
+			fclose(f->stream);
+		if (f->tmp != NULL && !f->closed)
+			fclose(f->stream);
+		release(f);
+		*files[i] = NULL;
+	}
+	if (bad)
+		errno = saved;
 	return bad ? AL_EIO : AL_OK;
 }
 

@@ -33,6 +33,13 @@ al_status al_outfile_commit(al_outfile *f);
 /* Discards everything written; frees f. Accepts NULL. */
 void al_outfile_abort(al_outfile *f);
 
+/* Puts n outputs in place, all or none: each is flushed and checked,
+ * each file it replaces is kept under a hard link until every rename has
+ * succeeded, and a failure at any step puts back what was there (and
+ * removes what was not). The outputs are freed and their pointers set to
+ * NULL either way; AL_EIO with errno on a failure. */
+al_status al_outfile_commit_all(al_outfile **files[], size_t n);
+
 /* Removes every temporary file of the outputs still open; only unlink,
  * so a signal handler may call it (async-signal-safe). */
 void al_outfile_unlink_all(void);

@@ -317,17 +317,8 @@ cli_reason(al_status st)
 int
 cli_commit_all(al_outfile **files[], size_t n)
 {
-	al_status st = AL_OK;
+	al_status st = al_outfile_commit_all(files, n);
 
-	for (size_t i = 0; i < n; i++) {
-		if (*files[i] == NULL)
-			continue;
-		if (st == AL_OK)
-			st = al_outfile_commit(*files[i]);
-		else
-			al_outfile_abort(*files[i]);
-		*files[i] = NULL;
-	}
 	if (st != AL_OK) {
 		cli_error("cannot put the outputs in place: %s", cli_reason(st));
 		return -1;
