@@ -4,8 +4,10 @@
 #include "acidlot/outfile.h"
 
 #include <errno.h>
+#include <fcntl.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/file.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -282,9 +284,75 @@ keep_old(al_outfile *f)
 	return NULL;
 }
 
+/* Locks the folders of the outputs (flock, exclusive, in the order of
+ * their device and inode so that two runs cannot wait on each other):
+ * two runs putting the same outputs in place take turns, and each run's
+ * outputs land together. fds[i] is -1 where a folder is not locked
+ * (another output's, or one that cannot be opened). */
+static void
+lock_folders(al_outfile **files[], size_t n, int *fds)
+{
+	struct stat st[n ? n : 1];
+	char done[n ? n : 1];
+
+	for (size_t i = 0; i < n; i++) {
+		al_outfile *f = *files[i];
+		char *slash;
+
+		fds[i] = -1;
+		done[i] = 0;
+		if (f == NULL || f->tmp == NULL)
+			continue;
+		slash = strrchr(f->dest, '/');
+		if (slash == f->dest)
+			fds[i] = open("/", O_RDONLY | O_DIRECTORY);
+		else if (slash) {
+			*slash = '\0';
+			fds[i] = open(f->dest, O_RDONLY | O_DIRECTORY);
+			*slash = '/';
+		} else
+			fds[i] = open(".", O_RDONLY | O_DIRECTORY);
+		if (fds[i] >= 0 && fstat(fds[i], &st[i]) != 0) {
+			close(fds[i]);
+			fds[i] = -1;
+		}
+		for (size_t j = 0; fds[i] >= 0 && j < i; j++)
+			if (fds[j] >= 0 && st[j].st_dev == st[i].st_dev &&
+			    st[j].st_ino == st[i].st_ino) {
+				close(fds[i]);
+				fds[i] = -1;
+			}
+	}
+	/* the lowest not yet locked, then the next */
+	for (size_t k = 0; k < n; k++) {
+		size_t lo = n;
+
+		for (size_t i = 0; i < n; i++)
+			if (fds[i] >= 0 && !done[i] &&
+			    (lo == n || st[i].st_dev < st[lo].st_dev ||
+			     (st[i].st_dev == st[lo].st_dev &&
+			      st[i].st_ino < st[lo].st_ino)))
+				lo = i;
+		if (lo == n)
+			break;
+		while (flock(fds[lo], LOCK_EX) != 0 && errno == EINTR)
+			;
+		done[lo] = 1;
+	}
+}
+
+static void
+unlock_folders(const int *fds, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		if (fds[i] >= 0)
+			close(fds[i]); /* and its lock */
+}
+
 al_status
 al_outfile_commit_all(al_outfile **files[], size_t n)
 {
+	int locks[n ? n : 1];
 	char *kept[n ? n : 1];
 	int existed[n ? n : 1], saved = 0;
 	size_t done = 0;
@@ -293,11 +361,14 @@ al_outfile_commit_all(al_outfile **files[], size_t n)
 	for (size_t i = 0; i < n; i++) {
 		kept[i] = NULL;
 		existed[i] = 0;
+		locks[i] = -1;
 		if (*files[i] != NULL && !bad && settle(*files[i]) != 0) {
 			bad = 1;
 			saved = errno;
 		}
 	}
+	if (!bad)
+		lock_folders(files, n, locks);
 	for (size_t i = 0; i < n && !bad; i++) {
 		al_outfile *f = *files[i];
 		struct stat sb;
@@ -339,6 +410,7 @@ al_outfile_commit_all(al_outfile **files[], size_t n)
 		release(f);
 		*files[i] = NULL;
 	}
+	unlock_folders(locks, n);
 	if (bad)
 		errno = saved;
 	return bad ? AL_EIO : AL_OK;
