@@ -29,6 +29,7 @@ al_std_params_default(al_std_params *p)
 	 * balance linearity +/-0.15 mg, burette +/-0.03 mL triangular,
 	 * 2.1e-4 /K volume expansion of water, +/-3 K lab temperature as a
 	 * 95 % interval (u = V 2.1e-4 3 / 1.96 = 0.006 mL at 18.64 mL). */
+	memset(p, 0, sizeof *p); /* every field, the ones added later too */
 	p->balance_linearity_g = 0.00015;
 	p->burette_tol_ml = 0.03;
 	p->temp_range_c = 3;
