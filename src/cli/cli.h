@@ -28,6 +28,8 @@ int cmd_recovery(int argc, char **argv);
  * alike); control characters from inputs are shown escaped (\r, \x1b),
  * here and in cli_usage_error and cli_print_diags. */
 void cli_error(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+/* Writes s with its control characters escaped, as cli_error does. */
+void cli_put_escaped(FILE *out, const char *s);
 /* A usage error: the message, then "try 'acidlot CMD --help'"; returns 2. */
 int cli_usage_error(const char *cmd, const char *fmt, ...)
 	__attribute__((format(printf, 2, 3)));

@@ -1261,7 +1261,7 @@ cmd_assay(int argc, char **argv)
 		    fill_record(&rec, run,
 				a.aopt.qc.decision == AL_DECISION_GUARDED,
 				a.aopt.qc.guard_r, a.aopt.qc.exclude_outliers) != 0 ||
-		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
+		    record_write(&rec, al_outfile_stream(rec_out), path) != 0 ||
 		    al_outfile_prepare(rec_out) != AL_OK) {
 			cli_error("%s: cannot write the record of the run: %s",
 				  path, cli_reason(AL_OK));

@@ -549,7 +549,7 @@ cmd_standardize(int argc, char **argv)
 		    listed(&rec, "budget", a.budget, budget_out) ||
 		    listed(&rec, "register", a.reg, reg_out) ||
 		    record_seal(&rec) != 0 ||
-		    record_write(&rec, al_outfile_stream(rec_out)) != 0 ||
+		    record_write(&rec, al_outfile_stream(rec_out), path) != 0 ||
 		    al_outfile_prepare(rec_out) != AL_OK) {
 			cli_error("%s: cannot write the record: %s", path,
 				  cli_reason(AL_OK));

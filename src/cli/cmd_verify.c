@@ -22,6 +22,15 @@ usage(FILE *out)
 
 /* Checks one list of files; returns how many changed or are missing, -1
  * when the record is malformed. */
+/* One file's line: what, its role, its name (escaped), a note. */
+static void
+line(const char *what, const char *role, const char *path, const char *note)
+{
+	printf("%s %s ", what, role ? role : "");
+	cli_put_escaped(stdout, path);
+	printf("%s\n", note);
+}
+
 static int
 check_files(json_t *list, const char *record, cli_hash_fn hash)
 {
@@ -29,11 +38,14 @@ check_files(json_t *list, const char *record, cli_hash_fn hash)
 	json_t *f;
 	int changed = 0;
 
-	if (!json_is_array(list))
-		return -1;
+	if (!json_is_array(list) || json_array_size(list) == 0)
+		return -1; /* a record proves something of some files */
 	json_array_foreach(list, i, f)
 	{
 		const char *path = json_string_value(json_object_get(f, "path"));
+		const char *rel =
+			json_string_value(json_object_get(f, "from_record"));
+		char where[8192];
 		const char *role = json_string_value(json_object_get(f, "role"));
 		const char *want = json_string_value(json_object_get(f, "sha256"));
 		char hex[65];
@@ -42,28 +54,37 @@ check_files(json_t *list, const char *record, cli_hash_fn hash)
 		if (path == NULL)
 			return -1;
 		if (want == NULL && json_is_null(json_object_get(f, "sha256"))) {
-			printf("skipped  %s %s (written in place to a device or "
-			       "pipe: not hashed)\n",
-			       role ? role : "", path);
+			line("skipped ", role, path,
+			     " (written in place to a device or pipe: not "
+			     "hashed)");
 			continue;
 		}
 		if (want == NULL)
 			return -1;
 		if (strcmp(path, "-") == 0) {
-			printf("skipped  %s %s (standard input cannot be read "
-			       "again)\n",
-			       role ? role : "", path);
+			line("skipped ", role, path,
+			     " (standard input cannot be read again)");
 			continue;
 		}
+		/* from the record's own folder, so that verify works from
+		 * any directory */
+		if (rel != NULL && rel[0] != '/') {
+			const char *slash = strrchr(record, '/');
+
+			snprintf(where, sizeof where, "%.*s%s",
+				 slash ? (int)(slash - record + 1) : 0, record,
+				 rel);
+			path = where;
+		}
 		if (hash(path, hex, &bytes) != 0) {
-			printf("MISSING  %s %s\n", role ? role : "", path);
+			line(errno == ENOENT ? "MISSING " : "NOT A FILE", role,
+			     path, "");
 			changed++;
 		} else if (strcmp(hex, want) != 0) {
-			printf("CHANGED  %s %s (SHA-256 differs from %s)\n",
-			       role ? role : "", path, record);
+			line("CHANGED ", role, path, " (SHA-256 differs from the record)");
 			changed++;
 		} else
-			printf("ok       %s %s\n", role ? role : "", path);
+			line("ok      ", role, path, "");
 	}
 	return changed;
 }

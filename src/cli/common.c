@@ -16,23 +16,23 @@
 /* Writes s to stderr with every control character shown escaped (\r,
  * \n, \t, \x1b; C1 controls as their UTF-8 bytes \xc2\x9b), so that no
  * byte from an input can move the cursor or forge a line. */
-static void
-put_escaped(const char *s)
+void
+cli_put_escaped(FILE *out, const char *s)
 {
 	for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
 		if (*p == '\r')
-			fputs("\\r", stderr);
+			fputs("\\r", out);
 		else if (*p == '\n')
-			fputs("\\n", stderr);
+			fputs("\\n", out);
 		else if (*p == '\t')
-			fputs("\\t", stderr);
+			fputs("\\t", out);
 		else if (*p < 0x20 || *p == 0x7f)
-			fprintf(stderr, "\\x%02x", *p);
+			fprintf(out, "\\x%02x", *p);
 		else if (*p == 0xc2 && p[1] >= 0x80 && p[1] <= 0x9f) {
-			fprintf(stderr, "\\xc2\\x%02x", p[1]);
+			fprintf(out, "\\xc2\\x%02x", p[1]);
 			p++;
 		} else
-			fputc(*p, stderr);
+			fputc(*p, out);
 	}
 }
 
@@ -49,7 +49,7 @@ vput_escaped(const char *fmt, va_list ap)
 	if (n >= (int)sizeof small && (text = malloc((size_t)n + 1)) != NULL)
 		vsnprintf(text, (size_t)n + 1, fmt, again);
 	va_end(again);
-	put_escaped(text ? text : small);
+	cli_put_escaped(stderr, text ? text : small);
 	if (text != small)
 		free(text);
 }

@@ -4,15 +4,18 @@
  * JSON through jansson (escaping and parsing done right, allocation
  * routable to our allocator); SHA-256 through nettle (small, well kept,
  * no allocation). Both from Debian (libjansson-dev, nettle-dev). */
-#define _POSIX_C_SOURCE 200809L
+#define _XOPEN_SOURCE 700
 #include "record.h"
 
 #include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
 #include <pthread.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <time.h>
+#include <unistd.h>
 
 #include "acidlot/table.h"
 #include "cli.h"
@@ -210,13 +213,24 @@ hashing_reader_hex(hashing_reader *h, char hex[65])
 int
 sha256_file(const char *path, char hex[65], unsigned long long *bytes)
 {
-	FILE *f = fopen(path, "rb");
+	/* never blocks on a FIFO or a device: only a regular file is read */
+	int fd = open(path, O_RDONLY | O_NONBLOCK);
+	struct stat st;
+	FILE *f;
 	hashing_reader h;
 	char buf[65536];
 	int failed = 0;
 
-	if (f == NULL)
+	if (fd < 0)
 		return -1;
+	if (fstat(fd, &st) != 0 || !S_ISREG(st.st_mode) ||
+	    (f = fdopen(fd, "rb")) == NULL) {
+		int saved = S_ISDIR(st.st_mode) ? EISDIR : errno ? errno : EINVAL;
+
+		close(fd);
+		errno = saved;
+		return -1;
+	}
 	hashing_reader_init(&h, f);
 	while (hashing_read(&h, buf, sizeof buf, &failed) > 0 && !failed)
 		;
@@ -466,9 +480,79 @@ dump_to(const char *buffer, size_t size, void *data)
 	return fwrite(buffer, 1, size, data) == size ? 0 : -1;
 }
 
-int
-record_write(run_record *r, FILE *out)
+/* The absolute form of a path whose folder exists: the folder's real
+ * path and the name. 0, or -1. */
+static int
+absolute(const char *path, char *out, size_t cap)
 {
+	const char *slash = strrchr(path, '/');
+	char dir[PATH_MAX], real[PATH_MAX];
+
+	snprintf(dir, sizeof dir, "%.*s",
+		 slash ? (int)(slash - path) + (slash == path) : 1,
+		 slash ? path : ".");
+	if (realpath(dir, real) == NULL)
+		return -1;
+	return snprintf(out, cap, "%s/%s", strcmp(real, "/") ? real : "",
+			slash ? slash + 1 : path) < (int)cap
+		       ? 0
+		       : -1;
+}
+
+/* to (absolute) relative to the folder from (absolute): "../x/y". */
+static int
+relative(const char *from, const char *to, char *out, size_t cap)
+{
+	size_t k = 0, n = 0;
+
+	/* k: the end of the longest common folder */
+	for (size_t i = 0;; i++) {
+		if ((from[i] == '\0' || from[i] == '/') && to[i] == '/')
+			k = i;
+		if (from[i] == '\0' || from[i] != to[i])
+			break;
+	}
+	out[0] = '\0';
+	for (const char *p = from + k; *p && n < cap; p++)
+		if (*p == '/' && p[1] != '\0' && p[1] != '/')
+			n += (size_t)snprintf(out + n, cap - n, "../");
+	if (n >= cap)
+		return -1;
+	return snprintf(out + n, cap - n, "%s", to + k + 1) < (int)(cap - n)
+		       ? 0
+		       : -1;
+}
+
+/* Gives each named file its path from the record's folder
+ * ("from_record"), so that verify finds it from any directory. */
+static void
+locate(json_t *list, const char *record_dir)
+{
+	size_t i;
+	json_t *f;
+
+	json_array_foreach(list, i, f)
+	{
+		const char *path = json_string_value(json_object_get(f, "path"));
+		char abs[PATH_MAX + NAME_MAX + 2], rel[3 * PATH_MAX];
+
+		if (path && strcmp(path, "-") != 0 &&
+		    absolute(path, abs, sizeof abs) == 0 &&
+		    relative(record_dir, abs, rel, sizeof rel) == 0)
+			json_object_set_new(f, "from_record", record_text(rel));
+	}
+}
+
+int
+record_write(run_record *r, FILE *out, const char *path)
+{
+	char abs[PATH_MAX + NAME_MAX + 2];
+
+	if (path && absolute(path, abs, sizeof abs) == 0) {
+		*strrchr(abs, '/') = '\0';
+		locate(r->inputs, abs[0] ? abs : "/");
+		locate(r->outputs, abs[0] ? abs : "/");
+	}
 	if (json_dump_callback(r->root, dump_to, out,
 			       JSON_INDENT(2) | JSON_SORT_KEYS) != 0 ||
 	    fputc('\n', out) == EOF)

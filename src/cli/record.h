@@ -88,7 +88,7 @@ int record_output_hashed(run_record *r, const char *role, const char *path,
  * stores it ("report_id"). */
 int record_seal(run_record *r);
 /* Writes the record as JSON; 0 on success. */
-int record_write(run_record *r, FILE *out);
+int record_write(run_record *r, FILE *out, const char *path);
 void record_free(run_record *r);
 
 /* Sets jansson to allocate through al_malloc/al_free. */
