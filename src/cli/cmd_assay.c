@@ -1071,8 +1071,11 @@ cmd_assay(int argc, char **argv)
 		rejs.out = al_outfile_stream(rej_out);
 		a.aopt.on_reject = write_reject;
 		a.aopt.reject_ud = &rejs;
-		a.aopt.csv.recover = 1;
 	}
+	/* a malformed record is an invalid row in either mode, and the
+	 * rows after it are still read: every error is said, and the counts
+	 * agree with --rejects' */
+	a.aopt.csv.recover = 1;
 	run = al_assay_new(&a.aopt, &st);
 	if (run == NULL) {
 		cli_error("%s", al_strerror(st));
