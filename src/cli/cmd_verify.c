@@ -179,15 +179,19 @@ check_files(json_t *list, const char *record, cli_hash_fn hash)
 		return -1; /* a record proves something of some files */
 	json_array_foreach(list, i, f)
 	{
-		const char *path = json_string_value(json_object_get(f, "path"));
+		char raw[4096], raw_rel[4096], where[8192];
+		const char *path = record_name(f, "path_hex", raw, sizeof raw);
 		const char *rel =
-			json_string_value(json_object_get(f, "from_record"));
-		char where[8192];
+			record_name(f, "from_record_hex", raw_rel, sizeof raw_rel);
 		const char *role = json_string_value(json_object_get(f, "role"));
 		const char *want = json_string_value(json_object_get(f, "sha256"));
 		char hex[65];
 		unsigned long long bytes;
 
+		if (path == NULL)
+			path = json_string_value(json_object_get(f, "path"));
+		if (rel == NULL)
+			rel = json_string_value(json_object_get(f, "from_record"));
 		if (path == NULL)
 			return -1;
 		if (want == NULL && json_is_null(json_object_get(f, "sha256"))) {

@@ -368,13 +368,61 @@ record_text(const char *s)
 	return j;
 }
 
+/* A file name that is not UTF-8 shows as U+FFFD in the record's text;
+ * its bytes are kept too, in hex under key, so that verify finds the
+ * file. Returns o, or NULL (o freed) when memory runs out. */
+static json_t *
+keep_name(json_t *o, const char *key, const char *name)
+{
+	size_t n = strlen(name);
+	char *hex;
+
+	if (o == NULL || al_utf8_valid(name, n))
+		return o;
+	hex = al_malloc(2 * n + 1);
+	if (hex == NULL) {
+		json_decref(o);
+		return NULL;
+	}
+	for (size_t i = 0; i < n; i++)
+		snprintf(hex + 2 * i, 3, "%02x", (unsigned char)name[i]);
+	if (json_object_set_new(o, key, json_string(hex)) != 0) {
+		json_decref(o);
+		o = NULL;
+	}
+	al_free(hex);
+	return o;
+}
+
+/* The bytes of a name kept in hex, into out (cap bytes); NULL when the
+ * entry has none or it does not fit. */
+const char *
+record_name(json_t *f, const char *key, char *out, size_t cap)
+{
+	const char *hex = json_string_value(json_object_get(f, key));
+	size_t n = hex ? strlen(hex) : 0;
+
+	if (hex == NULL || n % 2 || n / 2 >= cap)
+		return NULL;
+	for (size_t i = 0; i < n / 2; i++) {
+		unsigned v;
+
+		if (sscanf(hex + 2 * i, "%2x", &v) != 1 || v == 0)
+			return NULL;
+		out[i] = (char)v;
+	}
+	out[n / 2] = '\0';
+	return out;
+}
+
 int
 record_input(run_record *r, const char *role, const char *path,
 	     unsigned long long bytes, long rows, const char *sha256)
 {
-	json_t *o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
-			      record_text(path), "bytes", (json_int_t)bytes,
-			      "sha256", sha256);
+	json_t *o = keep_name(json_pack("{s:s, s:o, s:I, s:s}", "role", role,
+					"path", record_text(path), "bytes",
+					(json_int_t)bytes, "sha256", sha256),
+			      "path_hex", path);
 
 	if (o == NULL)
 		return -1;
@@ -389,9 +437,10 @@ int
 record_output_hashed(run_record *r, const char *role, const char *path,
 		     const char *hex, unsigned long long bytes)
 {
-	json_t *o = json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
-			      record_text(path), "bytes", (json_int_t)bytes,
-			      "sha256", hex);
+	json_t *o = keep_name(json_pack("{s:s, s:o, s:I, s:s}", "role", role,
+					"path", record_text(path), "bytes",
+					(json_int_t)bytes, "sha256", hex),
+			      "path_hex", path);
 
 	if (o == NULL)
 		return -1;
@@ -413,10 +462,12 @@ record_output(run_record *r, const char *role, const char *path,
 int
 record_output_unhashed(run_record *r, const char *role, const char *path)
 {
-	json_t *o = json_pack("{s:s, s:o, s:n, s:s}", "role", role, "path",
-			      record_text(path), "sha256", "written",
-			      "in place (a device, FIFO or standard output), "
-			      "not read back");
+	json_t *o = keep_name(
+		json_pack("{s:s, s:o, s:n, s:s}", "role", role, "path",
+			  record_text(path), "sha256", "written",
+			  "in place (a device, FIFO or standard output), not "
+			  "read back"),
+		"path_hex", path);
 
 	if (o == NULL)
 		return -1;
@@ -533,13 +584,20 @@ locate(json_t *list, const char *record_dir)
 
 	json_array_foreach(list, i, f)
 	{
-		const char *path = json_string_value(json_object_get(f, "path"));
-		char abs[PATH_MAX + NAME_MAX + 2], rel[3 * PATH_MAX];
+		char raw[PATH_MAX], abs[PATH_MAX + NAME_MAX + 2],
+			rel[3 * PATH_MAX];
+		const char *path = record_name(f, "path_hex", raw, sizeof raw);
 
+		if (path == NULL)
+			path = json_string_value(json_object_get(f, "path"));
 		if (path && strcmp(path, "-") != 0 &&
 		    absolute(path, abs, sizeof abs) == 0 &&
-		    relative(record_dir, abs, rel, sizeof rel) == 0)
+		    relative(record_dir, abs, rel, sizeof rel) == 0) {
 			json_object_set_new(f, "from_record", record_text(rel));
+			/* keep_name takes a reference and gives it back */
+			if (keep_name(json_incref(f), "from_record_hex", rel))
+				json_decref(f);
+		}
 	}
 }
 

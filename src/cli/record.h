@@ -94,6 +94,9 @@ void record_free(run_record *r);
 /* Sets jansson to allocate through al_malloc/al_free. */
 void record_use_library_alloc(void);
 
+/* The bytes of a file name the record keeps in hex under key (a name
+ * that is not UTF-8), into out (cap bytes); NULL when there are none. */
+const char *record_name(json_t *f, const char *key, char *out, size_t cap);
 /* How verify hashes a file: 0 and its SHA-256 in hex, or -1. */
 typedef int (*cli_hash_fn)(const char *path, char hex[65],
 			   unsigned long long *bytes);
