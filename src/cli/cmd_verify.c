@@ -261,7 +261,16 @@ cmd_verify(int argc, char **argv)
 		/* jansson does not fill every byte of err on every path */
 		memset(&err, 0, sizeof err);
 		errno = 0;
-		root = json_load_file(argv[i], 0, &err);
+		{
+			FILE *in = cli_open_input(argv[i]);
+
+			if (in == NULL) {
+				cli_error("%s: %s", argv[i], cli_reason(AL_OK));
+				return EXIT_TROUBLE;
+			}
+			root = json_loadf(in, 0, &err);
+			fclose(in);
+		}
 		/* jansson reports some failed allocations as syntax errors;
 		 * our allocator leaves errno at ENOMEM */
 		if (root == NULL &&
@@ -270,11 +279,14 @@ cmd_verify(int argc, char **argv)
 			cli_error("%s: %s", argv[i], al_strerror(AL_ENOMEM));
 			return EXIT_TROUBLE;
 		}
-		if (root == NULL) {
+		if (root == NULL && err.line < 1) /* no line: not read at all */
+			cli_error("%s: %s", argv[i],
+				  errno ? cli_reason(AL_OK) : err.text);
+		else if (root == NULL)
 			cli_error("%s:%d: not a readable record: %s", argv[i],
 				  err.line, err.text);
+		if (root == NULL)
 			return EXIT_TROUBLE;
-		}
 		n = cli_verify_root(root, argv[i], sha256_file);
 		if (n >= 0)
 			n += cross_check(root, argv[i]);
