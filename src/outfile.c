@@ -350,7 +350,8 @@ unlock_folders(const int *fds, size_t n)
 }
 
 al_status
-al_outfile_commit_all(al_outfile **files[], size_t n)
+al_outfile_commit_all(al_outfile **files[], size_t n, char *failed,
+		      size_t cap)
 {
 	int locks[n ? n : 1];
 	char *kept[n ? n : 1];
@@ -365,6 +366,7 @@ al_outfile_commit_all(al_outfile **files[], size_t n)
 		if (*files[i] != NULL && !bad && settle(*files[i]) != 0) {
 			bad = 1;
 			saved = errno;
+			snprintf(failed, cap, "%s", (*files[i])->path);
 		}
 	}
 	if (!bad)
@@ -385,6 +387,7 @@ al_outfile_commit_all(al_outfile **files[], size_t n)
 		if (f != NULL && f->tmp != NULL && rename(f->tmp, f->dest) != 0) {
 			bad = 1;
 			saved = errno;
+			snprintf(failed, cap, "%s", f->path);
 			break;
 		}
 	}

@@ -37,8 +37,10 @@ void al_outfile_abort(al_outfile *f);
  * each file it replaces is kept under a hard link until every rename has
  * succeeded, and a failure at any step puts back what was there (and
  * removes what was not). The outputs are freed and their pointers set to
- * NULL either way; AL_EIO with errno on a failure. */
-al_status al_outfile_commit_all(al_outfile **files[], size_t n);
+ * NULL either way; AL_EIO with errno on a failure, and the path of the
+ * output that failed in failed (cap bytes). */
+al_status al_outfile_commit_all(al_outfile **files[], size_t n,
+				char *failed, size_t cap);
 
 /* Removes every temporary file of the outputs still open; only unlink,
  * so a signal handler may call it (async-signal-safe). */

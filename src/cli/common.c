@@ -317,10 +317,11 @@ cli_reason(al_status st)
 int
 cli_commit_all(al_outfile **files[], size_t n)
 {
-	al_status st = al_outfile_commit_all(files, n);
+	char failed[4096] = "";
+	al_status st = al_outfile_commit_all(files, n, failed, sizeof failed);
 
 	if (st != AL_OK) {
-		cli_error("cannot put the outputs in place: %s", cli_reason(st));
+		cli_error("%s: %s; no output replaced", failed, cli_reason(st));
 		return -1;
 	}
 	return 0;
