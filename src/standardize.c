@@ -22,6 +22,13 @@
 #include "acidlot/table.h"
 #include "acidlot/text.h"
 
+/* The bounds of a titration of a primary standard: a burette reads to
+ * 0.01 mL at best, an analytical balance to 0.1 mg, and NaOH dissolves
+ * to about 19 mol/L (common practice). */
+#define STD_VOLUME_MIN_ML 0.01
+#define STD_MASS_MIN_G 0.0001
+#define STD_CONC_MAX 20.0
+
 void
 al_std_params_default(al_std_params *p)
 {
@@ -308,6 +315,19 @@ std_row(void *ud, const al_csv_row *row)
 		    "the concentration (%g g / %g mL) is beyond the range it "
 		    "can be computed in (%g to %g)",
 		    r.mass, r.volume, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	/* what no titration of a primary standard can be: a net volume
+	 * below a burette's smallest reading, a mass below a balance's, a
+	 * titrant stronger than NaOH dissolves (about 19 mol/L; common
+	 * practice). Their uncertainty would not be a number either. */
+	if (r.volume < STD_VOLUME_MIN_ML || r.mass < STD_MASS_MIN_G ||
+	    r.c > STD_CONC_MAX) {
+		ERR(run, line, r.volume < STD_VOLUME_MIN_ML ? "titrant_ml" : "mass_g",
+		    "%g g over %g mL is no titration of a primary standard "
+		    "(at least %g mL and %g g, at most %g mol/L)",
+		    r.mass, r.volume, STD_VOLUME_MIN_ML, STD_MASS_MIN_G,
+		    STD_CONC_MAX);
 		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
 	}
 	if (r.c < AL_PLAUSIBLE_CONC_MIN || r.c > AL_PLAUSIBLE_CONC_MAX)
