@@ -188,10 +188,6 @@ struct al_assay {
 	size_t ident_cap[5];
 	char *lot; /* the current row's titrant lot, in NFC */
 	size_t lot_cap;
-	/* the key key_hint fetched the slot of last, as key_put writes
-	 * it, hint_len bytes (0: none) */
-	char hint_key[64];
-	size_t hint_len;
 
 	/* per-file state */
 	const char *file;
@@ -474,53 +470,6 @@ key_ahead(const al_assay *run, const char *p, size_t pl, const char *l,
 	k->h32 = SLOT_HASH(key_hash(p, pl, l, ll, s, sl));
 	if (run->n_slots)
 		__builtin_prefetch(&run->slots[k->h32 & (run->n_slots - 1)]);
-}
-
-/* Cell col of a record seen ahead, or "" when the column is absent. */
-static const char *
-hint_cell(const al_csv_cells *c, int col, size_t *len)
-{
-	if (col < 0 || (size_t)col >= c->nfields) {
-		*len = 0;
-		return "";
-	}
-	*len = c->len[col];
-	return c->base + c->off[col];
-}
-
-/* A table smaller than this (8 MiB) stays in the caches well enough
- * that the hint's own work (a compare a row, a hash a key) is not
- * repaid: 1e6 rows in 333,000 samples take 512 Ki slots. */
-#define HINT_SLOTS ((size_t)1 << 20)
-
-/* The reader's hint (al_csv_options ahead_fn): a record some rows ahead
- * of this one. At millions of samples the key's hash slot is a miss to
- * main memory, and key_ahead's prefetch, a row's checks before its use,
- * is too late to hide it; fetched now, it is in the cache when the row
- * comes. Only when the key changes, so that a sample's replicates cost
- * one compare. A cell not yet trimmed gives a useless prefetch, no
- * wrong result: nothing but the cache depends on this. */
-static void
-key_hint(void *ud, const al_csv_cells *c)
-{
-	al_assay *run = ud;
-	size_t pl, ll, sl, n;
-	const char *p, *l, *s;
-	uint64_t h;
-
-	if (!run->header_ok || run->n_slots < HINT_SLOTS)
-		return;
-	p = hint_cell(c, run->col[C_PRODUCT], &pl);
-	l = hint_cell(c, run->col[C_LOT], &ll);
-	s = hint_cell(c, run->col[C_SAMPLE], &sl);
-	if (key_is(run->hint_key, run->hint_len, p, pl, l, ll, s, sl))
-		return;
-	n = pl + ll + sl + 3;
-	run->hint_len = n <= sizeof run->hint_key ? n : 0;
-	if (run->hint_len)
-		key_put(run->hint_key, p, pl, l, ll, s, sl);
-	h = key_hash(p, pl, l, ll, s, sl);
-	__builtin_prefetch(&run->slots[SLOT_HASH(h) & (run->n_slots - 1)]);
 }
 
 /* A buffer filled from the front, [0, used) of cap bytes, its pages
@@ -1864,9 +1813,9 @@ al_assay_read(al_assay *run, FILE *in, const char *name,
 	return al_assay_read_source(run, al_read_stdio, in, name, on_row, ud);
 }
 
-static al_status
-read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
-	    al_replicate_fn on_row, void *ud, int piped)
+al_status
+al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
+		     const char *name, al_replicate_fn on_row, void *ud)
 {
 	char **files;
 	al_status st;
@@ -1893,12 +1842,8 @@ read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
 	run->header_done = run->header_ok = 0;
 	run->on_row = on_row;
 	run->ud = ud;
-	run->opt.csv.ahead_fn = piped ? key_hint : NULL;
-	run->hint_len = 0;
-	st = (piped ? al_csv_read_piped : al_csv_read)(&run->opt.csv, read_fn,
-						       ctx, run->file,
-						       on_csv_row, run,
-						       &run->diags);
+	st = al_csv_read(&run->opt.csv, read_fn, ctx, run->file, on_csv_row,
+			 run, &run->diags);
 	/* no group is made after the reading */
 	al_pages_stop(&run->pages);
 	run->pages_tried = 0;
@@ -1921,19 +1866,6 @@ read_source(al_assay *run, al_read_fn read_fn, void *ctx, const char *name,
 	return st;
 }
 
-al_status
-al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
-		     const char *name, al_replicate_fn on_row, void *ud)
-{
-	return read_source(run, read_fn, ctx, name, on_row, ud, 0);
-}
-
-al_status
-al_assay_read_piped(al_assay *run, al_read_fn read_fn, void *ctx,
-		    const char *name, al_replicate_fn on_row, void *ud)
-{
-	return read_source(run, read_fn, ctx, name, on_row, ud, 1);
-}
 
 /* Hands the kept rows to on_row in input order, each with the screens'
  * flags of its value. */

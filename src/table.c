@@ -337,15 +337,9 @@ al_cell_number_at(const al_csv_row *row, int col, const char *column,
 
 	if (col < 0 || (size_t)col >= row->nfields)
 		return 0;
-	/* parsed ahead, from the same bytes (al_csv_read_piped), or now;
-	 * al_number_parse trims the cell and tells an empty one */
-	if (row->numbers && row->numbers_point == decimal_point) {
-		err = (al_numerr)row->numbers[col].err;
-		if (err == AL_NUM_OK)
-			*value = row->numbers[col].value;
-	} else
-		err = al_number_parse(row->fields[col], row->lens[col],
-				      decimal_point, value);
+	/* al_number_parse trims the cell and tells an empty one */
+	err = al_number_parse(row->fields[col], row->lens[col], decimal_point,
+			      value);
 	if (err == AL_NUM_EMPTY)
 		return 0;
 	if (err == AL_NUM_OK)

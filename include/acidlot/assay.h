@@ -226,12 +226,6 @@ al_status al_assay_read(al_assay *run, FILE *in, const char *name,
 al_status al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 			       const char *name, al_replicate_fn on_row,
 			       void *ud);
-/* The same, with the reading, the splitting and the numbers in a second
- * thread (al_csv_read_piped), for a large file: the same results and
- * messages. read_fn runs in that thread. */
-al_status al_assay_read_piped(al_assay *run, al_read_fn read_fn, void *ctx,
-			      const char *name, al_replicate_fn on_row,
-			      void *ud);
 
 /* Computes statistics, screens, uncertainty and verdicts for every group
  * (the counts and Cochran's tests), then hands the kept rows to on_row;

@@ -9,7 +9,6 @@
 
 #include "acidlot/status.h"
 
-struct al_csv_cells;
 
 typedef struct al_csv_options {
 	char delimiter;     /* ',' when 0; AL_CSV_AUTO to detect it */
@@ -21,24 +20,7 @@ typedef struct al_csv_options {
 	int no_fast_path;   /* every record through libcsv, none through
 			       the reader's own path for plain lines (for
 			       tests that compare the two) */
-	/* al_csv_read_piped only, a hint (NULL: none): called in the
-	 * caller's thread, with the row callback's ud, on the cells of the
-	 * record AL_CSV_AHEAD records after the one the row callback gets
-	 * next, when the same batch holds it, so that the caller can fetch
-	 * into the cache what that record will need. Nothing may depend on
-	 * whether or when it is called. */
-	void (*ahead_fn)(void *ud, const struct al_csv_cells *cells);
 } al_csv_options;
-
-#define AL_CSV_AHEAD 8
-
-/* A record's cells as ahead_fn sees them: cell i is base + off[i], len[i]
- * bytes, NUL-terminated; valid only during the call. */
-typedef struct al_csv_cells {
-	size_t nfields;
-	const char *base;
-	const uint32_t *off, *len;
-} al_csv_cells;
 
 #define AL_CSV_MAX_FIELD 4096
 /* Records longer than this, or with more fields, are refused. */
@@ -51,12 +33,6 @@ typedef struct al_csv_cells {
 /* One record. fields[i] is NUL-terminated and lens[i] its length; both
  * are valid only during the callback. line is the physical line (1-based)
  * on which the record starts. */
-/* A field parsed as a number by al_csv_read_piped's second thread. */
-typedef struct al_csv_number {
-	double value;
-	int err; /* al_numerr of al_number_parse */
-} al_csv_number;
-
 typedef struct al_csv_row {
 	size_t nfields;
 	const char *const *fields;
@@ -67,10 +43,6 @@ typedef struct al_csv_row {
 	char delimiter;   /* the delimiter in force (detected or given) */
 	const char *syntax_error; /* recover mode: why the record is malformed
 				     (then nfields is 0); NULL otherwise */
-	/* al_csv_read_piped: each field as al_number_parse with decimal
-	 * point numbers_point reads it; NULL otherwise */
-	const al_csv_number *numbers;
-	char numbers_point;
 	/* set by the reader's path for plain lines (0 says nothing):
 	 * trimmed, every field is trimmed of blanks already (al_cell need
 	 * not look); ascii, every byte of the record is below 0x80 (so it is
@@ -97,14 +69,6 @@ typedef size_t (*al_read_fn)(void *ctx, void *buf, size_t cap, int *failed);
 al_status al_csv_read(const al_csv_options *opt, al_read_fn read_fn,
 		      void *read_ctx, const char *name, al_csv_row_fn row_fn,
 		      void *ud, al_diags *diags);
-/* As al_csv_read, with the reading and splitting in a second thread,
- * which also parses every field as a number (with opt's decimal point)
- * for al_cell_number: row_fn runs in the caller's thread, record by
- * record in order, and sees what al_csv_read would give it, diagnostics
- * included. read_fn runs in the second thread. */
-al_status al_csv_read_piped(const al_csv_options *opt, al_read_fn read_fn,
-			    void *read_ctx, const char *name,
-			    al_csv_row_fn row_fn, void *ud, al_diags *diags);
 /* An al_read_fn over a stdio stream (ctx is the FILE *). */
 size_t al_read_stdio(void *ctx, void *buf, size_t cap, int *failed);
 

@@ -79,8 +79,8 @@ const char *al_cell(const al_csv_row *row, int col, size_t *len);
 int al_cell_number_at(const al_csv_row *row, int col, const char *column,
 		      char decimal_point, const char *file, al_diags *diags,
 		      double *value);
-/* The same, inline where the answer needs no call (an absent column, a
- * number parsed ahead), for the many cells of every row. */
+/* The same, inline where the answer needs no call (an absent column),
+ * for the many cells of every row. */
 static inline int
 al_cell_number(const al_csv_row *row, int col, const char *column,
 	       char decimal_point, const char *file, al_diags *diags,
@@ -88,11 +88,6 @@ al_cell_number(const al_csv_row *row, int col, const char *column,
 {
 	if (col < 0 || (size_t)col >= row->nfields)
 		return 0;
-	if (row->numbers && row->numbers_point == decimal_point &&
-	    row->numbers[col].err == AL_NUM_OK) {
-		*value = row->numbers[col].value;
-		return 1;
-	}
 	return al_cell_number_at(row, col, column, decimal_point, file, diags,
 				 value);
 }

@@ -1103,9 +1103,7 @@ cmd_assay(int argc, char **argv)
 			cli_error("%s", al_strerror(AL_ENOMEM));
 			goto out;
 		}
-		/* a large file (read ahead) is also split and parsed in a
-		 * thread of its own */
-		st = (h.ahead ? al_assay_read_piped : al_assay_read_source)(
+		st = al_assay_read_source(
 			run, hashing_read, &h, is_stdin ? "<stdin>" : name,
 			rep_out ? write_replicate : NULL, &reps);
 		hashing_reader_end(&h);

@@ -10,10 +10,10 @@
 #include "acidlot/assay.h"
 #include "acidlot/report.h"
 
-/* A run of text with the options given: read piped or not, then
- * finished (lazily: al_assay_finish_lazy) when the reading went well. */
+/* A run of text with the options given, finished (lazily:
+ * al_assay_finish_lazy) when the reading went well. */
 static al_assay *
-run_with(const char *text, const al_assay_options *opt, int piped, int lazy,
+run_with(const char *text, const al_assay_options *opt, int lazy,
 	 al_status *st)
 {
 	al_assay *run = al_assay_new(opt, st);
@@ -21,17 +21,14 @@ run_with(const char *text, const al_assay_options *opt, int piped, int lazy,
 
 	assert_non_null(f);
 	assert_non_null(run);
-	*st = piped ? al_assay_read_piped(run, al_read_stdio, f, "t.csv", NULL,
-					  NULL)
-		    : al_assay_read(run, f, "t.csv", NULL, NULL);
+	*st = al_assay_read(run, f, "t.csv", NULL, NULL);
 	fclose(f);
 	if (*st == AL_OK)
 		*st = lazy ? al_assay_finish_lazy(run) : al_assay_finish(run);
 	return run;
 }
 
-/* threads: 1 one thread; 0 two where it pays; 2 that and the reading
- * piped (al_assay_read_piped) */
+/* threads: 1 one thread; 0 two where it pays */
 static al_assay *
 run_text_threads(const char *text, int threads, al_status *st)
 {
@@ -40,7 +37,7 @@ run_text_threads(const char *text, int threads, al_status *st)
 	memset(&opt, 0, sizeof opt);
 	opt.catalogue = cat;
 	opt.threads = threads == 1;
-	return run_with(text, &opt, threads == 2, 0, st);
+	return run_with(text, &opt, 0, st);
 }
 
 static al_assay *
@@ -146,7 +143,7 @@ endpoint_flag(void **state)
 }
 
 /* A run of many results, read, finished and reported in one thread and
- * in two (the reading piped): the same counts, flags and Cochran tests,
+ * in two: the same counts, flags and Cochran tests,
  * the same report bytes and the same count of guarded cells. The rows vary so that
  * results differ in n, flags and verdict; some names start with '=' (a
  * guarded cell), and one stretch of results has names long enough that
@@ -210,7 +207,7 @@ report_two_threads(void **state)
 	/* the whole run in one thread, and in two (finish and report) */
 	run1 = run_text_threads(text, 1, &st);
 	assert_int_equal(st, AL_OK);
-	run = run_text_threads(text, 2, &st);
+	run = run_text_threads(text, 0, &st);
 	assert_int_equal(st, AL_OK);
 	assert_int_equal(al_assay_group_count(run), SAMPLES);
 	{
@@ -272,7 +269,7 @@ run_lazy(const char *text, const al_spec_table *specs, int threads,
 	opt.threads = threads;
 	al_qc_options_default(&opt.qc);
 	opt.qc.exclude_outliers = exclude;
-	run = run_with(text, &opt, 0, lazy, &st);
+	run = run_with(text, &opt, lazy, &st);
 	assert_int_equal(st, AL_OK);
 	return run;
 }
@@ -391,7 +388,7 @@ first_result(const char *text, int exclude, double titrant_u,
 	opt.qc.exclude_outliers = exclude;
 	opt.qc.has_titrant_u = titrant_u > 0;
 	opt.qc.titrant_u = titrant_u;
-	run = run_with(text, &opt, 0, 0, &st);
+	run = run_with(text, &opt, 0, &st);
 	assert_int_equal(st, AL_OK);
 	*r = al_assay_result(run, 0);
 	return run;
@@ -477,7 +474,7 @@ ties_are_no_outliers(void **state)
 	opt.qc.exclude_outliers = 1;
 	opt.qc.has_resolution = 1;
 	opt.qc.resolution_ml = 0.02;
-	run = run_with(text, &opt, 0, 0, &st);
+	run = run_with(text, &opt, 0, &st);
 	assert_int_equal(st, AL_OK);
 	r = al_assay_result(run, 0);
 	assert_true(r->flags & AL_FLAG_OUTLIER);
@@ -509,7 +506,7 @@ anhydrous_run(int has_water_u, double water_u, const al_group_result **r)
 	opt.anhydrous = 1;
 	opt.qc.has_water_u = has_water_u;
 	opt.qc.water_u_pct = water_u;
-	run = run_with(text, &opt, 0, 0, &st);
+	run = run_with(text, &opt, 0, &st);
 	assert_int_equal(st, AL_OK);
 	*r = al_assay_result(run, 0);
 	return run;

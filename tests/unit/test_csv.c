@@ -218,13 +218,12 @@ struct transcript {
 	char *text;
 	size_t len, cap;
 	unsigned long rows, stop_at; /* stop_at: row_fn stops there (0: never) */
-	/* the cells of each record, one line each: as row_fn saw them
-	 * (seen) and as the piped reader's ahead_fn did (ahead) */
+	/* the cells of each record, one line each, as row_fn saw them */
 	struct cells_log {
 		char *text;
 		size_t len, cap;
 		unsigned long lines;
-	} seen, ahead;
+	} seen;
 };
 
 static void
@@ -251,50 +250,6 @@ log_cell(struct cells_log *g, const char *s, size_t n, int last)
 		g->lines++;
 	} else
 		log_put(g, "|", 1);
-}
-
-static void
-record_ahead(void *ud, const al_csv_cells *c)
-{
-	struct transcript *t = ud;
-
-	for (size_t i = 0; i < c->nfields; i++) {
-		assert_int_equal(c->base[c->off[i] + c->len[i]], '\0');
-		log_cell(&t->ahead, c->base + c->off[i], c->len[i],
-			 i + 1 == c->nfields);
-	}
-}
-
-/* Every record ahead_fn saw is one that row_fn saw AL_CSV_AHEAD records
- * or more later (the hints form a subsequence of the records, each that
- * far on), but for those past the record where row_fn stopped the read. */
-static void
-check_ahead(const struct transcript *t)
-{
-	const char *a = t->ahead.text, *s = t->seen.text;
-	unsigned long seen_at = 0;
-
-	for (unsigned long k = 0; k < t->ahead.lines; k++) {
-		size_t n = strlen(a) + 1;
-
-		for (;;) {
-			size_t m;
-
-			if (seen_at == t->seen.lines) {
-				/* only a read stopped early leaves hints
-				 * unseen */
-				assert_true(t->stop_at != 0);
-				return;
-			}
-			m = strlen(s) + 1;
-			seen_at++;
-			s += m;
-			if (m == n && memcmp(s - m, a, n) == 0 &&
-			    seen_at > k + AL_CSV_AHEAD)
-				break;
-		}
-		a += n;
-	}
 }
 
 static void
@@ -334,25 +289,13 @@ record_row(void *ud, const al_csv_row *row)
 	for (size_t i = 0; i < row->nfields; i++)
 		log_cell(&t->seen, row->fields[i], row->lens[i],
 			 i + 1 == row->nfields);
-	if (row->nfields == 0) /* a malformed record: counted, never hinted */
+	if (row->nfields == 0) /* a malformed record */
 		log_cell(&t->seen, "\x02", 1, 1);
 	put(t, "raw=", 4);
 	put(t, row->raw, row->raw_len);
 	if (row->syntax_error)
 		put(t, row->syntax_error, strlen(row->syntax_error));
 	put(t, "\n", 1);
-	/* numbers parsed ahead (piped) are al_number_parse's of the cell */
-	for (size_t i = 0; row->numbers && i < row->nfields; i++) {
-		size_t len = row->lens[i];
-		const char *c = al_trim(row->fields[i], &len);
-		double v = 0;
-		al_numerr e = len ? al_number_parse(c, len, row->numbers_point, &v)
-				  : AL_NUM_EMPTY;
-
-		assert_int_equal(row->numbers[i].err, e);
-		if (e == AL_NUM_OK)
-			assert_true(row->numbers[i].value == v);
-	}
 	if (++t->rows == t->stop_at)
 		return AL_EINPUT;
 	return AL_OK;
@@ -361,7 +304,7 @@ record_row(void *ud, const al_csv_row *row)
 
 static void
 transcribe(const al_csv_options *opt, const char *data, size_t len,
-		int piped, struct transcript *t)
+	   struct transcript *t)
 {
 	al_diags d = {0};
 	al_status st;
@@ -373,13 +316,10 @@ transcribe(const al_csv_options *opt, const char *data, size_t len,
 		(void)fgetc(m); /* fmemopen wants a size: start at its end */
 	t->len = 0;
 	t->rows = 0;
-	t->seen.len = t->ahead.len = 0;
-	t->seen.lines = t->ahead.lines = 0;
+	t->seen.len = 0;
+	t->seen.lines = 0;
 	put(t, "", 0);
-	st = piped ? al_csv_read_piped(opt, al_read_stdio, m, "t.csv",
-				       record_row, t, &d)
-		   : al_csv_read(opt, al_read_stdio, m, "t.csv", record_row, t,
-				 &d);
+	st = al_csv_read(opt, al_read_stdio, m, "t.csv", record_row, t, &d);
 	fclose(m);
 	snprintf(tail, sizeof tail, "status %d\n", (int)st);
 	put(t, tail, strlen(tail));
@@ -423,18 +363,16 @@ random_doc(uint64_t *x, char *doc, size_t len, const char *plain,
 	}
 }
 
-/* Random documents read two ways in several modes, which must give the
- * same transcript. piped = 0: the reader's own path for plain lines
- * against libcsv's (the reference) for every record; piped = 1: the
- * piped reader against the one-thread reader. */
+/* Random documents read two ways in every mode, which must give the
+ * same transcript: the reader's own path for plain lines against libcsv's
+ * (the reference) for every record. */
 static void
-compare_readers(int piped, uint64_t x, int rounds, const char *plain,
+compare_readers(uint64_t x, int rounds, const char *plain,
 		const char *alphabet)
 {
 	static const char delims[3] = {',', ';', '\t'};
 	struct transcript one = {0}, two = {0};
-	int modes = piped ? 8 : 12, docs = 0;
-	unsigned long hints = 0;
+	int modes = 12, docs = 0;
 	size_t cap = 1200000;
 	char *doc = malloc(cap);
 
@@ -443,52 +381,31 @@ compare_readers(int piped, uint64_t x, int rounds, const char *plain,
 		size_t len;
 
 		xorshift(&x);
-		if (piped)
-			len = round % 50 == 0 ? 600000 + x % 500000 : x % 3000;
-		else
-			len = round % 500 == 0 ? 70000 + x % 100000 : x % 160;
+		len = round % 500 == 0 ? 70000 + x % 100000 : x % 160;
 		random_doc(&x, doc, len, plain, alphabet);
 		for (int mode = 0; mode < modes; mode++) {
 			al_csv_options opt;
 
 			memset(&opt, 0, sizeof opt);
 			opt.delimiter = delims[mode % 3];
-			if (piped) {
-				opt.recover = (mode / 2) & 1;
-				opt.decimal_point = mode == 1 ? ',' : 0;
-				if (mode == 1 && opt.delimiter == ',')
-					opt.delimiter = ';';
-				/* row_fn stops the read part way */
-				one.stop_at = two.stop_at =
-					mode >= 6 ? 1 + x % 40 : 0;
-			} else {
-				opt.recover = (mode / 3) & 1;
-				opt.max_field = mode >= 6 ? 12 : 0;
-			}
-			transcribe(&opt, doc, len, 0, &one);
-			opt.no_fast_path = !piped;
-			opt.ahead_fn = piped ? record_ahead : NULL;
-			transcribe(&opt, doc, len, piped, &two);
-			check_ahead(&two);
-			hints += two.ahead.lines;
+			opt.recover = (mode / 3) & 1;
+			opt.max_field = mode >= 6 ? 12 : 0;
+			transcribe(&opt, doc, len, &one);
+			opt.no_fast_path = 1;
+			transcribe(&opt, doc, len, &two);
 			if (strcmp(one.text, two.text) != 0)
-				fail_msg("document %d, mode %d:\n--- %s\n%.3000s"
-					 "--- %s\n%.3000s",
-					 round, mode, piped ? "reader" : "fast path",
-					 one.text, piped ? "piped" : "libcsv",
-					 two.text);
+				fail_msg("document %d, mode %d:\n--- fast path\n"
+					 "%.3000s--- libcsv\n%.3000s",
+					 round, mode, one.text, two.text);
 			docs++;
 		}
 	}
 	assert_int_equal(docs, rounds * modes);
-	/* the large documents fill batches, whose later records are hinted */
-	assert_true(piped ? hints > 1000 : hints == 0);
 	free(doc);
 	free(one.text);
 	free(two.text);
 	free(one.seen.text);
 	free(two.seen.text);
-	free(two.ahead.text);
 }
 
 /* The reader's own path for plain lines gives exactly what libcsv gives
@@ -499,21 +416,8 @@ static void
 fast_path_matches_libcsv(void **state)
 {
 	(void)state;
-	compare_readers(0, 88172645463325252ULL, 6000, "abc123.5",
+	compare_readers(88172645463325252ULL, 6000, "abc123.5",
 			"a1.,,;;\t  \n\n\r\"x-\xC3\xA9");
-}
-
-/* Piped reading (a second thread splits and parses) hands row_fn what
- * the one-thread reader does, messages and status included, also when
- * row_fn stops the read part way: random documents of numbers, some with
- * a comma, some past the pipe's 256 KiB batches, with a decimal point or
- * comma. The numbers it parsed ahead are checked in record_row. */
-static void
-piped_matches_reader(void **state)
-{
-	(void)state;
-	compare_readers(1, 0x9E3779B97F4A7C15ULL, 300, "0123.5,\n",
-			"a1.,,;;\t  \n\n\r\"x-e");
 }
 
 /* Issue 18 B12: with --rejects a malformed record is rejected whole and
@@ -649,7 +553,6 @@ main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
-		cmocka_unit_test(piped_matches_reader),
 		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
 		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
 		cmocka_unit_test(chunk_boundary),
