@@ -77,10 +77,9 @@ check: test asan
 valgrind: build
 	@command -v valgrind >/dev/null || { $(SUDO) apt-get install -y -qq valgrind; }
 	cd $(BUILD) && ACIDLOT_VALGRIND=1 ctest --output-on-failure -j$(JOBS)
-	@# the report's two threads (src/report.c) and the page toucher
-	@# (src/pages.c), under helgrind's race check
+	@# the report's two threads (src/report.c), under helgrind's race
+	@# check
 	valgrind --tool=helgrind -q --error-exitcode=99 $(BUILD)/tests/test_assay >/dev/null
-	ACIDLOT_VALGRIND=1 valgrind --tool=helgrind -q --error-exitcode=99 $(BUILD)/tests/test_alloc >/dev/null
 
 regen: build
 	sh tests/cli/regen.sh $(BUILD)

@@ -17,7 +17,6 @@
 #include "hash.h"
 #include "labels.h"
 #include "lanes.h"
-#include "pages.h"
 
 /* The endpoint must titrate at least this share of the protons that the
  * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
@@ -135,8 +134,6 @@ struct al_assay {
 	 * without moving: at millions of groups, pages moved by realloc
 	 * cost their first touch again. arena and groups are their bases. */
 	al_region arena_r, groups_r;
-	al_pages pages;  /* their first touches, at 1 MiB of groups and up */
-	int pages_tried; /* in this file */
 	char *arena;
 	size_t arena_len;
 	struct group *groups;
@@ -255,7 +252,6 @@ al_assay_free(al_assay *run)
 	for (size_t i = 0; i < run->n_files; i++)
 		al_free(run->files[i]);
 	al_free(run->files);
-	al_pages_stop(&run->pages);
 	al_region_free(&run->groups_r);
 	al_free(run->slots);
 	al_region_free(&run->arena_r);
@@ -489,37 +485,13 @@ map_ahead(void *buf, size_t used, size_t cap, size_t *mapped)
 	}
 }
 
-/* Past this many bytes of groups (14,000 groups) a run's first touches
- * go to a thread of their own (pages.h); a small run starts none. */
-#define PAGES_FROM ((size_t)1 << 20)
-enum { PAGES_GROUPS, PAGES_ARENA };
-
-/* Region `which` (r) is about to be written up to `end`: with the page
- * toucher running, *mapped is how far the toucher lets the owner write
- * without asking (al_pages_use); else map_ahead's count. */
-static void
-pages_ahead(al_assay *run, int which, const al_region *r, size_t end,
-	    size_t *mapped)
-{
-	if (end <= *mapped)
-		return;
-	if (run->pages.running)
-		*mapped = al_pages_use(&run->pages, which, r, end);
-	else
-		map_ahead(r->base, end, r->committed, mapped);
-}
-
-/* Region `which` (r) grown to need bytes, `used` of them in use: the
- * toucher leaves it first when the growth may move it, and after a move
+/* Region r grown to need bytes, `used` of them in use: after a move
  * *mapped counts again from what is in use. */
 static al_status
-grow_region(al_assay *run, int which, al_region *r, size_t need,
-	    size_t used, size_t *mapped)
+grow_region(al_region *r, size_t need, size_t used, size_t *mapped)
 {
 	void *was = r->base;
 
-	if (run->pages.running && need > r->reserved)
-		al_pages_drop(&run->pages, which);
 	if (al_region_grow(r, need) != 0)
 		return AL_ENOMEM;
 	if (r->base != was)
@@ -567,34 +539,24 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
 	if (run->arena_len + need > run->arena_r.committed) {
-		if (grow_region(run, PAGES_ARENA, &run->arena_r,
-				run->arena_len + need, run->arena_len,
-				&run->arena_mapped) != AL_OK)
+		if (grow_region(&run->arena_r, run->arena_len + need,
+				run->arena_len, &run->arena_mapped) != AL_OK)
 			return AL_ENOMEM;
 		run->arena = run->arena_r.base;
 	}
 	if ((run->n_groups + 1) * sizeof *run->groups >
 	    run->groups_r.committed) {
-		if (grow_region(run, PAGES_GROUPS, &run->groups_r,
+		if (grow_region(&run->groups_r,
 				(run->n_groups + 1) * sizeof *run->groups,
 				run->n_groups * sizeof *run->groups,
 				&run->groups_mapped) != AL_OK)
 			return AL_ENOMEM;
 		run->groups = run->groups_r.base;
-		if (!run->pages.running && !run->pages_tried &&
-		    run->groups_r.committed >= PAGES_FROM) {
-			run->pages_tried = 1;
-			/* from now on the owner asks before it writes past
-			 * what it has (al_pages_use) */
-			if (al_pages_start(&run->pages) == 0)
-				run->groups_mapped = run->arena_mapped = 0;
-		}
 	}
-	pages_ahead(run, PAGES_ARENA, &run->arena_r, run->arena_len + need,
-		    &run->arena_mapped);
-	pages_ahead(run, PAGES_GROUPS, &run->groups_r,
-		    (run->n_groups + 1) * sizeof *run->groups,
-		    &run->groups_mapped);
+	map_ahead(run->arena_r.base, run->arena_len + need,
+		  run->arena_r.committed, &run->arena_mapped);
+	map_ahead(run->groups_r.base, (run->n_groups + 1) * sizeof *run->groups,
+		  run->groups_r.committed, &run->groups_mapped);
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
 	g->key = (uint32_t)run->arena_len;
@@ -1845,8 +1807,6 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	st = al_csv_read(&run->opt.csv, read_fn, ctx, run->file, on_csv_row,
 			 run, &run->diags);
 	/* no group is made after the reading */
-	al_pages_stop(&run->pages);
-	run->pages_tried = 0;
 	if (st == AL_OK && run->diags.out_of_memory)
 		st = AL_ENOMEM;
 	if (st == AL_OK && !run->header_done) {

@@ -1,17 +1,13 @@
-/* acidlot tests: memory regions that grow in place (al_region), and
- * the thread that touches their pages ahead of use (pages.h).
+/* acidlot tests: memory regions that grow in place (al_region).
  * SPDX-License-Identifier: GPL-3.0-or-later */
-#define _POSIX_C_SOURCE 200809L /* nanosleep */
 #include "testutil.h"
 
 #include <errno.h>
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
 
 #include "acidlot/alloc.h"
-#include "pages.h"
 
 /* A mark for byte i of a region: a pattern that a moved, lost or
  * zeroed byte would not keep. */
@@ -130,108 +126,6 @@ failure_leaves_it_whole(void **state)
 	al_region_free(&r);
 }
 
-static uint64_t rng = 0x9E3779B97F4A7C15ULL;
-
-static uint64_t
-next(void)
-{
-	rng ^= rng << 13;
-	rng ^= rng >> 7;
-	rng ^= rng << 17;
-	return rng;
-}
-
-/* The owner's side of the page toucher, as find_group does it: grow,
- * ask before writing past what the toucher allows, write new bytes and
- * rewrite old ones. */
-static size_t
-owner_step(al_pages *p, al_region *r, size_t used, size_t step,
-	   size_t *ask)
-{
-	size_t end = used + step;
-	unsigned char *b;
-
-	if (end > r->committed) {
-		if (end > r->reserved)
-			al_pages_drop(p, 0);
-		assert_int_equal(al_region_grow(r, end), 0);
-	}
-	if (end > *ask)
-		*ask = al_pages_use(p, 0, r, end);
-	assert_true(*ask >= end);
-	b = r->base;
-	for (size_t i = (used + 60) / 61 * 61; i < end; i += 61)
-		b[i] = mark(i);
-	/* a value added to an older group */
-	if (used > 0) {
-		size_t i = (size_t)(next() % used) / 61 * 61;
-
-		b[i] = mark(i);
-	}
-	return end;
-}
-
-static void
-check_marks(const al_region *r, size_t used)
-{
-	const unsigned char *b = r->base;
-
-	for (size_t i = 0; i < used; i += 61)
-		if (b[i] != mark(i)) {
-			print_error("byte %zu: %d, not %d\n", i, b[i], mark(i));
-			fail();
-		}
-}
-
-/* The page toucher (pages.h) beside an owner that grows a region to
- * 48 MiB (6 under valgrind) in steps of up to 100 KB: every byte
- * written stays; the toucher gets ahead of the owner (the owner is let
- * write past what it asked for); a move past the region's hold, with
- * the toucher dropped first, keeps the bytes and the toucher serves the
- * moved region. Under valgrind's race check (make valgrind runs this
- * test under helgrind) the mutex is what orders the two. */
-static void
-toucher_beside_owner(void **state)
-{
-	al_pages p;
-	al_region r = {0};
-	size_t used = 0, ask = 0;
-	size_t total = getenv("ACIDLOT_VALGRIND") ? (size_t)6 << 20
-						   : (size_t)48 << 20;
-	int ahead = 0;
-
-	(void)state;
-	memset(&p, 0, sizeof p);
-	assert_int_equal(al_pages_start(&p), 0);
-	while (used < total)
-		used = owner_step(&p, &r, used, 1 + next() % 100000, &ask);
-	check_marks(&r, used);
-	/* the owner waits: the toucher goes on ahead of it, up to
-	 * AL_PAGES_AHEAD, and al_pages_use then lets the owner past what
-	 * it asked for (up to 10 s) */
-	assert_int_equal(al_region_grow(&r, used + 2 * AL_PAGES_AHEAD), 0);
-	for (int i = 0; i < 1000 && !ahead; i++) {
-		struct timespec ms = {0, 10000000};
-
-		ahead = al_pages_use(&p, 0, &r, used) > used;
-		if (!ahead)
-			nanosleep(&ms, NULL);
-	}
-	assert_true(ahead);
-	/* past the 1 GiB the region holds it moves (mremap), the toucher
-	 * dropped first; the owner then goes on from where it was, and the
-	 * toucher takes up the region in its new place */
-	al_pages_drop(&p, 0);
-	assert_int_equal(al_region_grow(&r, ((size_t)1 << 30) + 4096), 0);
-	check_marks(&r, used);
-	for (int i = 0; i < 50; i++)
-		used = owner_step(&p, &r, used, 1 + next() % 100000, &ask);
-	al_pages_stop(&p);
-	check_marks(&r, used);
-	al_pages_stop(&p); /* twice is harmless */
-	al_region_free(&r);
-}
-
 int
 main(void)
 {
@@ -239,7 +133,6 @@ main(void)
 		cmocka_unit_test(grows_in_place),
 		cmocka_unit_test(moves_past_what_it_holds),
 		cmocka_unit_test(failure_leaves_it_whole),
-		cmocka_unit_test(toucher_beside_owner),
 	};
 
 	return cmocka_run_group_tests(tests, NULL, NULL);
