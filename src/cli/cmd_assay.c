@@ -992,6 +992,7 @@ cmd_assay(int argc, char **argv)
 	const char *in_place_path[FILE_HASHES_MAX];
 	size_t n_in_place = 0;
 	int hashing = 0, want_record, file_report;
+	unsigned long long in_bytes = 0; /* of the titration files */
 
 	memset(&a, 0, sizeof a);
 	memset(&rec, 0, sizeof rec);
@@ -1110,6 +1111,7 @@ cmd_assay(int argc, char **argv)
 		if (!is_stdin)
 			fclose(in);
 		hashing_reader_hex(&h, hex);
+		in_bytes += h.bytes;
 		if (record_input(&rec, "titrations", name, h.bytes,
 				 (long)(al_assay_get_counts(run).rows_read -
 					before),
@@ -1213,6 +1215,7 @@ cmd_assay(int argc, char **argv)
 			out_path[hashes.n] = names[i];
 			hashes.path[hashes.n++] = al_outfile_written_path(outs[i]);
 		}
+		hashes.large = in_bytes >= (1u << 20);
 		file_hashes_start(&hashes);
 		hashing = 1;
 	}

@@ -43,6 +43,7 @@ typedef struct file_hashes {
 	size_t n;
 	char hex[FILE_HASHES_MAX][65];
 	unsigned long long bytes[FILE_HASHES_MAX];
+	int large; /* the run's input is 1 MiB or more: hash in a thread */
 	int failed, threaded;
 	pthread_t th;
 } file_hashes;
