@@ -161,14 +161,8 @@ struct al_assay {
 	int finished;
 
 	/* al_assay_result's reader, written for every result by the
-	 * report's first thread while its second reads the fields above
-	 * (finished, n_groups, groups...): a cache line's worth of bytes
-	 * either side keeps them on lines of their own. When `finished`
-	 * shared a line with it, the report at 1e7 rows took 0.3 s longer
-	 * (perf: the second thread's samples on that load). */
-	char own_apart[64];
+	 * report's first thread */
 	struct al_assay_reader own;
-	char own_apart_after[64];
 	struct spec_cache specs; /* the reading's */
 	char *header_text; /* the file's header cells, trimmed, NUL-separated */
 	const al_titrant **lots_used;
