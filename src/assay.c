@@ -130,10 +130,9 @@ struct al_assay {
 	al_diags diags;
 	al_assay_counts counts;
 
-	/* The keys and the groups lie in regions (al_region), which grow
-	 * without moving: at millions of groups, pages moved by realloc
-	 * cost their first touch again. arena and groups are their bases. */
-	al_region arena_r, groups_r;
+	/* The keys and the groups, in buffers grown by doubling (their
+	 * capacities in bytes) */
+	size_t arena_cap, groups_cap;
 	char *arena;
 	size_t arena_len;
 	struct group *groups;
@@ -246,9 +245,9 @@ al_assay_free(al_assay *run)
 	for (size_t i = 0; i < run->n_files; i++)
 		al_free(run->files[i]);
 	al_free(run->files);
-	al_region_free(&run->groups_r);
+	al_free(run->groups);
 	al_free(run->slots);
-	al_region_free(&run->arena_r);
+	al_free(run->arena);
 	al_free(run->file_groups);
 	al_free((void *)run->acids_used);
 	al_free((void *)run->specs_used);
@@ -479,17 +478,20 @@ map_ahead(void *buf, size_t used, size_t cap, size_t *mapped)
 	}
 }
 
-/* Region r grown to need bytes, `used` of them in use: after a move
- * *mapped counts again from what is in use. */
+/* A buffer (*base, *cap bytes) grown to at least need bytes, doubling,
+ * `used` of them in use: after a move *mapped counts again from what is
+ * in use. */
 static al_status
-grow_region(al_region *r, size_t need, size_t used, size_t *mapped)
+grow_buffer(void **base, size_t *cap, size_t need, size_t used,
+	    size_t *mapped)
 {
-	void *was = r->base;
+	void *p = al_reserve(*base, cap, need);
 
-	if (al_region_grow(r, need) != 0)
+	if (p == NULL)
 		return AL_ENOMEM;
-	if (r->base != was)
+	if (p != *base)
 		*mapped = used;
+	*base = p;
 	return AL_OK;
 }
 
@@ -532,25 +534,28 @@ find_group(al_assay *run, const char *p, size_t pl, const char *l, size_t ll,
 	need = pl + ll + sl + 3;
 	if (run->arena_len + need > UINT32_MAX)
 		return AL_ENOMEM; /* 4 GiB of names: beyond any lab's run */
-	if (run->arena_len + need > run->arena_r.committed) {
-		if (grow_region(&run->arena_r, run->arena_len + need,
+	if (run->arena_len + need > run->arena_cap) {
+		void *base = run->arena;
+
+		if (grow_buffer(&base, &run->arena_cap, run->arena_len + need,
 				run->arena_len, &run->arena_mapped) != AL_OK)
 			return AL_ENOMEM;
-		run->arena = run->arena_r.base;
+		run->arena = base;
 	}
-	if ((run->n_groups + 1) * sizeof *run->groups >
-	    run->groups_r.committed) {
-		if (grow_region(&run->groups_r,
+	if ((run->n_groups + 1) * sizeof *run->groups > run->groups_cap) {
+		void *base = run->groups;
+
+		if (grow_buffer(&base, &run->groups_cap,
 				(run->n_groups + 1) * sizeof *run->groups,
 				run->n_groups * sizeof *run->groups,
 				&run->groups_mapped) != AL_OK)
 			return AL_ENOMEM;
-		run->groups = run->groups_r.base;
+		run->groups = base;
 	}
-	map_ahead(run->arena_r.base, run->arena_len + need,
-		  run->arena_r.committed, &run->arena_mapped);
-	map_ahead(run->groups_r.base, (run->n_groups + 1) * sizeof *run->groups,
-		  run->groups_r.committed, &run->groups_mapped);
+	map_ahead(run->arena, run->arena_len + need, run->arena_cap,
+		  &run->arena_mapped);
+	map_ahead(run->groups, (run->n_groups + 1) * sizeof *run->groups,
+		  run->groups_cap, &run->groups_mapped);
 	g = &run->groups[run->n_groups];
 	memset(g, 0, sizeof *g);
 	g->key = (uint32_t)run->arena_len;

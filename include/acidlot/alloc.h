@@ -27,32 +27,6 @@ void al_prefault(void *base, size_t from, size_t to);
 /* The system's page size in bytes (4096 where it cannot be had). */
 size_t al_page_bytes(void);
 
-/* Memory that grows in place: base stays where it is while the region
- * grows, so that the pages in use are never moved. On this kind of
- * virtual machine a page costs about 10 microseconds the first time it
- * is touched at an address, and again (about half as much) after
- * realloc has moved it with mremap; a table that doubles ten times
- * pays for its pages again and again (DEVELOPERS.md, "Speed and
- * memory"). The region holds address space ahead (1 GiB, or four times
- * what is asked) and makes it usable as it grows; untouched address
- * space costs no memory. Where address space is short (a ulimit -v),
- * or past what it holds, it moves like realloc. A region starts zeroed
- * (al_region r = {0}); its bytes [0, committed) are usable, and read as
- * zeros until written. */
-typedef struct al_region {
-	void *base;
-	size_t reserved;  /* bytes of address space held */
-	size_t committed; /* bytes usable */
-} al_region;
-
-/* Makes at least need bytes usable at r->base (keeping the bytes there),
- * twice as many as before or need, whichever is more: 0, or -1 when
- * memory runs out (errno ENOMEM; base, committed and the bytes are as
- * they were). Counts as one allocation for fault injection, when it has
- * to grow. al_region_free unmaps it and zeroes r. */
-int al_region_grow(al_region *r, size_t need);
-void al_region_free(al_region *r);
-
 /* Copy of the first len bytes of s, NUL-terminated; NULL on failure. */
 char *al_strndup(const char *s, size_t len);
 char *al_strdup(const char *s);
