@@ -9,7 +9,7 @@
 #include "acidlot/csvread.h"
 #include "acidlot/date.h"
 #include "acidlot/number.h"
-#include "acidlot/report.h"
+#include "acidlot/csvwrite.h"
 #include "acidlot/table.h"
 #include "acidlot/text.h"
 #include "strindex.h"

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/csvwrite.h"
 #include "lanes.h"
 
 static char
@@ -277,42 +278,8 @@ sink_ulong(struct sink *k, unsigned long v)
 	sink_put(k, tmp + i, sizeof tmp - i);
 }
 
-/* A byte that starts a formula in a spreadsheet cell (OWASP, CSV
- * injection), and one that a spreadsheet may split cells at: a text
- * cell is guarded wherever one of its pieces, as a spreadsheet set to
- * any of these delimiters would split it, starts a formula. */
-#define FORMULA_START "=+-@\t\r"
-#define ANY_DELIMITER ",;\t"
-
-/* Byte i of s starts a piece that a spreadsheet would run as a formula,
- * or one already guarded ('s before a formula), so that one ' more keeps
- * the guard reversible (al_csv_unguard). */
-static int
-risky_at(const char *s, size_t len, size_t i)
-{
-	if (i > 0 && strchr(ANY_DELIMITER, s[i - 1]) == NULL)
-		return 0;
-	while (i < len && s[i] == '\'')
-		i++;
-	return i < len && s[i] != '\0' && strchr(FORMULA_START, s[i]) != NULL;
-}
-
-size_t
-al_csv_unguard(char *s, size_t len)
-{
-	size_t n = 0;
-
-	for (size_t i = 0; i < len; i++) {
-		if (s[i] == '\'' && risky_at(s, len, i))
-			i++; /* the guard's ' */
-		if (i < len)
-			s[n++] = s[i];
-	}
-	return n;
-}
-
 /* Writes s as one CSV field, quoted as RFC 4180 asks; with guard, a '
- * goes before every piece that starts a formula (risky_at). The count of
+ * goes before every piece that starts a formula (al_csv_formula_at). The count of
  * guards written. */
 static unsigned long
 put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
@@ -333,7 +300,7 @@ put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
 			if (special[c] == 2)
 				quotes = 1;
 		}
-		risky |= guard && risky_at(s, len, i);
+		risky |= guard && al_csv_formula_at(s, len, i);
 	}
 	if (quote)
 		sink_char(k, '"');
@@ -341,7 +308,7 @@ put_quoted(struct sink *k, const char *s, size_t len, char delimiter,
 		sink_put(k, s, len);
 	else
 		for (size_t i = 0; i < len; i++) {
-			if (risky && risky_at(s, len, i)) {
+			if (risky && al_csv_formula_at(s, len, i)) {
 				sink_char(k, '\'');
 				guards++;
 			}
@@ -358,18 +325,6 @@ static void
 put_text(struct sink *k, const char *s, size_t len, al_report_options *opt)
 {
 	k->guarded += put_quoted(k, s, len, delim_of(opt), !opt->raw_text) > 0;
-}
-
-int
-al_csv_put_field(FILE *out, const char *s, char delimiter)
-{
-	char kb[SINK_BYTES];
-	struct sink k;
-
-	sink_open(&k, out, kb, sizeof kb);
-	put_quoted(&k, s, strlen(s), delimiter ? delimiter : ',', 1);
-	sink_flush(&k);
-	return ferror(out) ? EOF : 0;
 }
 
 int

@@ -7,6 +7,7 @@
 #include "acidlot/assay.h"
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/csvwrite.h"
 #include "acidlot/date.h"
 #include "acidlot/gum.h"
 #include "acidlot/juice.h"

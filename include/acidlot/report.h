@@ -28,14 +28,6 @@ typedef struct al_report_options {
 void al_format_number(double v, int decimals, int decimal_comma, char *buf,
 		      size_t cap);
 
-/* Writes one CSV text field, quoted as RFC 4180 asks when it holds the
- * delimiter, a quote, CR or LF, and guarded against formulas as
- * al_csv_put_text does. Returns 0, or EOF on a write error. */
-int al_csv_put_field(FILE *out, const char *s, char delimiter);
-/* Undoes the guard in place: s[0..len) as it was before it was written;
- * returns its new length. */
-size_t al_csv_unguard(char *s, size_t len);
-
 /* Writes a text cell copied from the input. Unless opt->raw_text, every
  * piece of it that starts with '=', '+', '-', '@', tab or CR (the cell's
  * start, and after each ',', ';' or tab, where a spreadsheet set to
