@@ -5,7 +5,7 @@
 
 #include <stdint.h>
 
-#include "acidlot/assay.h"
+#include "acidlot/result.h"
 
 /* Running statistics of a result whose values were not all kept (more
  * than AL_VALUES_KEPT): mean, sum of squared deviations, the two

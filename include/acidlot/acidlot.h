@@ -15,6 +15,7 @@
 #include "acidlot/outfile.h"
 #include "acidlot/register.h"
 #include "acidlot/report.h"
+#include "acidlot/result.h"
 #include "acidlot/screens.h"
 #include "acidlot/spec.h"
 #include "acidlot/standardize.h"
