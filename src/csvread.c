@@ -804,6 +804,81 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 	return r->stop == AL_OK;
 }
 
+/* The file's start, in chunk (*n bytes, more read here to see at least
+ * three): a UTF-8 byte-order mark is skipped (*skip), UTF-16 and UTF-32
+ * are refused, a spreadsheet's "sep=;" first line names the delimiter
+ * (honoured unless another was given; its line still counts, and
+ * r->cur_line becomes 2), and AL_CSV_AUTO detects it from the header.
+ * 0, or -1 after a failure (r->stop). */
+static int
+first_chunk(struct reader *r, struct csv_parser *p, al_read_fn read_fn,
+	    void *read_ctx, char *chunk, size_t *n, size_t *skip)
+{
+	const al_csv_options *opt = r->opt;
+	int failed = 0;
+
+	while (*n < 3) {
+		size_t more = read_fn(read_ctx, chunk + *n, CHUNK - *n, &failed);
+
+		if (failed || more == 0)
+			break;
+		*n += more;
+	}
+	if (failed) {
+		fail(r, AL_EIO, 0, NULL);
+		return -1;
+	}
+	if (*n >= 3 && memcmp(chunk, "\xEF\xBB\xBF", 3) == 0)
+		*skip = 3;
+	if (*n >= 2 && (memcmp(chunk, "\xFF\xFE", 2) == 0 ||
+			memcmp(chunk, "\xFE\xFF", 2) == 0 ||
+			(*n >= 4 && memcmp(chunk, "\0\0\xFE\xFF", 4) == 0))) {
+		/* FF FE 00 00 is UTF-32 LE, 00 00 FE FF BE */
+		int wide = *n >= 4 && (memcmp(chunk + 2, "\0\0", 2) == 0 ||
+				       chunk[0] == 0);
+
+		fail(r, AL_ESYNTAX, 1,
+		     wide ? "the file is UTF-32 text: save or export it as "
+			    "UTF-8 CSV"
+			  : "the file is UTF-16 text: save or export it as "
+			    "UTF-8 CSV");
+		return -1;
+	}
+	if (*n - *skip >= 5 && memcmp(chunk + *skip, "sep=", 4) == 0 &&
+	    (*n - *skip == 5 || chunk[*skip + 5] == '\r' ||
+	     chunk[*skip + 5] == '\n') &&
+	    (opt->delimiter == 0 || opt->delimiter == AL_CSV_AUTO ||
+	     opt->delimiter == chunk[*skip + 4])) {
+		size_t k = *skip + 5;
+
+		r->delimiter = chunk[*skip + 4];
+		if (k < *n && chunk[k] == '\r')
+			k++;
+		if (k < *n && chunk[k] == '\n')
+			k++;
+		*skip = k;
+		r->cur_line = 2;
+	} else if (opt->delimiter == AL_CSV_AUTO) {
+		char found[64], msg[160];
+
+		r->delimiter = detect_delimiter(chunk + *skip, *n - *skip, found,
+						sizeof found);
+		if (r->delimiter == 0) {
+			snprintf(msg, sizeof msg,
+				 found[0] ? "cannot tell the delimiter: the header "
+					    "has %s; give --delimiter"
+					  : "cannot tell the delimiter: the header "
+					    "has no ',', ';' or tab%s; give "
+					    "--delimiter",
+				 found);
+			fail(r, AL_ESYNTAX, 1, msg);
+			return -1;
+		}
+	}
+	csv_set_delim(p, (unsigned char)r->delimiter);
+	return 0;
+}
+
 al_status
 al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	    const char *name, al_csv_row_fn row_fn, void *ud, al_diags *diags)
@@ -851,80 +926,12 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 		if (n == 0)
 			break;
 		if (first) {
-			/* Gather at least three bytes to look for a BOM. */
-			while (n < 3) {
-				size_t more = read_fn(read_ctx, chunk + n,
-						      CHUNK - n, &failed);
-				if (failed || more == 0)
-					break;
-				n += more;
-			}
-			if (failed) {
-				fail(&r, AL_EIO, 0, NULL);
-				break;
-			}
-			if (n >= 3 && memcmp(chunk, "\xEF\xBB\xBF", 3) == 0)
-				skip = 3;
 			first = 0;
-			if (n >= 2 && (memcmp(chunk, "\xFF\xFE", 2) == 0 ||
-				       memcmp(chunk, "\xFE\xFF", 2) == 0 ||
-				       (n >= 4 &&
-					memcmp(chunk, "\0\0\xFE\xFF", 4) == 0))) {
-				/* FF FE 00 00 is UTF-32 LE, 00 00 FE FF BE */
-				int wide = n >= 4 && (memcmp(chunk + 2, "\0\0", 2) == 0 ||
-						      chunk[0] == 0);
-
-				fail(&r, AL_ESYNTAX, 1,
-				     wide ? "the file is UTF-32 text: save or "
-					    "export it as UTF-8 CSV"
-					  : "the file is UTF-16 text: save or "
-					    "export it as UTF-8 CSV");
+			if (first_chunk(&r, &p, read_fn, read_ctx, chunk, &n,
+					&skip) != 0)
 				break;
-			}
-			/* A spreadsheet's "sep=;" first line names the
-			 * delimiter; it is honoured unless another one was
-			 * given, and its line still counts. */
-			if (n - skip >= 5 && memcmp(chunk + skip, "sep=", 4) == 0 &&
-			    (n - skip == 5 || chunk[skip + 5] == '\r' ||
-			     chunk[skip + 5] == '\n') &&
-			    (opt->delimiter == 0 || opt->delimiter == AL_CSV_AUTO ||
-			     opt->delimiter == chunk[skip + 4])) {
-				size_t k = skip + 5;
-
-				r.delimiter = chunk[skip + 4];
-				if (k < n && chunk[k] == '\r')
-					k++;
-				if (k < n && chunk[k] == '\n')
-					k++;
-				skip = k;
+			if (r.cur_line == 2) /* a "sep=" line */
 				phys_line = 2;
-				r.cur_line = 2;
-				csv_set_delim(&p, (unsigned char)r.delimiter);
-			} else if (opt->delimiter == AL_CSV_AUTO) {
-				char found[64];
-
-				r.delimiter = detect_delimiter(
-					chunk + skip, n - skip, found,
-					sizeof found);
-				if (r.delimiter == 0) {
-					char msg[160];
-
-					snprintf(msg, sizeof msg,
-						 found[0] ? "cannot tell the "
-							    "delimiter: the "
-							    "header has %s; "
-							    "give --delimiter"
-							  : "cannot tell the "
-							    "delimiter: the "
-							    "header has no ',', "
-							    "';' or tab%s; give "
-							    "--delimiter",
-						 found);
-					fail(&r, AL_ESYNTAX, 1, msg);
-					break;
-				}
-			}
-			csv_set_delim(&p, (unsigned char)r.delimiter);
 		}
 		memset(chunk + n, 0, SCAN_PAD); /* scan_line reads past n */
 		if (!feed(&r, &p, chunk + skip, n - skip, &phys_line, &prev_cr))
