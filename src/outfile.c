@@ -50,21 +50,65 @@ al_outfile_unlink_all(void)
 	}
 }
 
+static void release(al_outfile *f);
+
+/* The temporary file beside f->dest, with the mode the output will
+ * have: a file replaced keeps its own, a new one gets 0666 less the
+ * umask. AL_OK, AL_EIO or AL_ENOMEM. */
+static al_status
+open_temp(al_outfile *f)
+{
+	const char *slash = strrchr(f->dest, '/');
+	size_t dirlen = slash ? (size_t)(slash - f->dest + 1) : 0;
+	struct stat sb;
+	mode_t mode;
+	int fd, saved;
+
+	if (stat(f->dest, &sb) == 0)
+		mode = sb.st_mode & 07777;
+	else {
+		mode_t mask = umask(0);
+
+		umask(mask);
+		mode = 0666 & ~mask;
+	}
+	f->tmp = al_malloc(dirlen + sizeof ".acidlot-XXXXXX");
+	f->old = al_malloc(dirlen + sizeof ".acidlot-old-XXXXXX");
+	if (f->tmp == NULL || f->old == NULL)
+		return AL_ENOMEM;
+	memcpy(f->tmp, f->dest, dirlen);
+	memcpy(f->tmp + dirlen, ".acidlot-XXXXXX", sizeof ".acidlot-XXXXXX");
+	fd = mkstemp(f->tmp);
+	if (fd < 0) {
+		al_free(f->tmp);
+		f->tmp = NULL;
+		return AL_EIO;
+	}
+	note_tmp(f->tmp, NULL); /* a signal now removes it */
+	/* mkstemp makes 0600 */
+	if (fchmod(fd, mode) != 0 || (f->stream = fdopen(fd, "w")) == NULL) {
+		saved = errno;
+		close(fd);
+		unlink(f->tmp);
+		errno = saved;
+		return AL_EIO;
+	}
+	/* large writes: a report of millions of lines */
+	setvbuf(f->stream, NULL, _IOFBF, 1 << 18);
+	return AL_OK;
+}
+
 al_outfile *
 al_outfile_open(const char *path, al_status *status)
 {
 	al_outfile *f = al_calloc(1, sizeof *f);
-	const char *slash;
-	size_t dirlen;
-	int fd, saved;
-	mode_t mode;
 	struct stat sb;
+	al_status st = AL_ENOMEM;
+	int saved;
 
-	if (f == NULL)
-		goto nomem;
-	f->path = al_strdup(path);
-	if (f->path == NULL)
-		goto nomem;
+	if (f == NULL || (f->path = al_strdup(path)) == NULL)
+		goto fail;
+	st = AL_EIO;
 	if (strcmp(path, "-") == 0) {
 		f->stream = stdout;
 		*status = AL_OK;
@@ -75,11 +119,10 @@ al_outfile_open(const char *path, al_status *status)
 	if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode)) {
 		if (S_ISDIR(sb.st_mode)) {
 			errno = EISDIR;
-			goto io;
+			goto fail;
 		}
-		f->stream = fopen(path, "w");
-		if (f->stream == NULL)
-			goto io;
+		if ((f->stream = fopen(path, "w")) == NULL)
+			goto fail;
 		f->direct = 1;
 		*status = AL_OK;
 		return f;
@@ -90,66 +133,22 @@ al_outfile_open(const char *path, al_status *status)
 		char *real = realpath(path, NULL);
 
 		if (real == NULL)
-			goto io;
+			goto fail;
 		f->dest = al_strdup(real);
 		free(real);
 	} else
 		f->dest = al_strdup(path);
-	if (f->dest == NULL)
-		goto nomem;
-	if (stat(f->dest, &sb) == 0)
-		mode = sb.st_mode & 07777; /* a file replaced keeps its mode */
-	else {
-		mode_t mask = umask(0);
-
-		umask(mask);
-		mode = 0666 & ~mask; /* a new one, the usual */
+	st = f->dest == NULL ? AL_ENOMEM : open_temp(f);
+	if (st == AL_OK) {
+		*status = AL_OK;
+		return f;
 	}
-	slash = strrchr(f->dest, '/');
-	dirlen = slash ? (size_t)(slash - f->dest + 1) : 0;
-	f->tmp = al_malloc(dirlen + sizeof ".acidlot-XXXXXX");
-	f->old = al_malloc(dirlen + sizeof ".acidlot-old-XXXXXX");
-	if (f->tmp == NULL || f->old == NULL)
-		goto nomem;
-	memcpy(f->tmp, f->dest, dirlen);
-	memcpy(f->tmp + dirlen, ".acidlot-XXXXXX", sizeof ".acidlot-XXXXXX");
-	fd = mkstemp(f->tmp);
-	if (fd < 0)
-		goto io;
-	note_tmp(f->tmp, NULL); /* a signal now removes it */
-	/* mkstemp makes 0600 */
-	if (fchmod(fd, mode) != 0 ||
-	    (f->stream = fdopen(fd, "w")) == NULL) {
-		saved = errno;
-		close(fd);
-		unlink(f->tmp);
-		note_tmp(NULL, f->tmp);
-		errno = saved;
-		goto io;
-	}
-	/* large writes: a report of millions of lines */
-	setvbuf(f->stream, NULL, _IOFBF, 1 << 18);
-	*status = AL_OK;
-	return f;
-io:
+fail:
 	saved = errno;
-	al_free(f->tmp);
-	al_free(f->old);
-	al_free(f->dest);
-	al_free(f->path);
-	al_free(f);
+	if (f != NULL)
+		release(f);
 	errno = saved;
-	*status = AL_EIO;
-	return NULL;
-nomem:
-	if (f) {
-		al_free(f->tmp);
-		al_free(f->old);
-		al_free(f->dest);
-		al_free(f->path);
-	}
-	al_free(f);
-	*status = AL_ENOMEM;
+	*status = st;
 	return NULL;
 }
 
