@@ -682,6 +682,44 @@ line_end(const char *data, size_t pos, size_t q, unsigned long *phys_line,
 	return q;
 }
 
+/* libcsv stopped short of a segment's end: why, as a malformed
+ * record's message. In recover mode 1, with the message in
+ * r->record_error for the record to be skipped; else (or when memory ran
+ * out) 0 after fail(). */
+static int
+stopped(struct reader *r, struct csv_parser *p, unsigned long phys_line)
+{
+	char msg[160];
+	unsigned long line = phys_line;
+
+	if (r->record_error[0])
+		snprintf(msg, sizeof msg, "%s", r->record_error);
+	else if (hook_refused && phys_line != r->cur_line && !r->opt->recover)
+		snprintf(msg, sizeof msg,
+			 "field too long (over %zu bytes) in the record that "
+			 "starts here: an unclosed quote?",
+			 r->max_field);
+	else if (hook_refused)
+		snprintf(msg, sizeof msg, "field too long (over %zu bytes)",
+			 r->max_field);
+	else if (csv_error(p) == CSV_EPARSE)
+		snprintf(msg, sizeof msg,
+			 "malformed quoting (a quote inside an unquoted field, "
+			 "or text after a closing quote)");
+	else {
+		fail(r, AL_ENOMEM, 0, NULL);
+		return 0;
+	}
+	if (hook_refused)
+		line = r->cur_line; /* where the record with the field began */
+	if (!r->opt->recover) {
+		fail(r, AL_ESYNTAX, line, msg);
+		return 0;
+	}
+	snprintf(r->record_error, sizeof r->record_error, "%s", msg);
+	return 1;
+}
+
 /* Feeds one chunk to libcsv a line at a time, so that each record's raw
  * bytes are known and an error's line is exact; plain whole lines take
  * the fast path. */
@@ -745,58 +783,19 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 					 on_record, r);
 		if (r->stop != AL_OK)
 			break;
-		if (done != q - pos && r->opt->recover) {
-			char msg[160];
+		if (done != q - pos) {
 			size_t from = pos + done;
 
-			if (r->record_error[0])
-				snprintf(msg, sizeof msg, "%s", r->record_error);
-			else if (hook_refused)
-				snprintf(msg, sizeof msg,
-					 "field too long (over %zu bytes)",
-					 r->max_field);
-			else if (csv_error(p) == CSV_EPARSE)
-				snprintf(msg, sizeof msg,
-					 "malformed quoting (a quote inside an "
-					 "unquoted field, or text after a "
-					 "closing quote)");
-			else {
-				fail(r, AL_ENOMEM, 0, NULL);
+			if (!stopped(r, p, *phys_line))
 				break;
-			}
 			/* the record is rejected whole: its quoting up to the
 			 * error, then on to its end */
 			quote_scan(r, data + pos, done);
-			snprintf(r->record_error, sizeof r->record_error, "%s",
-				 msg);
 			r->skipping = 1;
 			pos = line_end(data, pos, q, phys_line, prev_cr);
 			skip_bad(r, p, data + from, q - from, *phys_line,
 				 data[q - 1]);
 			continue;
-		} else if (done != q - pos) {
-			if (hook_refused) {
-				char msg[128];
-
-				if (*phys_line != r->cur_line)
-					snprintf(msg, sizeof msg,
-						 "field too long (over %zu bytes) "
-						 "in the record that starts here: "
-						 "an unclosed quote?",
-						 r->max_field);
-				else
-					snprintf(msg, sizeof msg,
-						 "field too long (over %zu bytes)",
-						 r->max_field);
-				fail(r, AL_ESYNTAX, r->cur_line, msg);
-			} else if (csv_error(p) == CSV_EPARSE)
-				fail(r, AL_ESYNTAX, *phys_line,
-				     "malformed quoting (a quote inside an "
-				     "unquoted field, or text after a "
-				     "closing quote)");
-			else
-				fail(r, AL_ENOMEM, 0, NULL);
-			break;
 		}
 		quote_scan(r, data + pos, q - pos);
 		pos = line_end(data, pos, q, phys_line, prev_cr);
