@@ -152,6 +152,70 @@ date_cell(struct reader *r, const al_csv_row *row, int k, long *days)
 	return -1;
 }
 
+/* The header: every column but rsd_pct is needed. */
+static al_status
+reg_header(struct reader *r, const al_csv_row *row)
+{
+	r->header_done = 1;
+	r->fields = row->nfields;
+	if (al_header_map(AL_UNKNOWN_ERROR, row, reg_cols, R_COUNT, NULL, 0,
+			  r->col, r->file, r->diags) != AL_OK)
+		r->bad = 1;
+	for (int k = 0; k < R_COUNT; k++)
+		if (r->col[k] < 0 && k != R_RSD) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     NULL, "not a titrant register: no column '%s'",
+				     reg_cols[k]);
+			r->bad = 1;
+		}
+	return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+}
+
+/* A lot's figures, dates and validity into t, each checked (errors to
+ * r->diags). */
+static void
+reg_values(struct reader *r, const al_csv_row *row, al_titrant *t)
+{
+	size_t len;
+	const char *s;
+	double n;
+	int got;
+
+	if (al_cell_number(row, r->col[R_CONC], "concentration_mol_l", '.',
+			   r->file, r->diags, &t->concentration_mol_l) != 1 ||
+	    !(t->concentration_mol_l > 0))
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "concentration_mol_l", "needs a concentration above 0");
+	if (al_cell_number(row, r->col[R_U], "u_mol_l", '.', r->file, r->diags,
+			   &t->u_mol_l) != 1 ||
+	    t->u_mol_l < 0)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "u_mol_l", "needs an uncertainty of 0 or more");
+	got = al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n);
+	if (got == 0)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "n",
+			     "is empty: the number of titrations is needed");
+	else if (got == 1 && n >= 1 && n <= 1000000 && n == floor(n))
+		t->n = (size_t)n;
+	else if (got == 1)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "n",
+			     "%g is not a whole number from 1 to 1000000", n);
+	t->has_rsd = al_cell_number(row, r->col[R_RSD], "rsd_pct", '.', r->file,
+				    r->diags, &t->rsd_pct) == 1;
+	if (date_cell(r, row, R_ON, &t->standardised_on) == 0 &&
+	    date_cell(r, row, R_UNTIL, &t->valid_until) == 0 &&
+	    t->valid_until < t->standardised_on)
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "valid_until", "is before standardised_on");
+	s = al_cell(row, r->col[R_VALID], &len);
+	if (al_word_eq(s, len, "yes"))
+		t->valid = 1;
+	else if (!al_word_eq(s, len, "no"))
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "valid",
+			     "'%.*s' is neither yes nor no", (int)(len > 20 ? 20 : len),
+			     s);
+}
+
 static al_status
 reg_row(void *ud, const al_csv_row *row)
 {
@@ -159,27 +223,10 @@ reg_row(void *ud, const al_csv_row *row)
 	al_titrant t;
 	size_t len;
 	const char *s;
-	double n;
-	int got;
 	unsigned long errs = r->diags->errors;
 
-	if (!r->header_done) {
-		r->header_done = 1;
-		r->fields = row->nfields;
-		if (al_header_map(AL_UNKNOWN_ERROR, row, reg_cols, R_COUNT, NULL, 0, r->col,
-				  r->file, r->diags) != AL_OK)
-			r->bad = 1;
-		for (int k = 0; k < R_COUNT; k++)
-			if (r->col[k] < 0 && k != R_RSD) {
-				al_diags_add(r->diags, AL_SEV_ERROR, r->file,
-					     row->line, NULL,
-					     "not a titrant register: no column "
-					     "'%s'",
-					     reg_cols[k]);
-				r->bad = 1;
-			}
-		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
-	}
+	if (!r->header_done)
+		return reg_header(r, row);
 	if (r->bad)
 		return AL_OK;
 	if (row->nfields != r->fields) {
@@ -191,42 +238,7 @@ reg_row(void *ud, const al_csv_row *row)
 	}
 	memset(&t, 0, sizeof t);
 	t.line = row->line;
-	if (al_cell_number(row, r->col[R_CONC], "concentration_mol_l", '.',
-			   r->file, r->diags, &t.concentration_mol_l) != 1 ||
-	    !(t.concentration_mol_l > 0))
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-			     "concentration_mol_l", "needs a concentration above 0");
-	if (al_cell_number(row, r->col[R_U], "u_mol_l", '.', r->file, r->diags,
-			   &t.u_mol_l) != 1 ||
-	    t.u_mol_l < 0)
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-			     "u_mol_l", "needs an uncertainty of 0 or more");
-	got = al_cell_number(row, r->col[R_N], "n", '.', r->file, r->diags, &n);
-	if (got == 0)
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "n",
-			     "is empty: the number of titrations is needed");
-	else if (got == 1) {
-		if (n >= 1 && n <= 1000000 && n == floor(n))
-			t.n = (size_t)n;
-		else
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     "n", "%g is not a whole number from 1 to "
-					  "1000000", n);
-	}
-	t.has_rsd = al_cell_number(row, r->col[R_RSD], "rsd_pct", '.', r->file,
-				   r->diags, &t.rsd_pct) == 1;
-	if (date_cell(r, row, R_ON, &t.standardised_on) == 0 &&
-	    date_cell(r, row, R_UNTIL, &t.valid_until) == 0 &&
-	    t.valid_until < t.standardised_on)
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-			     "valid_until", "is before standardised_on");
-	s = al_cell(row, r->col[R_VALID], &len);
-	if (al_word_eq(s, len, "yes"))
-		t.valid = 1;
-	else if (!al_word_eq(s, len, "no"))
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "valid",
-			     "'%.*s' is neither yes nor no", (int)(len > 20 ? 20 : len),
-			     s);
+	reg_values(r, row, &t);
 	s = al_cell(row, r->col[R_LOT], &len);
 	if (al_text_identifier(s, len, &r->ident, &r->ident_cap, &len) != AL_OK)
 		return AL_ENOMEM;
