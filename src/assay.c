@@ -793,53 +793,16 @@ spec_of(const al_assay *run, struct spec_cache *sc, const char *product,
 	al_diags_add(&(run)->diags, (sev), (run)->file, (line), (column),      \
 		     __VA_ARGS__)
 
-static al_status
-check_header(al_assay *run, const al_csv_row *row)
+/* The required columns: sample, titrant_ml, and mass_g or volume_ml;
+ * each one missing is an error listing the file's header and the
+ * closest cell. 1 when all are there. */
+static int
+required_columns(al_assay *run, const al_csv_row *row)
 {
-	int ok = 1;
 	char have[512];
 	size_t hl = 0;
+	int ok = 1;
 
-	run->header_done = 1;
-	run->header_fields = row->nfields;
-	if (row->nfields == 1 && run->opt.csv.delimiter != AL_CSV_AUTO &&
-	    (memchr(row->fields[0], ';', row->lens[0]) ||
-	     memchr(row->fields[0], '\t', row->lens[0]))) {
-		int semi = memchr(row->fields[0], ';', row->lens[0]) != NULL;
-
-		/* the one message that helps: column errors would only
-		 * repeat the whole line */
-		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
-			 "the header is one field holding %s: the file is "
-			 "delimited by %s; try --delimiter %s (or --delimiter "
-			 "auto)",
-			 semi ? "';'" : "tabs", semi ? "';'" : "tabs",
-			 semi ? "';'" : "tab");
-		run->header_ok = 0;
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
-	}
-	{
-		size_t need = 0, pos = 0;
-
-		for (size_t i = 0; i < row->nfields; i++)
-			need += row->lens[i] + 1;
-		al_free(run->header_text);
-		run->header_text = al_malloc(need + 1);
-		if (run->header_text == NULL)
-			return AL_ENOMEM;
-		for (size_t i = 0; i < row->nfields; i++) {
-			size_t len = row->lens[i];
-			const char *h = al_trim(row->fields[i], &len);
-
-			memcpy(run->header_text + pos, h, len);
-			run->header_text[pos + len] = '\0';
-			pos += len + 1;
-		}
-	}
-	if (al_header_map(AL_UNKNOWN_WARN, row, cols, C_COUNT, run->opt.aliases,
-			  run->opt.n_aliases, run->col, run->file,
-			  &run->diags) != AL_OK)
-		ok = 0;
 	have[0] = '\0';
 	for (size_t i = 0; i < row->nfields && hl < sizeof have; i++) {
 		int w = snprintf(have + hl, sizeof have - hl, "%s%s",
@@ -887,6 +850,56 @@ check_header(al_assay *run, const al_csv_row *row)
 				 have);
 		ok = 0;
 	}
+	return ok;
+}
+
+static al_status
+check_header(al_assay *run, const al_csv_row *row)
+{
+	int ok = 1;
+
+	run->header_done = 1;
+	run->header_fields = row->nfields;
+	if (row->nfields == 1 && run->opt.csv.delimiter != AL_CSV_AUTO &&
+	    (memchr(row->fields[0], ';', row->lens[0]) ||
+	     memchr(row->fields[0], '\t', row->lens[0]))) {
+		int semi = memchr(row->fields[0], ';', row->lens[0]) != NULL;
+
+		/* the one message that helps: column errors would only
+		 * repeat the whole line */
+		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
+			 "the header is one field holding %s: the file is "
+			 "delimited by %s; try --delimiter %s (or --delimiter "
+			 "auto)",
+			 semi ? "';'" : "tabs", semi ? "';'" : "tabs",
+			 semi ? "';'" : "tab");
+		run->header_ok = 0;
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_EINPUT;
+	}
+	{
+		size_t need = 0, pos = 0;
+
+		for (size_t i = 0; i < row->nfields; i++)
+			need += row->lens[i] + 1;
+		al_free(run->header_text);
+		run->header_text = al_malloc(need + 1);
+		if (run->header_text == NULL)
+			return AL_ENOMEM;
+		for (size_t i = 0; i < row->nfields; i++) {
+			size_t len = row->lens[i];
+			const char *h = al_trim(row->fields[i], &len);
+
+			memcpy(run->header_text + pos, h, len);
+			run->header_text[pos + len] = '\0';
+			pos += len + 1;
+		}
+	}
+	if (al_header_map(AL_UNKNOWN_WARN, row, cols, C_COUNT, run->opt.aliases,
+			  run->opt.n_aliases, run->col, run->file,
+			  &run->diags) != AL_OK)
+		ok = 0;
+	if (!required_columns(run, row))
+		ok = 0;
 	if ((run->col[C_MADE_UP] < 0) != (run->col[C_ALIQUOT] < 0)) {
 		RUN_DIAG(run, AL_SEV_ERROR, row->line, NULL,
 			"'made_up_ml' and 'aliquot_ml' go together: the file "
