@@ -218,123 +218,61 @@ find_lot(al_std_run *run, const char *name, size_t len)
 	return NULL;
 }
 
-static al_status
-std_row(void *ud, const al_csv_row *row)
+/* A row's mass, titrant, blank, purity (the standard's by default) and
+ * date (the run's day by default) into *r and *titrant, each checked. */
+static void
+std_cells(al_std_run *run, const al_csv_row *row, const al_standard *standard,
+	  struct row *r, double *titrant)
 {
-	al_std_run *run = ud;
 	unsigned long errs = run->diags.errors, line = row->line;
-	const char *lot_name, *std_name, *date_text;
-	size_t ll, sl, dl;
-	const al_standard *standard;
-	struct row r;
-	double titrant = 0, blank = 0;
-	struct lot *lot;
+	const char *date_text;
+	double blank = 0;
+	size_t dl;
 	int got;
 
-	if (!run->header_done)
-		return std_header(run, row);
-	if (!run->header_ok)
-		return AL_OK;
-	run->rows++;
-	if (row->syntax_error) {
-		ERR(run, line, NULL, "%s", row->syntax_error);
-		return AL_OK;
-	}
-	if (row->nfields != run->header_fields) {
-		ERR(run, line, NULL, "%zu fields where the header has %zu",
-		    row->nfields, run->header_fields);
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
-	}
-	memset(&r, 0, sizeof r);
-	lot_name = al_cell(row, run->col[S_LOT], &ll);
-	if (al_text_identifier(lot_name, ll, &run->ident, &run->ident_cap,
-			       &ll) != AL_OK)
-		return AL_ENOMEM;
-	lot_name = run->ident;
-	if (ll == 0)
-		ERR(run, line, "titrant_lot", "is empty");
-	else if (ll > AL_IDENT_MAX)
-		ERR(run, line, "titrant_lot", "is longer than %d bytes",
-		    AL_IDENT_MAX);
-	std_name = al_cell(row, run->col[S_STANDARD], &sl);
-	{
-		char buf[64];
-
-		snprintf(buf, sizeof buf, "%.*s", (int)sl, std_name);
-		standard = al_catalogue_find_standard(run->cat,
-						      sl ? buf : "KHP");
-		if (standard == NULL)
-			ERR(run, line, "standard",
-			    "'%s' is not a known primary standard (KHP, "
-			    "sulfamic, benzoic)",
-			    buf);
-	}
 	got = al_cell_number(row, run->col[S_MASS], "mass_g", run->point,
-			     run->file, &run->diags, &r.mass);
+			     run->file, &run->diags, &r->mass);
 	if (got == 0)
 		ERR(run, line, "mass_g", "is empty");
-	else if (got == 1 && !(r.mass > 0))
+	else if (got == 1 && !(r->mass > 0))
 		ERR(run, line, "mass_g", "mass of standard must be above 0");
 	got = al_cell_number(row, run->col[S_TITRANT], "titrant_ml",
-			     run->point, run->file, &run->diags, &titrant);
+			     run->point, run->file, &run->diags, titrant);
 	if (got == 0)
 		ERR(run, line, "titrant_ml", "is empty");
 	got = al_cell_number(row, run->col[S_BLANK], "blank_ml", run->point,
 			     run->file, &run->diags, &blank);
 	if (got == 1 && blank < 0)
 		ERR(run, line, "blank_ml", "blank volume must not be negative");
-	if (!(titrant > blank) && run->diags.errors == errs)
+	if (!(*titrant > blank) && run->diags.errors == errs)
 		ERR(run, line, "titrant_ml",
 		    "titrant volume is not above the blank");
-	r.volume = titrant - blank;
+	r->volume = *titrant - blank;
 	got = al_cell_number(row, run->col[S_PURITY], "purity", run->point,
-			     run->file, &run->diags, &r.purity);
+			     run->file, &run->diags, &r->purity);
 	if (got == 0 && standard)
-		r.purity = standard->purity;
-	else if (got == 1 && !(r.purity > 0.9 && r.purity <= 1.0001))
+		r->purity = standard->purity;
+	else if (got == 1 && !(r->purity > 0.9 && r->purity <= 1.0001))
 		ERR(run, line, "purity",
 		    "purity %g is not a mass fraction near 1 (write 0.9995, "
 		    "not 99.95)",
-		    r.purity);
+		    r->purity);
 	date_text = al_cell(row, run->col[S_DATE], &dl);
-	r.date = run->today;
-	if (dl > 0 && al_date_parse(date_text, dl, &r.date) != 0)
+	r->date = run->today;
+	if (dl > 0 && al_date_parse(date_text, dl, &r->date) != 0)
 		ERR(run, line, "date", "'%.*s' is not a calendar date YYYY-MM-DD",
 		    (int)(dl > 40 ? 40 : dl), date_text);
-	if (run->diags.out_of_memory)
-		return AL_ENOMEM;
-	if (run->diags.errors != errs)
-		return AL_OK;
-	r.c = al_std_concentration(r.mass, r.purity, standard->molar_mass,
-				   r.volume);
-	if (!al_number_computable(r.mass) || !al_number_computable(titrant) ||
-	    !al_number_computable(r.volume) || !al_number_computable(r.c) ||
-	    r.c == 0) {
-		ERR(run, line, !al_number_computable(r.mass) ? "mass_g"
-							     : "titrant_ml",
-		    "the concentration (%g g / %g mL) is beyond the range it "
-		    "can be computed in (%g to %g)",
-		    r.mass, r.volume, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
-	}
-	/* what no titration of a primary standard can be: a net volume
-	 * below a burette's smallest reading, a mass below a balance's, a
-	 * titrant stronger than NaOH dissolves (about 19 mol/L; common
-	 * practice). Their uncertainty would not be a number either. */
-	if (r.volume < STD_VOLUME_MIN_ML || r.mass < STD_MASS_MIN_G ||
-	    r.c > STD_CONC_MAX) {
-		ERR(run, line, r.volume < STD_VOLUME_MIN_ML ? "titrant_ml" : "mass_g",
-		    "%g g over %g mL is no titration of a primary standard "
-		    "(at least %g mL and %g g, at most %g mol/L)",
-		    r.mass, r.volume, STD_VOLUME_MIN_ML, STD_MASS_MIN_G,
-		    STD_CONC_MAX);
-		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
-	}
-	if (r.c < AL_PLAUSIBLE_CONC_MIN || r.c > AL_PLAUSIBLE_CONC_MAX)
-		WARN(run, line, "mass_g",
-		     "%g mol/L is outside the usual %g-%g mol/L of a "
-		     "titrant: check the mass (g) and the volume (mL)",
-		     r.c, AL_PLAUSIBLE_CONC_MIN, AL_PLAUSIBLE_CONC_MAX);
+}
+
+/* Files a checked titration under its lot (made on its first row), one
+ * lot, one standard. */
+static al_status
+file_row(al_std_run *run, const char *lot_name, size_t ll,
+	 const al_standard *standard, unsigned long line, const struct row *rp)
+{
+	struct lot *lot;
+	struct row r = *rp;
+
 	lot = find_lot(run, lot_name, ll);
 	if (lot == NULL) {
 		struct lot *grown;
@@ -375,6 +313,93 @@ std_row(void *ud, const al_csv_row *row)
 	}
 	lot->rows[lot->n++] = r;
 	return AL_OK;
+}
+
+static al_status
+std_row(void *ud, const al_csv_row *row)
+{
+	al_std_run *run = ud;
+	unsigned long errs = run->diags.errors, line = row->line;
+	const char *lot_name, *std_name;
+	size_t ll, sl;
+	const al_standard *standard;
+	struct row r;
+	double titrant = 0;
+
+	if (!run->header_done)
+		return std_header(run, row);
+	if (!run->header_ok)
+		return AL_OK;
+	run->rows++;
+	if (row->syntax_error) {
+		ERR(run, line, NULL, "%s", row->syntax_error);
+		return AL_OK;
+	}
+	if (row->nfields != run->header_fields) {
+		ERR(run, line, NULL, "%zu fields where the header has %zu",
+		    row->nfields, run->header_fields);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	memset(&r, 0, sizeof r);
+	lot_name = al_cell(row, run->col[S_LOT], &ll);
+	if (al_text_identifier(lot_name, ll, &run->ident, &run->ident_cap,
+			       &ll) != AL_OK)
+		return AL_ENOMEM;
+	lot_name = run->ident;
+	if (ll == 0)
+		ERR(run, line, "titrant_lot", "is empty");
+	else if (ll > AL_IDENT_MAX)
+		ERR(run, line, "titrant_lot", "is longer than %d bytes",
+		    AL_IDENT_MAX);
+	std_name = al_cell(row, run->col[S_STANDARD], &sl);
+	{
+		char buf[64];
+
+		snprintf(buf, sizeof buf, "%.*s", (int)sl, std_name);
+		standard = al_catalogue_find_standard(run->cat,
+						      sl ? buf : "KHP");
+		if (standard == NULL)
+			ERR(run, line, "standard",
+			    "'%s' is not a known primary standard (KHP, "
+			    "sulfamic, benzoic)",
+			    buf);
+	}
+	std_cells(run, row, standard, &r, &titrant);
+	if (run->diags.out_of_memory)
+		return AL_ENOMEM;
+	if (run->diags.errors != errs)
+		return AL_OK;
+	r.c = al_std_concentration(r.mass, r.purity, standard->molar_mass,
+				   r.volume);
+	if (!al_number_computable(r.mass) || !al_number_computable(titrant) ||
+	    !al_number_computable(r.volume) || !al_number_computable(r.c) ||
+	    r.c == 0) {
+		ERR(run, line, !al_number_computable(r.mass) ? "mass_g"
+							     : "titrant_ml",
+		    "the concentration (%g g / %g mL) is beyond the range it "
+		    "can be computed in (%g to %g)",
+		    r.mass, r.volume, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	/* what no titration of a primary standard can be: a net volume
+	 * below a burette's smallest reading, a mass below a balance's, a
+	 * titrant stronger than NaOH dissolves (about 19 mol/L; common
+	 * practice). Their uncertainty would not be a number either. */
+	if (r.volume < STD_VOLUME_MIN_ML || r.mass < STD_MASS_MIN_G ||
+	    r.c > STD_CONC_MAX) {
+		ERR(run, line, r.volume < STD_VOLUME_MIN_ML ? "titrant_ml" : "mass_g",
+		    "%g g over %g mL is no titration of a primary standard "
+		    "(at least %g mL and %g g, at most %g mol/L)",
+		    r.mass, r.volume, STD_VOLUME_MIN_ML, STD_MASS_MIN_G,
+		    STD_CONC_MAX);
+		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
+	}
+	if (r.c < AL_PLAUSIBLE_CONC_MIN || r.c > AL_PLAUSIBLE_CONC_MAX)
+		WARN(run, line, "mass_g",
+		     "%g mol/L is outside the usual %g-%g mol/L of a "
+		     "titrant: check the mass (g) and the volume (mL)",
+		     r.c, AL_PLAUSIBLE_CONC_MIN, AL_PLAUSIBLE_CONC_MAX);
+	return file_row(run, lot_name, ll, standard, line, &r);
 }
 
 al_status
