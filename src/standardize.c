@@ -302,14 +302,15 @@ file_row(al_std_run *run, const char *lot_name, size_t ll,
 		    lot->name, lot->standard->name, lot->first_line);
 		return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
 	}
-	if (lot->n == lot->cap) {
-		size_t n = lot->cap ? 2 * lot->cap : 4;
-		struct row *grown = al_realloc(lot->rows, n * sizeof *grown);
+	{
+		size_t bytes = lot->cap * sizeof *lot->rows;
+		struct row *grown = al_reserve(lot->rows, &bytes,
+					       (lot->n + 1) * sizeof *grown);
 
 		if (grown == NULL)
 			return AL_ENOMEM;
 		lot->rows = grown;
-		lot->cap = n;
+		lot->cap = bytes / sizeof *grown;
 	}
 	lot->rows[lot->n++] = r;
 	return AL_OK;
