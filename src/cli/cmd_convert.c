@@ -46,8 +46,15 @@ acid_arg(const al_catalogue *cat, const char *option, const char *name)
 	return a;
 }
 
-int
-cmd_convert(int argc, char **argv)
+/* What the options say. */
+struct conv_args {
+	const char *acid, *to_acid, *to_unit;
+	double density, decimals; /* 0: none; -1: the default form */
+};
+
+/* 0, 1 after --help, -1 after a usage error. */
+static int
+parse_args(int argc, char **argv, struct conv_args *a)
 {
 	static const struct option options[] = {
 		{"acid", required_argument, NULL, OPT_ACID},
@@ -59,68 +66,97 @@ cmd_convert(int argc, char **argv)
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
-	const char *acid_name = NULL, *to_acid_name = NULL, *to_unit_name = NULL;
-	const al_acid *acid = NULL, *to_acid = NULL;
-	double value, density = 0, meq_per, out, dec = -1;
-	al_unit unit, to_unit;
-	al_catalogue *cat = NULL;
-	char num[64];
-	int c, rc = EXIT_TROUBLE;
+	int c;
 
+	memset(a, 0, sizeof *a);
+	a->decimals = -1;
 	optind = 1;
 	opterr = 0;
 	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
 		switch (c) {
 		case OPT_ACID:
-			acid_name = optarg;
+			a->acid = optarg;
 			break;
 		case OPT_TO_ACID:
-			to_acid_name = optarg;
+			a->to_acid = optarg;
 			break;
 		case OPT_TO_UNIT:
-			to_unit_name = optarg;
+			a->to_unit = optarg;
 			break;
 		case OPT_DENSITY:
 			if (cli_number("convert", "--density-g-ml", optarg,
-				       &density))
-				return EXIT_TROUBLE;
-			if (!(density > 0))
+				       &a->density))
+				return -1;
+			if (!(a->density > 0))
 				return cli_usage_error("convert",
 						       "--density-g-ml must be "
-						       "above 0");
+						       "above 0"),
+				       -1;
 			break;
 		case OPT_BRIX: {
 			double brix;
 
 			if (cli_number("convert", "--brix", optarg, &brix))
-				return EXIT_TROUBLE;
+				return -1;
 			/* the density of a sucrose solution of that Brix (NBS) */
-			if (al_density_from_brix(brix, &density) != AL_OK)
+			if (al_density_from_brix(brix, &a->density) != AL_OK)
 				return cli_usage_error("convert",
 						       "--brix: a density from Brix "
-						       "needs 0 to 40 Brix");
+						       "needs 0 to 40 Brix"),
+				       -1;
 			break;
 		}
 		case OPT_DECIMALS:
-			if (cli_number("convert", "--decimals", optarg, &dec))
-				return EXIT_TROUBLE;
-			if (!(dec >= 0 && dec <= 15) || dec != floor(dec))
+			if (cli_number("convert", "--decimals", optarg,
+				       &a->decimals))
+				return -1;
+			if (!(a->decimals >= 0 && a->decimals <= 15) ||
+			    a->decimals != floor(a->decimals))
 				return cli_usage_error("convert",
 						       "--decimals takes a whole "
-						       "number from 0 to 15");
+						       "number from 0 to 15"),
+				       -1;
 			break;
 		case 'h':
 			usage(stdout);
-			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+			return 1;
 		case ':':
 			return cli_usage_error("convert",
 					       "option '%s' needs a value",
-					       cli_bad_option(argv));
+					       cli_bad_option(argv)),
+			       -1;
 		default:
 			return cli_usage_error("convert", "unknown option '%s'",
-					       cli_bad_option(argv));
+					       cli_bad_option(argv)),
+			       -1;
 		}
 	}
+	return 0;
+}
+
+int
+cmd_convert(int argc, char **argv)
+{
+	const char *acid_name, *to_acid_name, *to_unit_name;
+	const al_acid *acid = NULL, *to_acid = NULL;
+	double value, density, meq_per, out, dec;
+	al_unit unit, to_unit;
+	al_catalogue *cat = NULL;
+	char num[64];
+	int rc = EXIT_TROUBLE;
+	struct conv_args o;
+
+	switch (parse_args(argc, argv, &o)) {
+	case 1:
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	case -1:
+		return EXIT_TROUBLE;
+	}
+	acid_name = o.acid;
+	to_acid_name = o.to_acid;
+	to_unit_name = o.to_unit;
+	density = o.density;
+	dec = o.decimals;
 	if (argc - optind != 2)
 		return cli_usage_error("convert",
 				       "give a VALUE and its UNIT, e.g. '7.5 g/L'");
