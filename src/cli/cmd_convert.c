@@ -137,9 +137,8 @@ parse_args(int argc, char **argv, struct conv_args *a)
 int
 cmd_convert(int argc, char **argv)
 {
-	const char *acid_name, *to_acid_name, *to_unit_name;
 	const al_acid *acid = NULL, *to_acid = NULL;
-	double value, density, meq_per, out, dec;
+	double value, meq_per, out;
 	al_unit unit, to_unit;
 	al_catalogue *cat = NULL;
 	char num[64];
@@ -152,11 +151,6 @@ cmd_convert(int argc, char **argv)
 	case -1:
 		return EXIT_TROUBLE;
 	}
-	acid_name = o.acid;
-	to_acid_name = o.to_acid;
-	to_unit_name = o.to_unit;
-	density = o.density;
-	dec = o.decimals;
 	if (argc - optind != 2)
 		return cli_usage_error("convert",
 				       "give a VALUE and its UNIT, e.g. '7.5 g/L'");
@@ -167,16 +161,16 @@ cmd_convert(int argc, char **argv)
 	if (cli_unit("convert", "UNIT", argv[optind + 1], &unit) != 0)
 		return EXIT_TROUBLE;
 	to_unit = unit;
-	if (to_unit_name &&
-	    cli_unit("convert", "--to-unit", to_unit_name, &to_unit) != 0)
+	if (o.to_unit &&
+	    cli_unit("convert", "--to-unit", o.to_unit, &to_unit) != 0)
 		return EXIT_TROUBLE;
 	cat = cli_catalogue();
 	if (cat == NULL)
 		return EXIT_TROUBLE;
-	if (acid_name && (acid = acid_arg(cat, "--acid", acid_name)) == NULL)
+	if (o.acid && (acid = acid_arg(cat, "--acid", o.acid)) == NULL)
 		goto out;
-	if (to_acid_name &&
-	    (to_acid = acid_arg(cat, "--to-acid", to_acid_name)) == NULL)
+	if (o.to_acid &&
+	    (to_acid = acid_arg(cat, "--to-acid", o.to_acid)) == NULL)
 		goto out;
 	if (to_acid == NULL)
 		to_acid = acid;
@@ -197,7 +191,7 @@ cmd_convert(int argc, char **argv)
 	if (!al_unit_is_meq(unit))
 		meq_per /= acid->g_per_meq;
 	if (al_unit_express(meq_per, al_unit_basis(unit), to_unit,
-			    to_acid ? to_acid->g_per_meq : 0, density,
+			    to_acid ? to_acid->g_per_meq : 0, o.density,
 			    &out) != AL_OK) {
 		cli_usage_error("convert",
 				"%s is per %s and %s per %s: give the sample's "
@@ -215,7 +209,7 @@ cmd_convert(int argc, char **argv)
 		cli_error("convert: the result (%g) is out of range", out);
 		goto out;
 	}
-	al_format_number(out, (int)dec, 0, num, sizeof num);
+	al_format_number(out, (int)o.decimals, 0, num, sizeof num);
 	if (al_unit_is_meq(to_unit))
 		printf("%s %s\n", num, al_unit_name(to_unit));
 	else
