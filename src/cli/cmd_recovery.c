@@ -39,56 +39,83 @@ enum {
 	OPT_DENSITY, OPT_BRIX, OPT_RECOVERED, OPT_ASSAY, OPT_BASE
 };
 
-int
-cmd_recovery(int argc, char **argv)
+/* What the options say; the amounts are -1 when not given. */
+struct rec_args {
+	double ta, start, density, recovered, assay;
+	const char *unit, *acid, *base;
+	int by_volume;
+};
+
+/* What parse_args read must make a question: 0, or -1 after a usage
+ * error. */
+static int
+check_args(int argc, char **argv, const struct rec_args *a)
 {
-	static const struct option options[] = {
-		{"ta", required_argument, NULL, OPT_TA},
-		{"unit", required_argument, NULL, OPT_UNIT},
-		{"acid", required_argument, NULL, OPT_ACID},
-		{"start-kg", required_argument, NULL, OPT_START_KG},
-		{"start-l", required_argument, NULL, OPT_START_L},
-		{"density-g-ml", required_argument, NULL, OPT_DENSITY},
-		{"brix", required_argument, NULL, OPT_BRIX},
-		{"recovered-kg", required_argument, NULL, OPT_RECOVERED},
-		{"assay", required_argument, NULL, OPT_ASSAY},
-		{"base", required_argument, NULL, OPT_BASE},
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
-	double ta = -1, start = -1, density = 0, recovered = -1, assay = -1, v;
-	const char *unit_name = NULL, *acid_name = NULL, *base_name = NULL;
+	if (optind < argc)
+		return cli_usage_error("recovery", "unexpected argument '%s'",
+				       argv[optind]), -1;
+	if (a->ta < 0 || a->unit == NULL || a->acid == NULL || a->start < 0)
+		return cli_usage_error("recovery",
+				       "give --ta, --unit, --acid and --start-kg "
+				       "or --start-l"), -1;
+	if ((a->recovered < 0) != (a->assay < 0))
+		return cli_usage_error("recovery",
+				       "--recovered-kg and --assay go together"), -1;
+	if (a->recovered < 0 && a->base == NULL)
+		return cli_usage_error("recovery",
+				       "say what to compute: --recovered-kg with "
+				       "--assay, or --base"), -1;
+	return 0;
+}
+
+static const struct option options[] = {
+	{"ta", required_argument, NULL, OPT_TA},
+	{"unit", required_argument, NULL, OPT_UNIT},
+	{"acid", required_argument, NULL, OPT_ACID},
+	{"start-kg", required_argument, NULL, OPT_START_KG},
+	{"start-l", required_argument, NULL, OPT_START_L},
+	{"density-g-ml", required_argument, NULL, OPT_DENSITY},
+	{"brix", required_argument, NULL, OPT_BRIX},
+	{"recovered-kg", required_argument, NULL, OPT_RECOVERED},
+	{"assay", required_argument, NULL, OPT_ASSAY},
+	{"base", required_argument, NULL, OPT_BASE},
+	{"help", no_argument, NULL, 'h'},
+	{NULL, 0, NULL, 0},
+};
+
+/* 0, 1 after --help, -1 after a usage error. */
+static int
+parse_args(int argc, char **argv, struct rec_args *a)
+{
 	const char *optname;
 	char name_buf[64];
-	int c, by_volume = 0, not_pass = 0, rc = EXIT_TROUBLE;
-	al_unit unit;
-	al_catalogue *cat = NULL;
-	const al_acid *acid;
-	const al_base *base = NULL;
-	double meq_per, meq_total, acid_kg, per_unit_amount;
+	double v;
+	int c;
 
+	memset(a, 0, sizeof *a);
+	a->ta = a->start = a->recovered = a->assay = -1;
 	optind = 1;
 	opterr = 0;
 	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
 		if (c == 'h') {
 			usage(stdout);
-			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+			return 1;
 		}
 		if (c == ':' || c == '?')
 			return cli_usage_error("recovery", "%s '%s'",
 					       c == ':' ? "option needs a value"
 							: "unknown option",
-					       cli_bad_option(argv));
+					       cli_bad_option(argv)), -1;
 		if (c == OPT_UNIT) {
-			unit_name = optarg;
+			a->unit = optarg;
 			continue;
 		}
 		if (c == OPT_ACID) {
-			acid_name = optarg;
+			a->acid = optarg;
 			continue;
 		}
 		if (c == OPT_BASE) {
-			base_name = optarg;
+			a->base = optarg;
 			continue;
 		}
 		optname = "an option";
@@ -99,102 +126,55 @@ cmd_recovery(int argc, char **argv)
 				optname = name_buf;
 			}
 		if (cli_number("recovery", optname, optarg, &v))
-			return EXIT_TROUBLE;
+			return -1;
 		if (!(v > 0) && !(c == OPT_BRIX && v == 0))
 			return cli_usage_error("recovery", "%s: %s is not above 0",
-					       optname, optarg);
+					       optname, optarg), -1;
 		switch (c) {
 		case OPT_TA:
-			ta = v;
+			a->ta = v;
 			break;
 		case OPT_START_KG:
-			start = v;
-			by_volume = 0;
+			a->start = v;
+			a->by_volume = 0;
 			break;
 		case OPT_START_L:
-			start = v;
-			by_volume = 1;
+			a->start = v;
+			a->by_volume = 1;
 			break;
 		case OPT_DENSITY:
-			density = v;
+			a->density = v;
 			break;
 		case OPT_BRIX:
-			if (al_density_from_brix(v, &density) != AL_OK)
+			if (al_density_from_brix(v, &a->density) != AL_OK)
 				return cli_usage_error("recovery",
 						       "--brix: a density from Brix "
-						       "needs 0 to 40 Brix");
+						       "needs 0 to 40 Brix"), -1;
 			break;
 		case OPT_RECOVERED:
-			recovered = v;
+			a->recovered = v;
 			break;
 		case OPT_ASSAY:
 			if (v > 110)
 				return cli_usage_error("recovery",
-						       "--assay is a percentage");
-			assay = v;
+						       "--assay is a percentage"), -1;
+			a->assay = v;
 			break;
 		}
 	}
-	if (optind < argc)
-		return cli_usage_error("recovery", "unexpected argument '%s'",
-				       argv[optind]);
-	if (ta < 0 || unit_name == NULL || acid_name == NULL || start < 0)
-		return cli_usage_error("recovery",
-				       "give --ta, --unit, --acid and --start-kg "
-				       "or --start-l");
-	if ((recovered < 0) != (assay < 0))
-		return cli_usage_error("recovery",
-				       "--recovered-kg and --assay go together");
-	if (recovered < 0 && base_name == NULL)
-		return cli_usage_error("recovery",
-				       "say what to compute: --recovered-kg with "
-				       "--assay, or --base");
-	if (cli_unit("recovery", "--unit", unit_name, &unit) != 0)
-		return EXIT_TROUBLE;
-	cat = cli_catalogue();
-	if (cat == NULL)
-		return EXIT_TROUBLE;
-	acid = al_catalogue_find(cat, acid_name);
-	if (acid == NULL) {
-		cli_usage_error("recovery", "unknown acid '%s'", acid_name);
-		cli_list_acids(cat);
-		goto out;
-	}
-	if (base_name && (base = al_catalogue_find_base(cat, base_name)) == NULL) {
-		cli_usage_error("recovery",
-				"unknown base '%s' (NaOH, KOH, Na2CO3, Ca(OH)2)",
-				base_name);
-		goto out;
-	}
-	/* meq per g or per mL of material, then over the whole of it */
-	meq_per = ta / al_unit_per(unit);
-	if (!al_unit_is_meq(unit))
-		meq_per /= acid->g_per_meq;
-	per_unit_amount = start * 1000; /* kg to g, or L to mL */
-	if ((al_unit_basis(unit) == AL_BASIS_VOLUME) != by_volume) {
-		if (!(density > 0)) {
-			cli_usage_error("recovery",
-					"%s is per %s but the material is given "
-					"by %s: add --density-g-ml or --brix",
-					al_unit_name(unit),
-					al_unit_basis(unit) == AL_BASIS_MASS ? "mass"
-									     : "volume",
-					by_volume ? "volume" : "mass");
-			goto out;
-		}
-		/* per g x g/mL = per mL; per mL / (g/mL) = per g */
-		meq_per = by_volume ? meq_per * density : meq_per / density;
-	}
-	meq_total = meq_per * per_unit_amount;
-	acid_kg = meq_total * acid->g_per_meq / 1000;
-	if (!al_number_computable(acid_kg) || !al_number_computable(meq_total) ||
-	    (recovered >= 0 && !(acid_kg > 0))) {
-		cli_error("recovery: the acid present (%g kg) is out of range",
-			  acid_kg);
-		goto out;
-	}
-	printf("acid present: %.6g kg as %s (%.6g mol H+ titratable)\n", acid_kg,
-	       acid->name, meq_total / 1000);
+	return check_args(argc, argv, a);
+}
+
+/* The recovery (with --recovered-kg and --assay) and the base demand
+ * (with --base) of acid_kg of acid, meq_total meq; 1 when more acid was
+ * recovered than was present. */
+static int
+print_outcomes(const struct rec_args *o, const al_base *base, double acid_kg,
+	       double meq_total)
+{
+	double recovered = o->recovered, assay = o->assay;
+	int not_pass = 0;
+
 	if (recovered >= 0) {
 		double got = recovered * assay / 100;
 
@@ -219,6 +199,73 @@ cmd_recovery(int argc, char **argv)
 		       meq_total / 1000, base->equivalents, base->formula,
 		       mol_base, base->molar_mass);
 	}
+	return not_pass;
+}
+
+int
+cmd_recovery(int argc, char **argv)
+{
+	int not_pass = 0, rc = EXIT_TROUBLE;
+	al_unit unit;
+	al_catalogue *cat = NULL;
+	const al_acid *acid;
+	const al_base *base = NULL;
+	double meq_per, meq_total, acid_kg, per_unit_amount;
+	struct rec_args o;
+
+	switch (parse_args(argc, argv, &o)) {
+	case 1:
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	case -1:
+		return EXIT_TROUBLE;
+	}
+	if (cli_unit("recovery", "--unit", o.unit, &unit) != 0)
+		return EXIT_TROUBLE;
+	cat = cli_catalogue();
+	if (cat == NULL)
+		return EXIT_TROUBLE;
+	acid = al_catalogue_find(cat, o.acid);
+	if (acid == NULL) {
+		cli_usage_error("recovery", "unknown acid '%s'", o.acid);
+		cli_list_acids(cat);
+		goto out;
+	}
+	if (o.base && (base = al_catalogue_find_base(cat, o.base)) == NULL) {
+		cli_usage_error("recovery",
+				"unknown base '%s' (NaOH, KOH, Na2CO3, Ca(OH)2)",
+				o.base);
+		goto out;
+	}
+	/* meq per g or per mL of material, then over the whole of it */
+	meq_per = o.ta / al_unit_per(unit);
+	if (!al_unit_is_meq(unit))
+		meq_per /= acid->g_per_meq;
+	per_unit_amount = o.start * 1000; /* kg to g, or L to mL */
+	if ((al_unit_basis(unit) == AL_BASIS_VOLUME) != o.by_volume) {
+		if (!(o.density > 0)) {
+			cli_usage_error("recovery",
+					"%s is per %s but the material is given "
+					"by %s: add --density-g-ml or --brix",
+					al_unit_name(unit),
+					al_unit_basis(unit) == AL_BASIS_MASS ? "mass"
+									     : "volume",
+					o.by_volume ? "volume" : "mass");
+			goto out;
+		}
+		/* per g x g/mL = per mL; per mL / (g/mL) = per g */
+		meq_per = o.by_volume ? meq_per * o.density : meq_per / o.density;
+	}
+	meq_total = meq_per * per_unit_amount;
+	acid_kg = meq_total * acid->g_per_meq / 1000;
+	if (!al_number_computable(acid_kg) || !al_number_computable(meq_total) ||
+	    (o.recovered >= 0 && !(acid_kg > 0))) {
+		cli_error("recovery: the acid present (%g kg) is out of range",
+			  acid_kg);
+		goto out;
+	}
+	printf("acid present: %.6g kg as %s (%.6g mol H+ titratable)\n", acid_kg,
+	       acid->name, meq_total / 1000);
+	not_pass = print_outcomes(&o, base, acid_kg, meq_total);
 	rc = fflush(stdout) == 0 && !ferror(stdout) ? not_pass : EXIT_TROUBLE;
 	if (rc == EXIT_TROUBLE)
 		cli_error("standard output: %s", cli_reason(AL_OK));
