@@ -100,11 +100,73 @@ positive(const char *option, double *v, int allow_zero)
 	return 0;
 }
 
+/* One of the options with a number: checked and stored; 0, or -1
+ * after a usage error. */
+static int
+number_option(int c, struct args *a)
+{
+	double v;
+
+	switch (c) {
+	case OPT_MAX_RSD:
+		if (positive("--max-rsd", &a->p.max_rsd_pct, 0))
+			return -1;
+		break;
+	case OPT_MIN_N:
+		if (positive("--min-n", &v, 0))
+			return -1;
+		if (v != floor(v) || v > 1000)
+			return cli_usage_error("standardize",
+					       "--min-n takes a whole "
+					       "number up to 1000"),
+			       -1;
+		a->p.min_n = (size_t)v;
+		break;
+	case OPT_REPEATABILITY:
+		if (positive("--repeatability-rsd", &v, 0))
+			return -1;
+		if (v > 10)
+			return cli_usage_error("standardize",
+					       "--repeatability-rsd takes "
+					       "a percentage up to 10"),
+			       -1;
+		a->p.repeatability_rsd_pct = v;
+		break;
+	case OPT_VALID_DAYS:
+		if (positive("--valid-days", &v, 0))
+			return -1;
+		if (v != floor(v) || v > 3650)
+			return cli_usage_error("standardize",
+					       "--valid-days takes a "
+					       "whole number up to 3650"),
+			       -1;
+		a->p.valid_days = (long)v;
+		break;
+	case OPT_BALANCE:
+		if (positive("--balance-linearity-g",
+			     &a->p.balance_linearity_g, 1))
+			return -1;
+		break;
+	case OPT_BURETTE:
+		if (positive("--burette-tol-ml", &a->p.burette_tol_ml, 1))
+			return -1;
+		break;
+	case OPT_TEMP:
+		if (positive("--temp-range-c", &a->p.temp_range_c, 1))
+			return -1;
+		break;
+	case OPT_K:
+		if (positive("--k", &a->p.k, 0))
+			return -1;
+		break;
+	}
+	return 0;
+}
+
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
 	int c;
-	double v;
 
 	optind = 1;
 	opterr = 0;
@@ -123,54 +185,14 @@ parse_args(int argc, char **argv, struct args *a)
 			a->analyst = optarg;
 			break;
 		case OPT_MAX_RSD:
-			if (positive("--max-rsd", &a->p.max_rsd_pct, 0))
-				return -1;
-			break;
 		case OPT_MIN_N:
-			if (positive("--min-n", &v, 0))
-				return -1;
-			if (v != floor(v) || v > 1000)
-				return cli_usage_error("standardize",
-						       "--min-n takes a whole "
-						       "number up to 1000"),
-				       -1;
-			a->p.min_n = (size_t)v;
-			break;
 		case OPT_REPEATABILITY:
-			if (positive("--repeatability-rsd", &v, 0))
-				return -1;
-			if (v > 10)
-				return cli_usage_error("standardize",
-						       "--repeatability-rsd takes "
-						       "a percentage up to 10"),
-				       -1;
-			a->p.repeatability_rsd_pct = v;
-			break;
 		case OPT_VALID_DAYS:
-			if (positive("--valid-days", &v, 0))
-				return -1;
-			if (v != floor(v) || v > 3650)
-				return cli_usage_error("standardize",
-						       "--valid-days takes a "
-						       "whole number up to 3650"),
-				       -1;
-			a->p.valid_days = (long)v;
-			break;
 		case OPT_BALANCE:
-			if (positive("--balance-linearity-g",
-				     &a->p.balance_linearity_g, 1))
-				return -1;
-			break;
 		case OPT_BURETTE:
-			if (positive("--burette-tol-ml", &a->p.burette_tol_ml, 1))
-				return -1;
-			break;
 		case OPT_TEMP:
-			if (positive("--temp-range-c", &a->p.temp_range_c, 1))
-				return -1;
-			break;
 		case OPT_K:
-			if (positive("--k", &a->p.k, 0))
+			if (number_option(c, a))
 				return -1;
 			break;
 		case OPT_DELIMITER:
