@@ -821,6 +821,93 @@ load_titrants(const char *path)
  * counts, and each result with its report_id. */
 #define RECORD_RESULTS_MAX 10000
 
+/* The decision rule as the record states it (ILAC G8:09/2019 4.2.1 or
+ * 4.2.2); NULL when memory runs out. */
+static json_t *
+decision_rule(int guarded, double guard_r, int exclude)
+{
+	return guarded ? json_pack("{s:s, s:s, s:f, s:b, s:s}", "name",
+				   "guarded acceptance", "reference",
+				   "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
+				   "guard_band_r", guard_r, "outliers_excluded",
+				   exclude,
+				   "statement",
+				   "w = r U: pass inside [min + w, max - w], fail "
+				   "outside [min - w, max + w], conditional-pass "
+				   "or conditional-fail in between; retest when "
+				   "n < min_n, RSD > max_rsd_pct or the range "
+				   "exceeds f(n) sr (ISO 5725-6)")
+		       : json_pack("{s:s, s:s, s:b, s:s}", "name",
+				   "simple acceptance", "reference",
+				   "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
+				   "outliers_excluded", exclude, "statement",
+				   "pass when min <= mean <= max (limits "
+				   "inclusive, the unrounded mean, measurement "
+				   "uncertainty not subtracted); retest when n < "
+				   "min_n, RSD > max_rsd_pct or the range exceeds "
+				   "f(n) sr (ISO 5725-6)");
+}
+
+/* Cochran's tests of the run, for the record; NULL when memory runs
+ * out. */
+static json_t *
+cochran_tests(const al_assay *run)
+{
+	json_t *cochran = json_array();
+
+	for (size_t i = 0; cochran && i < al_assay_cochran_count(run); i++) {
+		const al_cochran *ct = al_assay_cochran_at(run, i);
+
+		if (json_array_append_new(
+			    cochran,
+			    json_pack("{s:s, s:I, s:I, s:f, s:f, s:f}", "product",
+				      ct->product, "results", (json_int_t)ct->l,
+				      "n", (json_int_t)ct->n, "C", ct->c,
+				      "critical_5pct", ct->crit5,
+				      "critical_1pct", ct->crit1)) != 0) {
+			json_decref(cochran);
+			return NULL;
+		}
+	}
+	return cochran;
+}
+
+/* Each result in the record for a lab-sized run (the first
+ * RECORD_RESULTS_MAX); past that the report itself, hashed in outputs,
+ * carries them. 0, or -1 when memory runs out. */
+static int
+record_results(json_t *results, const run_record *rec, const al_assay *run,
+	       size_t n)
+{
+	int bad = 0;
+
+	for (size_t i = 0; !bad && i < n && i < RECORD_RESULTS_MAX; i++) {
+		const al_group_result *r = al_assay_result(run, i);
+		char id[64], flags[512];
+
+		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
+		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
+				sizeof flags);
+		bad |= json_array_append_new(
+			results,
+			json_pack("{s:s, s:o, s:o, s:o, s:s, s:s, s:I, s:o, s:o, "
+				  "s:o, s:s, s:s}",
+				  "report_id", id, "product",
+				  record_text(r->product), "lot",
+				  record_text(r->lot), "sample",
+				  record_text(r->sample), "acid",
+				  r->acid->name, "unit", al_unit_name(r->unit),
+				  "n", (json_int_t)r->stats.n, "mean",
+				  r->stats.n ? json_real(r->stats.mean)
+					     : json_null(),
+				  "u", r->has_u ? json_real(r->u) : json_null(),
+				  "U", r->has_u ? json_real(r->U) : json_null(),
+				  "status", al_verdict_name(r->verdict), "flags",
+				  flags));
+	}
+	return bad ? -1 : 0;
+}
+
 static int
 fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 	    int exclude)
@@ -860,32 +947,7 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 						  : json_null(),
 				  "min_n", (json_int_t)sp->min_n, "line",
 				  (json_int_t)sp->line));
-	for (size_t i = 0; !bad && i < n && i < RECORD_RESULTS_MAX; i++) {
-		const al_group_result *r = al_assay_result(run, i);
-		char id[64], flags[512];
-
-		/* each result in the record for a lab-sized run; past that the
-		 * report itself, hashed in outputs, carries them */
-		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
-		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
-				sizeof flags);
-		bad |= json_array_append_new(
-			results,
-			json_pack("{s:s, s:o, s:o, s:o, s:s, s:s, s:I, s:o, s:o, "
-				  "s:o, s:s, s:s}",
-				  "report_id", id, "product",
-				  record_text(r->product), "lot",
-				  record_text(r->lot), "sample",
-				  record_text(r->sample), "acid",
-				  r->acid->name, "unit", al_unit_name(r->unit),
-				  "n", (json_int_t)r->stats.n, "mean",
-				  r->stats.n ? json_real(r->stats.mean)
-					     : json_null(),
-				  "u", r->has_u ? json_real(r->u) : json_null(),
-				  "U", r->has_u ? json_real(r->U) : json_null(),
-				  "status", al_verdict_name(r->verdict), "flags",
-				  flags));
-	}
+	bad |= !bad && record_results(results, rec, run, n) != 0;
 	for (size_t i = 0; !bad && (t = al_assay_titrant_used(run, i)); i++) {
 		char on[11], until[11];
 
@@ -900,27 +962,7 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 					t->u_mol_l, "standardised_on", on,
 					"valid_until", until));
 	}
-	rule = guarded
-		       ? json_pack("{s:s, s:s, s:f, s:b, s:s}", "name",
-				   "guarded acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
-				   "guard_band_r", guard_r, "outliers_excluded",
-				   exclude,
-				   "statement",
-				   "w = r U: pass inside [min + w, max - w], fail "
-				   "outside [min - w, max + w], conditional-pass "
-				   "or conditional-fail in between; retest when "
-				   "n < min_n, RSD > max_rsd_pct or the range "
-				   "exceeds f(n) sr (ISO 5725-6)")
-		       : json_pack("{s:s, s:s, s:b, s:s}", "name",
-				   "simple acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
-				   "outliers_excluded", exclude, "statement",
-				   "pass when min <= mean <= max (limits "
-				   "inclusive, the unrounded mean, measurement "
-				   "uncertainty not subtracted); retest when n < "
-				   "min_n, RSD > max_rsd_pct or the range exceeds "
-				   "f(n) sr (ISO 5725-6)");
+	rule = decision_rule(guarded, guard_r, exclude);
 	counts = json_pack("{s:I, s:I, s:I, s:I, s:I, s:I, s:I, s:I}",
 			   "rows_read", (json_int_t)c.rows_read, "rows_used",
 			   (json_int_t)c.rows_used, "rows_rejected",
@@ -941,23 +983,7 @@ fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
 			       json_sprintf("the first %d of %zu results; the "
 					    "report lists all (see outputs)",
 					    RECORD_RESULTS_MAX, n)) != 0;
-	{
-		json_t *cochran = json_array();
-
-		for (size_t i = 0; cochran && i < al_assay_cochran_count(run);
-		     i++) {
-			const al_cochran *ct = al_assay_cochran_at(run, i);
-
-			bad |= json_array_append_new(
-				cochran,
-				json_pack("{s:s, s:I, s:I, s:f, s:f, s:f}",
-					  "product", ct->product, "results",
-					  (json_int_t)ct->l, "n", (json_int_t)ct->n,
-					  "C", ct->c, "critical_5pct", ct->crit5,
-					  "critical_1pct", ct->crit1));
-		}
-		bad |= json_object_set_new(rec->root, "cochran", cochran) != 0;
-	}
+	bad |= json_object_set_new(rec->root, "cochran", cochran_tests(run)) != 0;
 	bad |= rule == NULL ||
 	       json_object_set_new(rec->root, "decision_rule", rule) != 0;
 	bad |= counts == NULL ||
