@@ -369,6 +369,47 @@ load_register(const char *path, al_status *st, int *existed)
 	return reg;
 }
 
+/* Reads every standardisation file into run, hashing each for the
+ * record. 0; 1 when a file could not be read or had errors (said, or in
+ * run's diagnostics); -1 when memory ran out (said). */
+static int
+read_inputs(al_std_run *run, run_record *rec, int argc, char **argv,
+	    const al_csv_options *csv)
+{
+	int bad = 0;
+	al_status st;
+
+	for (int i = optind; i < argc; i++) {
+		FILE *in = strcmp(argv[i], "-") == 0 ? stdin : cli_open_input(argv[i]);
+		hashing_reader h;
+		char hex[65];
+
+		if (in == NULL) {
+			cli_error("%s: %s", argv[i], cli_reason(AL_OK));
+			bad = 1;
+			continue;
+		}
+		hashing_reader_init(&h, in);
+		st = al_std_read_source(run, hashing_read, &h,
+					in == stdin ? "<stdin>" : argv[i], csv);
+		if (in != stdin)
+			fclose(in);
+		if (st == AL_ENOMEM) {
+			cli_error("%s", al_strerror(st));
+			return -1;
+		}
+		if (st != AL_OK)
+			bad = 1;
+		hashing_reader_hex(&h, hex);
+		if (record_input(rec, "standardisation", argv[i], h.bytes, -1,
+				 hex) != 0) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			return -1;
+		}
+	}
+	return bad;
+}
+
 int
 cmd_standardize(int argc, char **argv)
 {
@@ -410,33 +451,11 @@ cmd_standardize(int argc, char **argv)
 		cli_error("%s", al_strerror(st));
 		goto out;
 	}
-	for (int i = optind; i < argc; i++) {
-		FILE *in = strcmp(argv[i], "-") == 0 ? stdin : cli_open_input(argv[i]);
-		hashing_reader h;
-		char hex[65];
-
-		if (in == NULL) {
-			cli_error("%s: %s", argv[i], cli_reason(AL_OK));
-			bad = 1;
-			continue;
-		}
-		hashing_reader_init(&h, in);
-		st = al_std_read_source(run, hashing_read, &h,
-					in == stdin ? "<stdin>" : argv[i], &a.csv);
-		if (in != stdin)
-			fclose(in);
-		if (st == AL_ENOMEM) {
-			cli_error("%s", al_strerror(st));
-			goto out;
-		}
-		if (st != AL_OK)
-			bad = 1;
-		hashing_reader_hex(&h, hex);
-		if (record_input(&rec, "standardisation", argv[i], h.bytes, -1,
-				 hex) != 0) {
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			goto out;
-		}
+	switch (read_inputs(run, &rec, argc, argv, &a.csv)) {
+	case -1: /* out of memory, said */
+		goto out;
+	case 1:
+		bad = 1;
 	}
 	cli_print_diags(al_std_diags(run));
 	if (bad || al_std_diags(run)->errors > 0) {
