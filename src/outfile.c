@@ -188,60 +188,6 @@ release(al_outfile *f)
 	al_free(f);
 }
 
-al_status
-al_outfile_prepare(al_outfile *f)
-{
-	int bad = fflush(f->stream) != 0 || ferror(f->stream);
-
-	if (f->tmp == NULL)
-		return bad ? AL_EIO : AL_OK;
-	if (!bad && fsync(fileno(f->stream)) != 0 && errno != EINVAL)
-		bad = 1;
-	if (fclose(f->stream) != 0)
-		bad = 1;
-	f->closed = 1;
-	return bad ? AL_EIO : AL_OK;
-}
-
-al_status
-al_outfile_commit(al_outfile *f)
-{
-	int bad;
-
-	if (f->closed) {
-		bad = rename(f->tmp, f->dest) != 0;
-		if (bad) {
-			int saved = errno;
-
-			unlink(f->tmp);
-			errno = saved;
-		}
-		release(f);
-		return bad ? AL_EIO : AL_OK;
-	}
-	if (f->tmp == NULL) {
-		bad = fflush(f->stream) != 0 || ferror(f->stream);
-		if (f->direct && fclose(f->stream) != 0)
-			bad = 1;
-		release(f);
-		return bad ? AL_EIO : AL_OK;
-	}
-	bad = fflush(f->stream) != 0 || ferror(f->stream);
-	if (!bad && fsync(fileno(f->stream)) != 0 && errno != EINVAL)
-		bad = 1;
-	if (fclose(f->stream) != 0)
-		bad = 1;
-	if (!bad && rename(f->tmp, f->dest) != 0)
-		bad = 1;
-	if (bad) {
-		int saved = errno;
-
-		unlink(f->tmp);
-		errno = saved;
-	}
-	release(f);
-	return bad ? AL_EIO : AL_OK;
-}
 
 /* Flushes, syncs and closes an output not yet closed; 0 or -1. */
 static int
@@ -260,6 +206,12 @@ settle(al_outfile *f)
 		bad = 1;
 	f->closed = 1;
 	return bad ? -1 : 0;
+}
+
+al_status
+al_outfile_prepare(al_outfile *f)
+{
+	return settle(f) == 0 ? AL_OK : AL_EIO;
 }
 
 /* A hard link to the file an output will replace, beside it, named in

@@ -8,7 +8,7 @@
 #include "acidlot/status.h"
 
 /* An output being written: to a temporary file in the target's directory,
- * renamed over the target by al_outfile_commit, removed by
+ * renamed over the target by al_outfile_commit_all, removed by
  * al_outfile_abort. The path "-" writes to standard output. */
 typedef struct al_outfile al_outfile;
 
@@ -26,10 +26,6 @@ int al_outfile_in_place(const al_outfile *f);
  * several outputs can all be checked before any appears. AL_EIO on a
  * failure (the caller then aborts). */
 al_status al_outfile_prepare(al_outfile *f);
-/* Flushes, checks every write, closes (unless prepared) and renames; AL_EIO on any failure,
- * in which case the temporary file is removed and the target untouched.
- * Frees f in every case. */
-al_status al_outfile_commit(al_outfile *f);
 /* Discards everything written; frees f. Accepts NULL. */
 void al_outfile_abort(al_outfile *f);
 

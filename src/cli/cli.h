@@ -65,6 +65,9 @@ const char *cli_bad_option(char **argv);
 /* fopen(path, "rb") for an input, refusing a directory (errno EISDIR)
  * rather than failing on its first read. */
 FILE *cli_open_input(const char *path);
+/* The absolute form of a path whose folder exists (the file itself need
+ * not): the folder's real path and the name, into out. 0, or -1. */
+int cli_absolute(const char *path, char *out, size_t cap);
 /* A file a command reads or writes, for cli_check_files. */
 typedef struct cli_file {
 	const char *role; /* how the user named it: "input", "--budget" */

@@ -223,12 +223,27 @@ struct identity {
 	char where[PATH_MAX + NAME_MAX + 2];
 };
 
+int
+cli_absolute(const char *path, char *out, size_t cap)
+{
+	const char *slash = strrchr(path, '/');
+	char dir[PATH_MAX], real[PATH_MAX];
+
+	snprintf(dir, sizeof dir, "%.*s",
+		 slash ? (int)(slash - path) + (slash == path) : 1,
+		 slash ? path : ".");
+	if (realpath(dir, real) == NULL)
+		return -1;
+	return snprintf(out, cap, "%s/%s", strcmp(real, "/") ? real : "",
+			slash ? slash + 1 : path) < (int)cap
+		       ? 0
+		       : -1;
+}
+
 static void
 identify(const cli_file *f, struct identity *id)
 {
 	struct stat st;
-	const char *slash = strrchr(f->path, '/');
-	char dir[PATH_MAX];
 
 	memset(id, 0, sizeof *id);
 	if (strcmp(f->path, "-") == 0 ? fstat(f->output ? 1 : 0, &st) == 0
@@ -240,17 +255,8 @@ identify(const cli_file *f, struct identity *id)
 		return;
 	}
 	/* not there yet: its folder's real path and its name */
-	snprintf(dir, sizeof dir, "%.*s",
-		 slash ? (int)(slash - f->path) + (slash == f->path) : 1,
-		 slash ? f->path : ".");
-	if (realpath(dir, id->where) == NULL)
+	if (cli_absolute(f->path, id->where, sizeof id->where) != 0)
 		snprintf(id->where, sizeof id->where, "%s", f->path);
-	else {
-		size_t n = strlen(id->where);
-
-		snprintf(id->where + n, sizeof id->where - n, "/%s",
-			 slash ? slash + 1 : f->path);
-	}
 }
 
 static int

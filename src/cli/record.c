@@ -535,25 +535,6 @@ dump_to(const char *buffer, size_t size, void *data)
 	return fwrite(buffer, 1, size, data) == size ? 0 : -1;
 }
 
-/* The absolute form of a path whose folder exists: the folder's real
- * path and the name. 0, or -1. */
-static int
-absolute(const char *path, char *out, size_t cap)
-{
-	const char *slash = strrchr(path, '/');
-	char dir[PATH_MAX], real[PATH_MAX];
-
-	snprintf(dir, sizeof dir, "%.*s",
-		 slash ? (int)(slash - path) + (slash == path) : 1,
-		 slash ? path : ".");
-	if (realpath(dir, real) == NULL)
-		return -1;
-	return snprintf(out, cap, "%s/%s", strcmp(real, "/") ? real : "",
-			slash ? slash + 1 : path) < (int)cap
-		       ? 0
-		       : -1;
-}
-
 /* to (absolute) relative to the folder from (absolute): "../x/y". */
 static int
 relative(const char *from, const char *to, char *out, size_t cap)
@@ -595,7 +576,7 @@ locate(json_t *list, const char *record_dir)
 		if (path == NULL)
 			path = json_string_value(json_object_get(f, "path"));
 		if (path && strcmp(path, "-") != 0 &&
-		    absolute(path, abs, sizeof abs) == 0 &&
+		    cli_absolute(path, abs, sizeof abs) == 0 &&
 		    relative(record_dir, abs, rel, sizeof rel) == 0) {
 			json_object_set_new(f, "from_record", record_text(rel));
 			/* keep_name takes a reference and gives it back */
@@ -610,7 +591,7 @@ record_write(run_record *r, FILE *out, const char *path)
 {
 	char abs[PATH_MAX + NAME_MAX + 2];
 
-	if (path && absolute(path, abs, sizeof abs) == 0) {
+	if (path && cli_absolute(path, abs, sizeof abs) == 0) {
 		*strrchr(abs, '/') = '\0';
 		locate(r->inputs, abs[0] ? abs : "/");
 		locate(r->outputs, abs[0] ? abs : "/");
