@@ -291,7 +291,7 @@ al_eval_resolution(const al_assay_options *opt, const al_spec *spec,
  * range from the extremes; an excluded outlier comes off the sums. No
  * median (it needs every value) and no Dixon (n > 10). */
 static void
-many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
+many_values(const al_assay_options *opt, const al_stream *s, size_t n,
 	    double res_rel, al_group_result *r, size_t *used)
 {
 	double mean = s->mean, m2 = s->m2, lo = s->lo, hi = s->hi;
@@ -329,7 +329,7 @@ many_values(const al_assay_options *opt, const al_eval_stream *s, size_t n,
 }
 
 void
-al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
+al_eval_stats(const al_assay_options *opt, const al_stream *stream,
 	      double res_rel, double *scratch, al_group_result *r,
 	      size_t *used)
 {
@@ -377,7 +377,7 @@ mean_without(double mean, size_t k, double x)
 /* Takes one row's inputs off the means of a result's inputs (n rows);
  * the quantities few rows have come off their own counts. */
 static void
-leave_out(al_eval_inputs *in, const al_eval_row *x)
+leave_out(al_eval_inputs *in, const al_row_inputs *x)
 {
 	in->titrant_ml = mean_without(in->titrant_ml, in->n, x->titrant_ml);
 	in->blank_ml = mean_without(in->blank_ml, in->n, x->blank_ml);

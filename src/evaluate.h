@@ -6,28 +6,11 @@
 #include <stdint.h>
 
 #include "acidlot/result.h"
-
-/* Running statistics of a result whose values were not all kept (more
- * than AL_VALUES_KEPT): mean, sum of squared deviations, the two
- * smallest and two largest values and the positions of the extremes. */
-typedef struct al_eval_stream {
-	double mean, m2, lo, lo2, hi, hi2;
-	size_t lo_i, hi_i;
-} al_eval_stream;
-
-/* One titration's inputs and result, kept for the lowest and the
- * highest result of a group when an outlier may be left out: an
- * outlier is always one of the two, so its inputs can come off the
- * means. Quantities a row lacks are negative. */
-typedef struct al_eval_row {
-	double value;
-	double titrant_ml, blank_ml, conc, amount, made_up_ml, aliquot_ml;
-	double conc_u, brix, water_pct, density;
-} al_eval_row;
+#include "groups.h"
 
 /* Means of a result's inputs, for its uncertainty budget. */
 typedef struct al_eval_inputs {
-	const al_eval_stream *stream; /* NULL: r->values holds them all */
+	const al_stream *stream; /* NULL: r->values holds them all */
 	double titrant_ml, blank_ml, conc, amount, made_up_ml, aliquot_ml;
 	double conc_u;   /* mean standard uncertainty of the concentration */
 	int all_conc_u;  /* every row had one */
@@ -37,7 +20,7 @@ typedef struct al_eval_inputs {
 	double brix, water_pct, density; /* means; density 0 when unknown */
 	int impossible;  /* a value is more than a sample can hold */
 	size_t n_conc_u, n_brix, n_water, n_density; /* rows with each */
-	const al_eval_row *extremes; /* [0] the lowest result's row, [1] the
+	const al_row_inputs *extremes; /* [0] the lowest result's row, [1] the
 					highest's; NULL: not kept */
 } al_eval_inputs;
 
@@ -49,7 +32,7 @@ typedef struct al_eval_inputs {
  * data than a triplicate), and a tie (res_rel) is never one; *used is
  * the count of values in the statistics, and scratch then holds them in
  * input order. Enough for Cochran's test. */
-void al_eval_stats(const al_assay_options *opt, const al_eval_stream *stream,
+void al_eval_stats(const al_assay_options *opt, const al_stream *stream,
 		   double res_rel, double *scratch, al_group_result *r,
 		   size_t *used);
 

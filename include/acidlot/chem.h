@@ -102,6 +102,10 @@ al_status al_formula_mass_u(const al_catalogue *cat, const char *formula,
  * pKa values (ideal solution, activity effects ignored). */
 double al_protons_titrated(const double *pka, int n_pka, double ph);
 
+/* The endpoint must titrate at least this share of the protons that the
+ * factor assumes (the rule of thumb pKa + 2 gives 99 %; METHODS.md s.1). */
+#define AL_ENDPOINT_SHARE 0.99
+
 /* The lowest pH (0..14) at which at least `fraction` of `protons` are
  * titrated; returns AL_EDOMAIN when even pH 14 does not reach it. */
 al_status al_endpoint_ph_needed(const double *pka, int n_pka, int protons,
