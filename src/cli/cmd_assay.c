@@ -1124,16 +1124,9 @@ cmd_assay(int argc, char **argv)
 		/* hash the bytes as they are read: the record says what was
 		 * used, even for standard input */
 		hashing_reader_init(&h, in);
-		if (hashing_reader_ahead(&h) != 0) {
-			if (!is_stdin)
-				fclose(in);
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			goto out;
-		}
 		st = al_assay_read_source(
 			run, hashing_read, &h, is_stdin ? "<stdin>" : name,
 			rep_out ? write_replicate : NULL, &reps);
-		hashing_reader_end(&h);
 		if (!is_stdin)
 			fclose(in);
 		hashing_reader_hex(&h, hex);

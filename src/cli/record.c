@@ -25,32 +25,8 @@ hashing_reader_init(hashing_reader *h, FILE *in)
 {
 	h->in = in;
 	h->bytes = 0;
-	h->ahead = NULL;
 	sha256_init(&h->ctx);
 }
-
-/* Reading ahead: the second thread fills AHEAD_BLOCKS blocks in turn,
- * hashing each, while the caller copies out of the one it is at. On
- * this kind of machine reading and SHA-256 are a sixth of an assay's
- * reading time (issue 7). */
-#define AHEAD_BLOCKS 4
-#define AHEAD_BYTES ((size_t)256 << 10)
-#define AHEAD_MIN ((off_t)1 << 20) /* smaller files: read as asked */
-
-struct read_ahead {
-	pthread_mutex_t mu;
-	pthread_cond_t cv;
-	pthread_t th;
-	hashing_reader *h;
-	int quit; /* the caller stopped reading */
-	struct {
-		char *buf;
-		size_t len;
-		int full;   /* filled, not yet taken */
-		int failed; /* a read error ended this block */
-	} block[AHEAD_BLOCKS];
-	size_t at, off; /* the caller's block and place in it */
-};
 
 static size_t
 read_and_hash(hashing_reader *h, void *buf, size_t cap, int *failed)
@@ -64,129 +40,10 @@ read_and_hash(hashing_reader *h, void *buf, size_t cap, int *failed)
 	return n;
 }
 
-static void *
-ahead_run(void *arg)
-{
-	struct read_ahead *ra = arg;
-
-	for (size_t i = 0;; i = (i + 1) % AHEAD_BLOCKS) {
-		int failed = 0;
-		size_t n;
-
-		pthread_mutex_lock(&ra->mu);
-		while (ra->block[i].full && !ra->quit)
-			pthread_cond_wait(&ra->cv, &ra->mu);
-		if (ra->quit) {
-			pthread_mutex_unlock(&ra->mu);
-			return NULL;
-		}
-		pthread_mutex_unlock(&ra->mu);
-		n = read_and_hash(ra->h, ra->block[i].buf, AHEAD_BYTES, &failed);
-		pthread_mutex_lock(&ra->mu);
-		ra->block[i].len = n;
-		ra->block[i].failed = failed;
-		ra->block[i].full = 1;
-		pthread_cond_broadcast(&ra->cv);
-		pthread_mutex_unlock(&ra->mu);
-		if (n == 0 || failed)
-			return NULL; /* the end, or an error: said in the block */
-	}
-}
-
-static void
-ahead_free(struct read_ahead *ra)
-{
-	for (int i = 0; i < AHEAD_BLOCKS; i++)
-		al_free(ra->block[i].buf);
-	al_free(ra);
-}
-
-int
-hashing_reader_ahead(hashing_reader *h)
-{
-	struct read_ahead *ra;
-	struct stat sb;
-
-	/* a regular file only: a pipe's reader could wait for ever on a
-	 * writer after the caller stopped */
-	if (fstat(fileno(h->in), &sb) != 0 || !S_ISREG(sb.st_mode) ||
-	    sb.st_size < AHEAD_MIN)
-		return 0;
-	ra = al_calloc(1, sizeof *ra);
-	if (ra == NULL)
-		return -1;
-	for (int i = 0; i < AHEAD_BLOCKS; i++)
-		if ((ra->block[i].buf = al_malloc(AHEAD_BYTES)) == NULL) {
-			ahead_free(ra);
-			return -1;
-		}
-	ra->h = h;
-	pthread_mutex_init(&ra->mu, NULL);
-	pthread_cond_init(&ra->cv, NULL);
-	if (pthread_create(&ra->th, NULL, ahead_run, ra) != 0) {
-		pthread_cond_destroy(&ra->cv);
-		pthread_mutex_destroy(&ra->mu);
-		ahead_free(ra);
-		return 0; /* no thread: read as asked */
-	}
-	h->ahead = ra;
-	return 0;
-}
-
 size_t
 hashing_read(void *ctx, void *buf, size_t cap, int *failed)
 {
-	hashing_reader *h = ctx;
-	struct read_ahead *ra = h->ahead;
-	size_t n;
-
-	if (ra == NULL)
-		return read_and_hash(h, buf, cap, failed);
-	pthread_mutex_lock(&ra->mu);
-	while (!ra->block[ra->at].full)
-		pthread_cond_wait(&ra->cv, &ra->mu);
-	pthread_mutex_unlock(&ra->mu);
-	n = ra->block[ra->at].len - ra->off;
-	if (n == 0) { /* the end, or an error: stays there */
-		if (ra->block[ra->at].failed)
-			*failed = 1;
-		return 0;
-	}
-	if (n > cap)
-		n = cap;
-	memcpy(buf, ra->block[ra->at].buf + ra->off, n);
-	ra->off += n;
-	if (ra->off == ra->block[ra->at].len) {
-		if (ra->block[ra->at].failed) {
-			*failed = 1; /* the bytes before the error, and its news */
-			return n;
-		}
-		pthread_mutex_lock(&ra->mu);
-		ra->block[ra->at].full = 0;
-		pthread_cond_broadcast(&ra->cv);
-		pthread_mutex_unlock(&ra->mu);
-		ra->at = (ra->at + 1) % AHEAD_BLOCKS;
-		ra->off = 0;
-	}
-	return n;
-}
-
-void
-hashing_reader_end(hashing_reader *h)
-{
-	struct read_ahead *ra = h->ahead;
-
-	if (ra == NULL)
-		return;
-	pthread_mutex_lock(&ra->mu);
-	ra->quit = 1;
-	pthread_cond_broadcast(&ra->cv);
-	pthread_mutex_unlock(&ra->mu);
-	pthread_join(ra->th, NULL);
-	pthread_cond_destroy(&ra->cv);
-	pthread_mutex_destroy(&ra->mu);
-	ahead_free(ra);
-	h->ahead = NULL;
+	return read_and_hash(ctx, buf, cap, failed);
 }
 
 static void

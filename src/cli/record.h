@@ -15,19 +15,10 @@ typedef struct hashing_reader {
 	FILE *in;
 	struct sha256_ctx ctx;
 	unsigned long long bytes;
-	struct read_ahead *ahead; /* NULL: reads as asked */
 } hashing_reader;
 
 void hashing_reader_init(hashing_reader *h, FILE *in);
-/* From here on a second thread reads and hashes ahead of the caller, for
- * a regular file of 1 MiB or more (others are read as asked). -1 when
- * memory runs out; where no thread can be had it reads as asked. */
-int hashing_reader_ahead(hashing_reader *h);
 size_t hashing_read(void *ctx, void *buf, size_t cap, int *failed);
-/* Ends reading ahead (joins the second thread); the hash and the count
- * are then final. Call once after hashing_reader_ahead, before
- * hashing_reader_hex. */
-void hashing_reader_end(hashing_reader *h);
 void hashing_reader_hex(hashing_reader *h, char hex[65]);
 
 /* SHA-256 of a whole file; 0 on success. */
