@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/columns.h"
 #include "acidlot/date.h"
 #include "acidlot/juice.h"
 #include "acidlot/number.h"
@@ -387,6 +388,15 @@ out_of_range(al_rows *rs, unsigned long line, const al_titration *t)
 	return 0;
 }
 
+
+int
+al_assay_is_column(const char *name)
+{
+	for (int k = 0; k < AL_C_COUNT; k++)
+		if (strcmp(cols[k], name) == 0)
+			return 1;
+	return 0;
+}
 
 void
 al_rows_init(al_rows *rs, const al_assay_options *opt, al_diags *diags)

@@ -6,6 +6,7 @@
 #include "acidlot/alloc.h"
 #include "acidlot/assay.h"
 #include "acidlot/chem.h"
+#include "acidlot/columns.h"
 #include "acidlot/csvread.h"
 #include "acidlot/csvwrite.h"
 #include "acidlot/date.h"

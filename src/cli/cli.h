@@ -37,6 +37,35 @@ int cli_usage_error(const char *cmd, const char *fmt, ...)
  * message and -1. */
 int cli_number(const char *cmd, const char *option, const char *text,
 	       double *out);
+/* An option that takes a number within a range. */
+enum {
+	CLI_ABOVE = 1, /* more than lo (else lo or more) */
+	CLI_BELOW = 2, /* less than hi (else hi or less) */
+	CLI_WHOLE = 4  /* a whole number */
+};
+typedef struct cli_range {
+	int id;              /* getopt_long's value for it */
+	const char *name;    /* "--blank-ml" */
+	double lo, hi;
+	unsigned how;        /* CLI_ bits */
+	const char *message; /* the usage error outside the range; a "%s"
+				in it stands for the value given */
+	double *out;
+	int *given; /* set to 1 when given; NULL: none */
+} cli_range;
+/* Option c, if table t has it: parsed, checked and stored (1), a usage
+ * error (-1), or not in t (0). */
+int cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
+		     const char *text);
+
+/* An option that takes a text, stored as given. */
+typedef struct cli_text {
+	int id;
+	const char **out;
+} cli_text;
+/* Option c, if table t has it: stored (1), else 0. */
+int cli_text_option(const cli_text *t, size_t n, int c, const char *text);
+
 /* Parses a unit name for an option ("--unit", or "UNIT" for an operand);
  * 0 on success, else a usage error saying why and -1. */
 int cli_unit(const char *cmd, const char *option, const char *text,

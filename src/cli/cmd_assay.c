@@ -6,8 +6,7 @@
 #include <string.h>
 #include <sys/stat.h>
 
-#include "cli.h"
-#include "record.h"
+#include "assay_cli.h"
 
 static void
 usage(FILE *out)
@@ -101,12 +100,6 @@ usage(FILE *out)
 	      out);
 }
 
-struct sink {
-	FILE *out;
-	al_report_options *ropt;
-	unsigned long count;
-};
-
 static al_status
 write_replicate(void *ud, const al_replicate *rep)
 {
@@ -171,310 +164,210 @@ static const struct option options[] = {
 	{NULL, 0, NULL, 0},
 };
 
-/* The column names a --column mapping may name. */
-static const char *const column_names[] = {
-	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
-	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
-	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct"};
-
-#define MAX_COLUMN_OPTS 32
-
-struct args {
-	const char *spec, *output, *replicates, *rejects, *acid, *unit;
-	const char *columns_file, *titrants, *record, *analyst, *budget;
-	al_column_alias column_opts[MAX_COLUMN_OPTS];
-	size_t n_column_opts;
-	al_assay_options aopt;
-	al_report_options ropt;
-};
-
+/* The options with a number, their ranges and where they go. */
 static int
-known_column(const char *name)
+number_option(struct args *a, int c)
 {
-	for (size_t i = 0; i < sizeof column_names / sizeof column_names[0]; i++)
-		if (strcmp(column_names[i], name) == 0)
-			return 1;
+	al_assay_options *o = &a->aopt;
+	const cli_range t[] = {
+		{OPT_BLANK, "--blank-ml", 0, HUGE_VAL, 0,
+		 "--blank-ml must not be negative", &o->blank_ml, &o->has_blank},
+		{OPT_TITRANT, "--titrant-mol-l", 0, HUGE_VAL, CLI_ABOVE,
+		 "--titrant-mol-l must be above 0", &o->titrant_mol_l,
+		 &o->has_titrant},
+		{OPT_DENSITY, "--density-g-ml", 0, HUGE_VAL, CLI_ABOVE,
+		 "--density-g-ml must be above 0", &o->density_g_ml,
+		 &o->has_density},
+		{OPT_ENDPOINT, "--endpoint-ph", 0, 14, 0,
+		 "--endpoint-ph must be from 0 to 14", &o->endpoint_ph,
+		 &o->has_endpoint},
+		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
+		 "--decimals takes a whole number from 0 to 15", &a->decimals,
+		 &a->has_decimals},
+		{OPT_TITRANT_U, "--titrant-u", 0, 1, CLI_BELOW,
+		 "--titrant-u is a standard uncertainty in mol/L, from 0 to 1",
+		 &o->qc.titrant_u, &o->qc.has_titrant_u},
+		{OPT_BURETTE, "--burette-tol-ml", 0, 100, CLI_ABOVE | CLI_BELOW,
+		 "--burette-tol-ml: %s is not above 0 and below 100",
+		 &o->qc.burette_tol_ml, NULL},
+		{OPT_BALANCE, "--balance-linearity-g", 0, 100,
+		 CLI_ABOVE | CLI_BELOW,
+		 "--balance-linearity-g: %s is not above 0 and below 100",
+		 &o->qc.balance_linearity_g, NULL},
+		{OPT_K, "--k", 0, 100, CLI_ABOVE | CLI_BELOW,
+		 "--k: %s is not above 0 and below 100", &o->qc.k, NULL},
+		{OPT_RESOLUTION, "--resolution-ml", 0, 1, 0,
+		 "--resolution-ml takes 0 to 1 mL", &o->qc.resolution_ml,
+		 &o->qc.has_resolution},
+		{OPT_WATER_U, "--water-u-pct", 0, 10, 0,
+		 "--water-u-pct takes 0 to 10 % w/w", &o->qc.water_u_pct,
+		 &o->qc.has_water_u},
+	};
+
+	return cli_range_option("assay", t, sizeof t / sizeof t[0], c, optarg);
+}
+
+/* The options with a text, kept as given. */
+static int
+text_option(struct args *a, int c)
+{
+	const cli_text t[] = {
+		{'s', &a->spec},	     {'o', &a->output},
+		{'r', &a->replicates},	     {OPT_REJECTS, &a->rejects},
+		{OPT_ACID, &a->acid},	     {OPT_UNIT, &a->unit},
+		{OPT_COLUMNS, &a->columns_file}, {OPT_TITRANTS, &a->titrants},
+		{OPT_RECORD, &a->record},    {OPT_ANALYST, &a->analyst},
+		{OPT_BUDGET, &a->budget},
+	};
+
+	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
+}
+
+/* --column NAME=HEADER: 1, or -1 after a usage error. */
+static int
+column_option(struct args *a, char *text)
+{
+	char *eq = strchr(text, '=');
+
+	if (eq == NULL || eq == text || eq[1] == '\0')
+		return cli_usage_error("assay",
+				       "--column takes NAME=HEADER, e.g. "
+				       "--column titrant_ml=\"Vol (mL)\""),
+		       -1;
+	*eq = '\0';
+	if (!al_assay_is_column(text))
+		return cli_usage_error("assay",
+				       "--column: '%s' is not one of our "
+				       "columns (see the README)",
+				       text),
+		       -1;
+	if (a->n_column_opts == MAX_COLUMN_OPTS)
+		return cli_usage_error("assay", "too many --column options"),
+		       -1;
+	a->column_opts[a->n_column_opts].name = text;
+	a->column_opts[a->n_column_opts].header = eq + 1;
+	a->n_column_opts++;
+	return 1;
+}
+
+/* --decision simple | guarded[:R]: 1, or -1 after a usage error. */
+static int
+decision_option(struct args *a, const char *text)
+{
+	al_qc_options *qc = &a->aopt.qc;
+	double v = 1;
+
+	if (strcmp(text, "simple") == 0) {
+		qc->decision = AL_DECISION_SIMPLE;
+		return 1;
+	}
+	if (strncmp(text, "guarded", 7) != 0 ||
+	    (text[7] != '\0' && text[7] != ':'))
+		return cli_usage_error("assay", "--decision takes simple or "
+						"guarded[:R]"),
+		       -1;
+	if (text[7] == ':' &&
+	    (al_number_parse(text + 8, strlen(text + 8), '.', &v) !=
+		     AL_NUM_OK ||
+	     !(v > 0 && v <= 10)))
+		return cli_usage_error("assay", "--decision guarded:R takes R "
+						"above 0 and at most 10"),
+		       -1;
+	qc->decision = AL_DECISION_GUARDED;
+	qc->guard_r = v;
+	return 1;
+}
+
+/* The options that take a word from a list, or no value: 1 when c is
+ * one (-1 after a usage error), else 0. */
+static int
+word_option(struct args *a, int c, const char *text)
+{
+	al_report_options *r = &a->ropt;
+
+	switch (c) {
+	case OPT_SHEET:
+		if (strcmp(text, "eu") != 0 && strcmp(text, "plain") != 0)
+			return cli_usage_error("assay", "--sheet-style takes "
+							"plain or eu"),
+			       -1;
+		r->bom = text[0] == 'e';
+		r->delimiter = text[0] == 'e' ? ';' : ',';
+		r->decimal_comma = text[0] == 'e';
+		return 1;
+	case OPT_BASIS:
+		if (strcmp(text, "anhydrous") != 0 && strcmp(text, "as-is") != 0)
+			return cli_usage_error("assay", "--basis takes as-is or "
+							"anhydrous"),
+			       -1;
+		a->aopt.anhydrous = text[0] == 'a' && text[1] == 'n';
+		return 1;
+	case OPT_DELIMITER:
+		if (cli_delimiter(text, &a->aopt.csv.delimiter))
+			return cli_usage_error("assay",
+					       "--delimiter: '%s' is not ',', "
+					       "';', tab or auto",
+					       text),
+			       -1;
+		return 1;
+	case OPT_DECISION:
+		return decision_option(a, text);
+	case OPT_DECIMAL_COMMA:
+		a->aopt.csv.decimal_point = ',';
+		return 1;
+	case OPT_BOM:
+		r->bom = 1;
+		return 1;
+	case OPT_RAW_TEXT:
+		r->raw_text = 1;
+		return 1;
+	case OPT_EXCLUDE:
+		a->aopt.qc.exclude_outliers = 1;
+		return 1;
+	}
 	return 0;
 }
 
-/* An option's number; bounds checked by the caller. */
-static int
-opt_number(const char *option, double *v)
-{
-	return cli_number("assay", option, optarg, v);
-}
-
+/* 0 to go on, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
-	int c;
-	double v;
-	char *eq;
+	int c, got;
 
 	optind = 1;
 	opterr = 0;
 	while ((c = getopt_long(argc, argv, ":s:o:r:h", options, NULL)) != -1) {
-		switch (c) {
-		case 's':
-			a->spec = optarg;
-			break;
-		case 'o':
-			a->output = optarg;
-			break;
-		case 'r':
-			a->replicates = optarg;
-			break;
-		case OPT_REJECTS:
-			a->rejects = optarg;
-			break;
-		case OPT_ACID:
-			a->acid = optarg;
-			break;
-		case OPT_UNIT:
-			a->unit = optarg;
-			break;
-		case OPT_BLANK:
-			if (opt_number("--blank-ml", &v))
-				return -1;
-			if (v < 0)
-				return cli_usage_error(
-					       "assay",
-					       "--blank-ml must not be negative"),
-				       -1;
-			a->aopt.has_blank = 1;
-			a->aopt.blank_ml = v;
-			break;
-		case OPT_TITRANT:
-			if (opt_number("--titrant-mol-l", &v))
-				return -1;
-			if (!(v > 0))
-				return cli_usage_error(
-					       "assay",
-					       "--titrant-mol-l must be above 0"),
-				       -1;
-			a->aopt.has_titrant = 1;
-			a->aopt.titrant_mol_l = v;
-			break;
-		case OPT_DENSITY:
-			if (opt_number("--density-g-ml", &v))
-				return -1;
-			if (!(v > 0))
-				return cli_usage_error(
-					       "assay",
-					       "--density-g-ml must be above 0"),
-				       -1;
-			a->aopt.has_density = 1;
-			a->aopt.density_g_ml = v;
-			break;
-		case OPT_ENDPOINT:
-			if (opt_number("--endpoint-ph", &v))
-				return -1;
-			if (!(v >= 0 && v <= 14))
-				return cli_usage_error(
-					       "assay",
-					       "--endpoint-ph must be from 0 to 14"),
-				       -1;
-			a->aopt.has_endpoint = 1;
-			a->aopt.endpoint_ph = v;
-			break;
-		case OPT_DECIMALS:
-			if (opt_number("--decimals", &v))
-				return -1;
-			if (!(v >= 0 && v <= 15) || v != floor(v))
-				return cli_usage_error("assay",
-						       "--decimals takes a whole "
-						       "number from 0 to 15"),
-				       -1;
-			a->ropt.decimals = (int)v;
-			break;
-		case OPT_DELIMITER:
-			if (cli_delimiter(optarg, &a->aopt.csv.delimiter))
-				return cli_usage_error(
-					       "assay",
-					       "--delimiter: '%s' is not ',', ';', "
-					       "tab or auto",
-					       optarg),
-				       -1;
-			break;
-		case OPT_DECIMAL_COMMA:
-			a->aopt.csv.decimal_point = ',';
-			break;
-		case OPT_COLUMN:
-			eq = strchr(optarg, '=');
-			if (eq == NULL || eq == optarg || eq[1] == '\0')
-				return cli_usage_error(
-					       "assay",
-					       "--column takes NAME=HEADER, e.g. "
-					       "--column titrant_ml=\"Vol (mL)\""),
-				       -1;
-			*eq = '\0';
-			if (!known_column(optarg))
-				return cli_usage_error(
-					       "assay",
-					       "--column: '%s' is not one of our "
-					       "columns (see the README)",
-					       optarg),
-				       -1;
-			if (a->n_column_opts == MAX_COLUMN_OPTS)
-				return cli_usage_error("assay",
-						       "too many --column options"),
-				       -1;
-			a->column_opts[a->n_column_opts].name = optarg;
-			a->column_opts[a->n_column_opts].header = eq + 1;
-			a->n_column_opts++;
-			break;
-		case OPT_COLUMNS:
-			a->columns_file = optarg;
-			break;
-		case OPT_SHEET:
-			if (strcmp(optarg, "eu") == 0) {
-				a->ropt.bom = 1;
-				a->ropt.delimiter = ';';
-				a->ropt.decimal_comma = 1;
-			} else if (strcmp(optarg, "plain") == 0) {
-				a->ropt.bom = 0;
-				a->ropt.delimiter = ',';
-				a->ropt.decimal_comma = 0;
-			} else
-				return cli_usage_error(
-					       "assay",
-					       "--sheet-style takes plain or eu"),
-				       -1;
-			break;
-		case OPT_BOM:
-			a->ropt.bom = 1;
-			break;
-		case OPT_RAW_TEXT:
-			a->ropt.raw_text = 1;
-			break;
-		case OPT_TITRANTS:
-			a->titrants = optarg;
-			break;
-		case OPT_RECORD:
-			a->record = optarg;
-			break;
-		case OPT_ANALYST:
-			a->analyst = optarg;
-			break;
-		case OPT_DECISION:
-			if (strcmp(optarg, "simple") == 0)
-				a->aopt.qc.decision = AL_DECISION_SIMPLE;
-			else if (strncmp(optarg, "guarded", 7) == 0 &&
-				 (optarg[7] == '\0' || optarg[7] == ':')) {
-				a->aopt.qc.decision = AL_DECISION_GUARDED;
-				a->aopt.qc.guard_r = 1;
-				if (optarg[7] == ':' &&
-				    (al_number_parse(optarg + 8, strlen(optarg + 8),
-						     '.', &v) != AL_NUM_OK ||
-				     !(v > 0 && v <= 10)))
-					return cli_usage_error(
-						       "assay",
-						       "--decision guarded:R takes R "
-						       "above 0 and at most 10"),
-					       -1;
-				if (optarg[7] == ':')
-					a->aopt.qc.guard_r = v;
-			} else
-				return cli_usage_error("assay",
-						       "--decision takes simple or "
-						       "guarded[:R]"),
-				       -1;
-			break;
-		case OPT_EXCLUDE:
-			a->aopt.qc.exclude_outliers = 1;
-			break;
-		case OPT_BASIS:
-			if (strcmp(optarg, "anhydrous") == 0)
-				a->aopt.anhydrous = 1;
-			else if (strcmp(optarg, "as-is") == 0)
-				a->aopt.anhydrous = 0;
-			else
-				return cli_usage_error("assay",
-						       "--basis takes as-is or "
-						       "anhydrous"),
-				       -1;
-			break;
-		case OPT_BUDGET:
-			a->budget = optarg;
-			break;
-		case OPT_TITRANT_U:
-			if (opt_number("--titrant-u", &v))
-				return -1;
-			if (!(v >= 0 && v < 1))
-				return cli_usage_error("assay",
-						       "--titrant-u is a standard "
-						       "uncertainty in mol/L, from "
-						       "0 to 1"),
-				       -1;
-			a->aopt.qc.has_titrant_u = 1;
-			a->aopt.qc.titrant_u = v;
-			break;
-		case OPT_BURETTE:
-		case OPT_BALANCE:
-		case OPT_K: {
-			const char *name = c == OPT_K	      ? "--k"
-					   : c == OPT_BURETTE ? "--burette-tol-ml"
-							      : "--balance-linearity-g";
-
-			if (opt_number(name, &v))
-				return -1;
-			if (!(v > 0 && v < 100))
-				return cli_usage_error("assay",
-						       "%s: %s is not above 0 and "
-						       "below 100",
-						       name, optarg),
-				       -1;
-			if (c == OPT_K)
-				a->aopt.qc.k = v;
-			else if (c == OPT_BURETTE)
-				a->aopt.qc.burette_tol_ml = v;
-			else
-				a->aopt.qc.balance_linearity_g = v;
-			break;
-		}
-		case OPT_RESOLUTION:
-			if (opt_number("--resolution-ml", &v))
-				return -1;
-			if (!(v >= 0 && v <= 1))
-				return cli_usage_error("assay",
-						       "--resolution-ml takes 0 "
-						       "to 1 mL"),
-				       -1;
-			a->aopt.qc.resolution_ml = v;
-			a->aopt.qc.has_resolution = 1;
-			break;
-		case OPT_WATER_U:
-			if (opt_number("--water-u-pct", &v))
-				return -1;
-			if (!(v >= 0 && v <= 10))
-				return cli_usage_error("assay",
-						       "--water-u-pct takes 0 "
-						       "to 10 %% w/w"),
-				       -1;
-			a->aopt.qc.water_u_pct = v;
-			a->aopt.qc.has_water_u = 1;
-			break;
-		case 'h':
+		if (c == 'h') {
 			usage(stdout);
 			return 1;
-		case ':':
-			return cli_usage_error("assay", "option '%s' needs a value",
+		}
+		if (c == ':')
+			return cli_usage_error("assay",
+					       "option '%s' needs a value",
 					       cli_bad_option(argv)),
 			       -1;
-		default:
+		if (text_option(a, c))
+			continue;
+		got = number_option(a, c);
+		if (got == 0)
+			got = word_option(a, c, optarg);
+		if (got == 0 && c == OPT_COLUMN)
+			got = column_option(a, optarg);
+		if (got < 0)
+			return -1;
+		if (got == 0)
 			return cli_usage_error("assay", "unknown option '%s'",
 					       cli_bad_option(argv)),
 			       -1;
-		}
 	}
+	if (a->has_decimals)
+		a->ropt.decimals = (int)a->decimals;
 	if (optind >= argc)
 		return cli_usage_error("assay", "no titration file given"), -1;
 	if (cli_distinct_inputs("assay", argv + optind, argc - optind))
 		return -1;
 	return cli_check_decimal_comma("assay", &a->aopt.csv) ? -1 : 0;
 }
-
 /* Refuses an output that is an input or another output (the record's
  * default name included), before anything is read. */
 static int
@@ -508,124 +401,6 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	return ok;
 }
 
-static void
-summary(const al_assay *run, const struct args *a, unsigned long rejected)
-{
-	al_assay_counts c = al_assay_get_counts(run);
-
-	for (size_t i = 0; i < al_assay_cochran_count(run); i++) {
-		const al_cochran *t = al_assay_cochran_at(run, i);
-		const al_group_result *r = al_assay_result(run, t->result);
-
-		cli_error("Cochran %s: C = %.4f over %zu results of n = %zu "
-			"(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s",
-			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
-			t->c > t->crit1	  ? ": variance outlier "
-			: t->c > t->crit5 ? ": variance straggler "
-					  : ": largest variance ",
-			r->lot, r->sample);
-	}
-	fprintf(stderr,
-		PROG ": %lu result%s: %lu pass, %lu fail, %lu retest, %lu "
-		     "no-spec",
-		c.groups, c.groups == 1 ? "" : "s",
-		c.by_verdict[AL_VERDICT_PASS], c.by_verdict[AL_VERDICT_FAIL],
-		c.by_verdict[AL_VERDICT_RETEST],
-		c.by_verdict[AL_VERDICT_NO_SPEC]);
-	if (a->aopt.qc.decision == AL_DECISION_GUARDED)
-		fprintf(stderr, ", %lu conditional-pass, %lu conditional-fail",
-			c.by_verdict[AL_VERDICT_COND_PASS],
-			c.by_verdict[AL_VERDICT_COND_FAIL]);
-	fprintf(stderr, "; %lu rows read = %lu used + %lu rejected",
-		c.rows_read, c.rows_used, c.rows_bad);
-	if (a->ropt.guarded)
-		fprintf(stderr, "; %lu text cell%s guarded against formulas",
-			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
-	fputc('\n', stderr);
-	if (rejected)
-		cli_error("%lu row%s rejected: see %s", rejected,
-			rejected == 1 ? "" : "s", a->rejects);
-}
-
-/* Results that nothing judged (no-spec; with --spec a result whose
- * rows were all rejected is a retest): with --spec, each product without
- * a specification row is named once, with any row it matches ignoring
- * case and punctuation (never matched silently); without --spec, the
- * summary says so. The number of results not judged, or -1 when memory
- * runs out. Only the no-spec results are evaluated again. */
-static long
-unjudged(const al_assay *run, al_spec_table *specs)
-{
-	long count = (long)al_assay_get_counts(run).by_verdict[AL_VERDICT_NO_SPEC];
-	const char *last = NULL; /* in the run's keys: stays valid */
-
-	for (size_t i = 0; specs && count && i < al_assay_group_count(run);
-	     i++) {
-		const al_group_result *r;
-		const al_spec *near;
-		int oom;
-
-		if (al_assay_result_verdict(run, i) != AL_VERDICT_NO_SPEC)
-			continue;
-		r = al_assay_result(run, i);
-		if (last && strcmp(last, r->product) == 0)
-			continue;
-		last = r->product;
-		near = al_spec_find_loose(specs, r->product, &oom);
-		if (oom)
-			return -1;
-		near = al_spec_find_loose(specs, r->product, &oom);
-		if (oom)
-			return -1;
-		if (near)
-			cli_error("warning: product '%s' (%s/%s) has no "
-				  "specification row; '%s' (line %lu) differs "
-				  "only in case, blanks or punctuation: not "
-				  "judged",
-				  r->product, r->lot, r->sample, near->product,
-				  near->line);
-		else
-			cli_error("warning: product '%s' (%s/%s) has no "
-				  "specification row: not judged",
-				  r->product, r->lot, r->sample);
-	}
-	return count;
-}
-
-static void
-endpoint_warnings(const al_assay *run)
-{
-	for (size_t i = 0; i < al_assay_group_count(run); i++) {
-		const al_group_result *r;
-		double got;
-
-		if (!(al_assay_result_flags(run, i) &
-		      (AL_FLAG_RANGE | AL_FLAG_ENDPOINT_LOW)))
-			continue;
-		r = al_assay_result(run, i);
-
-		if (r->flags & AL_FLAG_RANGE)
-			cli_error("warning: %s/%s/%s: the range %.4g of %zu "
-				"results exceeds the critical range %.4g = "
-				"f(%zu) sr (ISO 5725-6): take further results; "
-				"if the range of all of them still exceeds its "
-				"critical range, report the median",
-				r->product, r->lot, r->sample, r->range, r->stats.n,
-				r->critical_range, r->stats.n);
-
-		if (!(r->flags & AL_FLAG_ENDPOINT_LOW))
-			continue;
-		got = al_protons_titrated(r->acid->pka, r->acid->n_pka,
-					  r->endpoint_ph);
-		cli_error("warning: %s/%s/%s: endpoint pH %.2f titrates "
-			"%.3f of the %d protons of %s the factor assumes; "
-			"pH %.1f or above would titrate 99 %%",
-			r->product, r->lot, r->sample, r->endpoint_ph, got,
-			r->acid->protons, r->acid->name,
-			ceil(r->endpoint_ph_needed * 10 - 1e-9) / 10);
-	}
-}
-
 /* Opens an output and writes its header; NULL after a message. */
 static al_outfile *
 open_output(const char *path, al_status (*header)(FILE *, al_report_options *),
@@ -647,688 +422,303 @@ open_output(const char *path, al_status (*header)(FILE *, al_report_options *),
 	return f;
 }
 
-static al_spec_table *
-load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
+/* An error message for a status; -1. */
+static int
+failed(const char *what, al_status st)
 {
-	al_status st;
-	al_spec_table *specs;
-	al_csv_options csv;
-	FILE *in = cli_open_input(a->spec);
-
-	if (in == NULL) {
-		cli_error("%s: %s", a->spec, cli_reason(AL_OK));
-		return NULL;
-	}
-	/* the specification is a file of our own: its delimiter is told
-	 * from its header, whatever --delimiter says for the titrations */
-	csv = a->aopt.csv;
-	csv.delimiter = AL_CSV_AUTO;
-	csv.recover = 0;
-	specs = al_spec_table_read(cat, &csv, in, a->spec, &st, d);
-	fclose(in);
-	cli_print_diags(d);
-	if (specs == NULL) {
-		if (st == AL_ENOMEM || st == AL_EIO)
-			cli_error("%s: %s", a->spec, al_strerror(st));
-		else
-			cli_error("%lu error%s in the specification file; no "
-				  "report written",
-				  d->errors, d->errors == 1 ? "" : "s");
-	}
-	return specs;
+	if (what)
+		cli_error("%s: %s", what, cli_reason(st));
+	else
+		cli_error("%s", al_strerror(st));
+	return -1;
 }
 
-/* One column mapped twice, or one header to two columns, in the --column
- * options or the --columns file (an option may override the file's
- * mapping of a column): a usage error, since one would win in silence. */
+/* The specification, the column map and the titrant register, each
+ * hashed into the record. */
 static int
-columns_conflict(const struct args *a, const al_column_alias *all, size_t n)
+load_lookups(struct job *j)
 {
-	size_t i, j;
+	struct args *a = &j->a;
 
-	switch (al_column_aliases_check(all, n, a->n_column_opts, &i, &j)) {
-	case AL_ALIAS_NAME_TWICE:
-		cli_usage_error("assay", "%s maps '%s' twice (to '%s' and '%s')",
-				i < a->n_column_opts ? "--column"
-						     : a->columns_file,
-				all[i].name, all[i].header, all[j].header);
+	if (load_columns(a, &j->aliases, &j->n_aliases) != 0)
 		return -1;
-	case AL_ALIAS_HEADER_TWICE:
-		cli_usage_error("assay",
-				"header '%s' is mapped to two columns, '%s' and "
-				"'%s'",
-				all[i].header, all[i].name, all[j].name);
+	a->aopt.aliases = j->aliases;
+	a->aopt.n_aliases = j->n_aliases;
+	if (a->columns_file && hash_input(&j->rec, "column map", a->columns_file, -1))
 		return -1;
-	default:
-		return 0;
-	}
-}
-
-/* Joins the --columns file and the --column options (which win, being
- * later in the list). */
-static int
-load_columns(struct args *a, al_column_alias **all, size_t *n)
-{
-	al_column_alias *file_items = NULL;
-	size_t n_file = 0;
-
-	*all = NULL;
-	*n = 0;
-	if (a->columns_file) {
-		al_diags d = {0};
-		FILE *in = cli_open_input(a->columns_file);
-		al_status st;
-
-		if (in == NULL) {
-			cli_error("%s: %s", a->columns_file, cli_reason(AL_OK));
+	if (a->spec) {
+		j->specs = load_spec(a, j->cat, &j->spec_diags);
+		if (j->specs == NULL ||
+		    hash_input(&j->rec, "specification", a->spec,
+			       (long)al_spec_count(j->specs)))
 			return -1;
-		}
-		st = al_column_aliases_read(in, a->columns_file, &file_items,
-					    &n_file, &d);
-		fclose(in);
-		cli_print_diags(&d);
-		al_diags_clear(&d);
-		if (st != AL_OK) {
-			cli_error("%s: %s", a->columns_file, al_strerror(st));
+		a->aopt.specs = j->specs;
+	}
+	if (a->titrants) {
+		j->titrants = load_titrants(a->titrants);
+		if (j->titrants == NULL ||
+		    hash_input(&j->rec, "titrant register", a->titrants,
+			       (long)al_register_count(j->titrants)))
 			return -1;
-		}
-		for (size_t i = 0; i < n_file; i++)
-			if (!known_column(file_items[i].name)) {
-				cli_error("%s: '%s' is not one of our columns",
-					  a->columns_file, file_items[i].name);
-				al_column_aliases_free(file_items, n_file);
-				return -1;
-			}
-	}
-	*all = al_calloc(n_file + a->n_column_opts + 1, sizeof **all);
-	if (*all == NULL) {
-		al_column_aliases_free(file_items, n_file);
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return -1;
-	}
-	/* the option pairs first: the first match wins in al_header_map */
-	for (size_t i = 0; i < a->n_column_opts; i++)
-		(*all)[(*n)++] = a->column_opts[i];
-	for (size_t i = 0; i < n_file; i++) {
-		(*all)[*n].name = al_strdup(file_items[i].name);
-		(*all)[*n].header = al_strdup(file_items[i].header);
-		if ((*all)[*n].name == NULL || (*all)[*n].header == NULL) {
-			al_free((char *)(*all)[*n].name);
-			al_free((char *)(*all)[*n].header);
-			break;
-		}
-		(*n)++;
-	}
-	al_column_aliases_free(file_items, n_file);
-	if (*n != a->n_column_opts + n_file) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return -1;
-	}
-	return columns_conflict(a, *all, *n);
-}
-
-static void
-free_columns(const struct args *a, al_column_alias *all, size_t n)
-{
-	for (size_t i = a->n_column_opts; i < n; i++) {
-		al_free((char *)all[i].name);
-		al_free((char *)all[i].header);
-	}
-	al_free(all);
-}
-
-static int
-hash_input(run_record *rec, const char *role, const char *path, long rows)
-{
-	char hex[65];
-	unsigned long long bytes;
-
-	if (sha256_file(path, hex, &bytes) != 0) {
-		cli_error("%s: cannot read it again to hash it", path);
-		return -1;
-	}
-	if (record_input(rec, role, path, bytes, rows, hex) != 0) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return -1;
+		a->aopt.titrants = j->titrants;
 	}
 	return 0;
 }
 
-static al_register *
-load_titrants(const char *path)
+/* The record begun, the catalogue, the acid and unit asked for and the
+ * lookups loaded. */
+static int
+set_up(struct job *j, int argc, char **argv)
 {
-	al_diags d = {0};
-	al_status st;
-	al_register *reg;
-	FILE *in = cli_open_input(path);
+	struct args *a = &j->a;
 
-	if (in == NULL) {
-		cli_error("%s: %s", path, cli_reason(AL_OK));
-		return NULL;
+	switch (record_start(&j->rec, "assay", argc, argv, a->analyst)) {
+	case 0:
+		break;
+	case -2: /* the run's time, said */
+		return -1;
+	default:
+		return failed(NULL, AL_ENOMEM);
 	}
-	reg = al_register_read(in, path, &st, &d);
-	fclose(in);
-	cli_print_diags(&d);
-	al_diags_clear(&d);
-	if (reg == NULL)
-		cli_error("%s: cannot read the titrant register (%s)", path,
-			  al_strerror(st));
-	return reg;
-}
-
-/* Adds to the record what a reviewer needs to re-derive each result:
- * acids, specifications and titrant lots used, the decision rule,
- * counts, and each result with its report_id. */
-#define RECORD_RESULTS_MAX 10000
-
-/* The decision rule as the record states it (ILAC G8:09/2019 4.2.1 or
- * 4.2.2); NULL when memory runs out. */
-static json_t *
-decision_rule(int guarded, double guard_r, int exclude)
-{
-	return guarded ? json_pack("{s:s, s:s, s:f, s:b, s:s}", "name",
-				   "guarded acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
-				   "guard_band_r", guard_r, "outliers_excluded",
-				   exclude,
-				   "statement",
-				   "w = r U: pass inside [min + w, max - w], fail "
-				   "outside [min - w, max + w], conditional-pass "
-				   "or conditional-fail in between; retest when "
-				   "n < min_n, RSD > max_rsd_pct or the range "
-				   "exceeds f(n) sr (ISO 5725-6)")
-		       : json_pack("{s:s, s:s, s:b, s:s}", "name",
-				   "simple acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
-				   "outliers_excluded", exclude, "statement",
-				   "pass when min <= mean <= max (limits "
-				   "inclusive, the unrounded mean, measurement "
-				   "uncertainty not subtracted); retest when n < "
-				   "min_n, RSD > max_rsd_pct or the range exceeds "
-				   "f(n) sr (ISO 5725-6)");
-}
-
-/* Cochran's tests of the run, for the record; NULL when memory runs
- * out. */
-static json_t *
-cochran_tests(const al_assay *run)
-{
-	json_t *cochran = json_array();
-
-	for (size_t i = 0; cochran && i < al_assay_cochran_count(run); i++) {
-		const al_cochran *ct = al_assay_cochran_at(run, i);
-
-		if (json_array_append_new(
-			    cochran,
-			    json_pack("{s:s, s:I, s:I, s:f, s:f, s:f}", "product",
-				      ct->product, "results", (json_int_t)ct->l,
-				      "n", (json_int_t)ct->n, "C", ct->c,
-				      "critical_5pct", ct->crit5,
-				      "critical_1pct", ct->crit1)) != 0) {
-			json_decref(cochran);
-			return NULL;
+	a->aopt.today = j->rec.today;
+	j->cat = cli_catalogue();
+	if (j->cat == NULL)
+		return -1;
+	a->aopt.catalogue = j->cat;
+	if (a->acid) {
+		a->aopt.default_acid = al_catalogue_find(j->cat, a->acid);
+		if (a->aopt.default_acid == NULL) {
+			cli_usage_error("assay", "--acid: unknown acid '%s'",
+					a->acid);
+			cli_list_acids(j->cat);
+			return -1;
 		}
 	}
-	return cochran;
+	if (a->unit) {
+		if (cli_unit("assay", "--unit", a->unit, &a->aopt.unit) != 0)
+			return -1;
+		a->aopt.has_unit = 1;
+	}
+	return load_lookups(j);
 }
 
-/* Each result in the record for a lab-sized run (the first
- * RECORD_RESULTS_MAX); past that the report itself, hashed in outputs,
- * carries them. 0, or -1 when memory runs out. */
+/* The outputs written while rows are read: replicates and rejects. */
 static int
-record_results(json_t *results, const run_record *rec, const al_assay *run,
-	       size_t n)
+open_row_outputs(struct job *j)
 {
-	int bad = 0;
+	struct args *a = &j->a;
 
-	for (size_t i = 0; !bad && i < n && i < RECORD_RESULTS_MAX; i++) {
-		const al_group_result *r = al_assay_result(run, i);
-		char id[64], flags[512];
-
-		snprintf(id, sizeof id, "%s-%04zu", rec->id, i + 1);
-		al_flags_format(r->flags, r->endpoint_ph_needed, flags,
-				sizeof flags);
-		bad |= json_array_append_new(
-			results,
-			json_pack("{s:s, s:o, s:o, s:o, s:s, s:s, s:I, s:o, s:o, "
-				  "s:o, s:s, s:s}",
-				  "report_id", id, "product",
-				  record_text(r->product), "lot",
-				  record_text(r->lot), "sample",
-				  record_text(r->sample), "acid",
-				  r->acid->name, "unit", al_unit_name(r->unit),
-				  "n", (json_int_t)r->stats.n, "mean",
-				  r->stats.n ? json_real(r->stats.mean)
-					     : json_null(),
-				  "u", r->has_u ? json_real(r->u) : json_null(),
-				  "U", r->has_u ? json_real(r->U) : json_null(),
-				  "status", al_verdict_name(r->verdict), "flags",
-				  flags));
+	j->reps.ropt = j->rejs.ropt = &a->ropt;
+	if (a->replicates) {
+		j->rep_out = open_output(a->replicates, al_replicates_header,
+					 &a->ropt);
+		if (j->rep_out == NULL)
+			return -1;
+		j->reps.out = al_outfile_stream(j->rep_out);
 	}
-	return bad ? -1 : 0;
+	if (a->rejects) {
+		j->rej_out = open_output(a->rejects, al_rejects_header, &a->ropt);
+		if (j->rej_out == NULL)
+			return -1;
+		j->rejs.out = al_outfile_stream(j->rej_out);
+		a->aopt.on_reject = write_reject;
+		a->aopt.reject_ud = &j->rejs;
+	}
+	return 0;
 }
 
+/* One titration file into the run, hashed as it is read (the record
+ * says what was used, even for standard input): 0, 1 when it could not
+ * be read whole (said), -1 to stop. */
 static int
-fill_record(run_record *rec, const al_assay *run, int guarded, double guard_r,
-	    int exclude)
+read_one(struct job *j, const char *name)
 {
-	json_t *acids = json_array(), *specs = json_array();
-	json_t *lots = json_array(), *results = json_array(), *rule, *counts;
-	al_assay_counts c = al_assay_get_counts(run);
-	size_t n = al_assay_group_count(run);
-	const al_titrant *t;
-	int bad = !acids || !specs || !lots || !results;
-	const al_acid *acid;
-	const al_spec *sp;
+	int is_stdin = strcmp(name, "-") == 0;
+	FILE *in = is_stdin ? stdin : cli_open_input(name);
+	unsigned long before = al_assay_get_counts(j->run).rows_read, rows;
+	hashing_reader h;
+	char hex[65];
+	al_status st;
 
-	/* the acids and specifications of the results: few, whatever the
-	 * number of results */
-	for (size_t i = 0; !bad && (acid = al_assay_acid_used(run, i)); i++)
-		bad |= json_array_append_new(
-			acids,
-			json_pack("{s:s, s:s, s:f, s:i, s:f, s:s}", "name",
-				  acid->name, "formula", acid->formula,
-				  "molar_mass_g_mol", acid->molar_mass,
-				  "protons", acid->protons, "g_per_meq",
-				  acid->g_per_meq, "source", acid->source));
-	for (size_t i = 0; !bad && (sp = al_assay_spec_used(run, i)); i++)
-		bad |= json_array_append_new(
-			specs,
-			json_pack("{s:o, s:s?, s:s?, s:o, s:o, s:o, s:I, s:I}",
-				  "product", record_text(sp->product), "acid",
-				  sp->acid ? sp->acid->name : NULL, "unit",
-				  sp->has_unit ? al_unit_name(sp->unit) : NULL,
-				  "min",
-				  sp->has_min ? json_real(sp->min) : json_null(),
-				  "max",
-				  sp->has_max ? json_real(sp->max) : json_null(),
-				  "max_rsd_pct",
-				  sp->has_max_rsd ? json_real(sp->max_rsd_pct)
-						  : json_null(),
-				  "min_n", (json_int_t)sp->min_n, "line",
-				  (json_int_t)sp->line));
-	bad |= !bad && record_results(results, rec, run, n) != 0;
-	for (size_t i = 0; !bad && (t = al_assay_titrant_used(run, i)); i++) {
-		char on[11], until[11];
-
-		al_date_format(t->standardised_on, on);
-		al_date_format(t->valid_until, until);
-		bad |= json_array_append_new(
-			lots, json_pack("{s:o, s:s, s:f, s:f, s:s, s:s}",
-					"titrant_lot", record_text(t->lot),
-					"standard",
-					t->standard, "concentration_mol_l",
-					t->concentration_mol_l, "u_mol_l",
-					t->u_mol_l, "standardised_on", on,
-					"valid_until", until));
+	if (in == NULL) {
+		cli_error("%s: %s", name, cli_reason(AL_OK));
+		return 1;
 	}
-	rule = decision_rule(guarded, guard_r, exclude);
-	counts = json_pack("{s:I, s:I, s:I, s:I, s:I, s:I, s:I, s:I}",
-			   "rows_read", (json_int_t)c.rows_read, "rows_used",
-			   (json_int_t)c.rows_used, "rows_rejected",
-			   (json_int_t)c.rows_bad, "results",
-			   (json_int_t)c.groups, "pass",
-			   (json_int_t)c.by_verdict[AL_VERDICT_PASS], "fail",
-			   (json_int_t)c.by_verdict[AL_VERDICT_FAIL], "retest",
-			   (json_int_t)c.by_verdict[AL_VERDICT_RETEST],
-			   "no_spec",
-			   (json_int_t)c.by_verdict[AL_VERDICT_NO_SPEC]);
-	bad |= json_object_set_new(rec->root, "acids", acids) != 0;
-	bad |= json_object_set_new(rec->root, "specifications", specs) != 0;
-	bad |= json_object_set_new(rec->root, "titrant_lots", lots) != 0;
-	bad |= json_object_set_new(rec->root, "results", results) != 0;
-	if (n > RECORD_RESULTS_MAX)
-		bad |= json_object_set_new(
-			       rec->root, "results_note",
-			       json_sprintf("the first %d of %zu results; the "
-					    "report lists all (see outputs)",
-					    RECORD_RESULTS_MAX, n)) != 0;
-	bad |= json_object_set_new(rec->root, "cochran", cochran_tests(run)) != 0;
-	bad |= rule == NULL ||
-	       json_object_set_new(rec->root, "decision_rule", rule) != 0;
-	bad |= counts == NULL ||
-	       json_object_set_new(rec->root, "counts", counts) != 0;
-	return bad ? -1 : 0;
+	hashing_reader_init(&h, in);
+	st = al_assay_read_source(j->run, hashing_read, &h,
+				  is_stdin ? "<stdin>" : name,
+				  j->rep_out ? write_replicate : NULL, &j->reps);
+	if (!is_stdin)
+		fclose(in);
+	hashing_reader_hex(&h, hex);
+	j->in_bytes += h.bytes;
+	rows = al_assay_get_counts(j->run).rows_read - before;
+	if (record_input(&j->rec, "titrations", name, h.bytes, (long)rows,
+			 hex) != 0)
+		return failed(NULL, AL_ENOMEM);
+	if (st == AL_EIO) {
+		cli_error("%s: read or write error", name);
+		return 1;
+	}
+	if (st == AL_ENOMEM) {
+		cli_print_diags(al_assay_diags(j->run));
+		return failed(NULL, st);
+	}
+	return st != AL_OK;
+}
+
+/* Every titration file read; -1 when any error means no report. */
+static int
+read_titrations(struct job *j, int argc, char **argv)
+{
+	al_status st;
+	unsigned long e;
+	al_assay_counts c;
+	int bad = 0, got;
+
+	/* a malformed record is an invalid row in either mode, and the
+	 * rows after it are still read: every error is said, and the counts
+	 * agree with --rejects' */
+	j->a.aopt.csv.recover = 1;
+	j->run = al_assay_new(&j->a.aopt, &st);
+	if (j->run == NULL)
+		return failed(NULL, st);
+	for (int i = optind; i < argc; i++) {
+		if ((got = read_one(j, argv[i])) < 0)
+			return -1;
+		bad |= got;
+	}
+	cli_print_diags(al_assay_diags(j->run));
+	e = al_assay_diags(j->run)->errors;
+	c = al_assay_get_counts(j->run);
+	if (!bad && e == 0)
+		return 0;
+	if (e == 0) /* an input that could not be read: said above */
+		cli_error("no report written");
+	else if (c.rows_read > 0)
+		cli_error("%lu error%s in the input (%lu of %lu rows); no "
+			  "report written",
+			  e, e == 1 ? "" : "s", c.rows_bad, c.rows_read);
+	else
+		cli_error("%lu error%s in the input; no report written", e,
+			  e == 1 ? "" : "s");
+	return -1;
+}
+
+/* A status of the run's finishing, said: the replicates are written
+ * there. */
+static int
+finish_status(const struct job *j, al_status st)
+{
+	if (st == AL_OK)
+		return 0;
+	if (st == AL_EIO && j->a.replicates)
+		return failed(j->a.replicates, AL_OK);
+	return failed(NULL, st);
+}
+
+/* The report (each result evaluated once, as it is written) and the
+ * budget. */
+static int
+write_report(struct job *j)
+{
+	struct args *a = &j->a;
+
+	if (finish_status(j, al_assay_finish_lazy(j->run)) != 0)
+		return -1;
+	/* the run's id, in every report row and in the record */
+	if (record_seal(&j->rec) != 0)
+		return failed(NULL, AL_ENOMEM);
+	a->ropt.report_id = j->rec.id;
+	j->report = open_output(a->output ? a->output : "-", NULL, &a->ropt);
+	if (j->report == NULL)
+		return -1;
+	if (al_report_write(al_outfile_stream(j->report), j->run, &a->ropt) !=
+	    AL_OK)
+		return failed(j->out_name, AL_OK);
+	if (finish_status(j, al_assay_settle(j->run)) != 0)
+		return -1;
+	if (a->budget == NULL)
+		return 0;
+	j->budget_out = open_output(a->budget, NULL, &a->ropt);
+	if (j->budget_out == NULL)
+		return -1;
+	if (al_budget_write(al_outfile_stream(j->budget_out), j->run,
+			    &a->ropt) != AL_OK ||
+	    al_outfile_prepare(j->budget_out) != AL_OK)
+		return failed(a->budget, AL_OK);
+	return 0;
+}
+
+/* Every output checked, then all of them put in place at once: a
+ * failure leaves none. */
+static int
+commit_outputs(struct job *j)
+{
+	const struct args *a = &j->a;
+	int want_record = a->record || (a->output && strcmp(a->output, "-"));
+	al_outfile **all[] = {&j->report, &j->rep_out, &j->rej_out,
+			      &j->budget_out, &j->rec_out};
+
+	if (want_record)
+		assay_start_hashes(j);
+	/* named before the outputs appear */
+	j->open_results = assay_unjudged(j->run, j->specs);
+	if (j->open_results < 0)
+		return failed(NULL, AL_ENOMEM);
+	if (al_outfile_prepare(j->report) != AL_OK)
+		return failed(j->out_name, AL_OK);
+	if (j->rep_out && al_outfile_prepare(j->rep_out) != AL_OK)
+		return failed(a->replicates, AL_OK);
+	if (j->rej_out && al_outfile_prepare(j->rej_out) != AL_OK)
+		return failed(a->rejects, AL_OK);
+	if (want_record && assay_write_record(j) != 0)
+		return -1;
+	return cli_commit_all(all, 5);
+}
+
+static void
+job_free(struct job *j)
+{
+	al_outfile *outs[] = {j->rep_out, j->rej_out, j->report, j->rec_out,
+			      j->budget_out};
+
+	if (j->hashing) /* an error came first: the thread reads files */
+		(void)file_hashes_finish(&j->hashes);
+	for (size_t i = 0; i < sizeof outs / sizeof outs[0]; i++)
+		al_outfile_abort(outs[i]);
+	al_assay_free(j->run);
+	al_spec_table_free(j->specs);
+	al_diags_clear(&j->spec_diags);
+	free_columns(&j->a, j->aliases, j->n_aliases);
+	al_register_free(j->titrants);
+	al_catalogue_free(j->cat);
+	record_free(&j->rec);
 }
 
 int
 cmd_assay(int argc, char **argv)
 {
-	struct args a;
-	al_catalogue *cat = NULL;
-	al_spec_table *specs = NULL;
-	al_assay *run = NULL;
-	al_outfile *rep_out = NULL, *rej_out = NULL, *report = NULL;
-	al_outfile *rec_out = NULL, *budget_out = NULL;
-	al_column_alias *aliases = NULL;
-	al_register *titrants = NULL;
-	size_t n_aliases = 0;
-	run_record rec;
-	char record_path[4096];
-	struct sink reps, rejs;
-	al_diags spec_diags = {0};
-	al_status st;
-	int rc = EXIT_TROUBLE, bad = 0;
-	long open_results;
-	const char *out_name;
-	/* the outputs the record lists, hashed by a thread (file_hashes) */
-	file_hashes hashes;
-	const char *out_role[FILE_HASHES_MAX], *out_path[FILE_HASHES_MAX];
-	const char *in_place_role[FILE_HASHES_MAX];
-	const char *in_place_path[FILE_HASHES_MAX];
-	size_t n_in_place = 0;
-	int hashing = 0, want_record, file_report;
-	unsigned long long in_bytes = 0; /* of the titration files */
+	struct job *j = al_calloc(1, sizeof *j);
+	int rc = EXIT_TROUBLE;
 
-	memset(&a, 0, sizeof a);
-	memset(&rec, 0, sizeof rec);
-	memset(&hashes, 0, sizeof hashes);
-	a.ropt.decimals = -1;
-	switch (parse_args(argc, argv, &a)) {
+	if (j == NULL)
+		return failed(NULL, AL_ENOMEM), EXIT_TROUBLE;
+	j->a.ropt.decimals = -1;
+	switch (parse_args(argc, argv, &j->a)) {
 	case 1:
-		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-	case -1:
-		return EXIT_TROUBLE;
-	}
-	if (!outputs_safe(&a, argc, argv))
-		return EXIT_TROUBLE;
-	out_name = a.output ? a.output : "standard output";
-	switch (record_start(&rec, "assay", argc, argv, a.analyst)) {
-	case 0:
+		rc = fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
 		break;
-	case -2: /* the run's time, said */
-		goto out;
-	default:
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		goto out;
+	case 0:
+		j->out_name = j->a.output ? j->a.output : "standard output";
+		if (outputs_safe(&j->a, argc, argv) &&
+		    set_up(j, argc, argv) == 0 && open_row_outputs(j) == 0 &&
+		    read_titrations(j, argc, argv) == 0 &&
+		    write_report(j) == 0 && commit_outputs(j) == 0)
+			rc = assay_conclude(j);
+		break;
 	}
-	a.aopt.today = rec.today;
-	cat = cli_catalogue();
-	if (cat == NULL)
-		goto out;
-	a.aopt.catalogue = cat;
-	if (a.acid) {
-		a.aopt.default_acid = al_catalogue_find(cat, a.acid);
-		if (a.aopt.default_acid == NULL) {
-			cli_usage_error("assay", "--acid: unknown acid '%s'",
-					a.acid);
-			cli_list_acids(cat);
-			goto out;
-		}
-	}
-	if (a.unit) {
-		if (cli_unit("assay", "--unit", a.unit, &a.aopt.unit) != 0)
-			goto out;
-		a.aopt.has_unit = 1;
-	}
-	if (load_columns(&a, &aliases, &n_aliases) != 0)
-		goto out;
-	a.aopt.aliases = aliases;
-	a.aopt.n_aliases = n_aliases;
-	if (a.columns_file && hash_input(&rec, "column map", a.columns_file, -1))
-		goto out;
-	if (a.spec) {
-		specs = load_spec(&a, cat, &spec_diags);
-		if (specs == NULL ||
-		    hash_input(&rec, "specification", a.spec,
-			       (long)al_spec_count(specs)))
-			goto out;
-		a.aopt.specs = specs;
-	}
-	if (a.titrants) {
-		titrants = load_titrants(a.titrants);
-		if (titrants == NULL ||
-		    hash_input(&rec, "titrant register", a.titrants,
-			       (long)al_register_count(titrants)))
-			goto out;
-		a.aopt.titrants = titrants;
-	}
-	reps.ropt = rejs.ropt = &a.ropt;
-	reps.count = rejs.count = 0;
-	if (a.replicates) {
-		rep_out = open_output(a.replicates, al_replicates_header, &a.ropt);
-		if (rep_out == NULL)
-			goto out;
-		reps.out = al_outfile_stream(rep_out);
-	}
-	if (a.rejects) {
-		rej_out = open_output(a.rejects, al_rejects_header, &a.ropt);
-		if (rej_out == NULL)
-			goto out;
-		rejs.out = al_outfile_stream(rej_out);
-		a.aopt.on_reject = write_reject;
-		a.aopt.reject_ud = &rejs;
-	}
-	/* a malformed record is an invalid row in either mode, and the
-	 * rows after it are still read: every error is said, and the counts
-	 * agree with --rejects' */
-	a.aopt.csv.recover = 1;
-	run = al_assay_new(&a.aopt, &st);
-	if (run == NULL) {
-		cli_error("%s", al_strerror(st));
-		goto out;
-	}
-	for (int i = optind; i < argc; i++) {
-		const char *name = argv[i];
-		int is_stdin = strcmp(name, "-") == 0;
-		FILE *in = is_stdin ? stdin : cli_open_input(name);
-		unsigned long before = al_assay_get_counts(run).rows_read;
-		hashing_reader h;
-		char hex[65];
-
-		if (in == NULL) {
-			cli_error("%s: %s", name, cli_reason(AL_OK));
-			bad = 1;
-			continue;
-		}
-		/* hash the bytes as they are read: the record says what was
-		 * used, even for standard input */
-		hashing_reader_init(&h, in);
-		st = al_assay_read_source(
-			run, hashing_read, &h, is_stdin ? "<stdin>" : name,
-			rep_out ? write_replicate : NULL, &reps);
-		if (!is_stdin)
-			fclose(in);
-		hashing_reader_hex(&h, hex);
-		in_bytes += h.bytes;
-		if (record_input(&rec, "titrations", name, h.bytes,
-				 (long)(al_assay_get_counts(run).rows_read -
-					before),
-				 hex) != 0) {
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			goto out;
-		}
-		if (st == AL_EIO) {
-			cli_error("%s: read or write error", name);
-			bad = 1;
-		} else if (st == AL_ENOMEM) {
-			cli_print_diags(al_assay_diags(run));
-			cli_error("%s", al_strerror(st));
-			goto out;
-		} else if (st != AL_OK)
-			bad = 1;
-	}
-	cli_print_diags(al_assay_diags(run));
-	if (bad || al_assay_diags(run)->errors > 0) {
-		al_assay_counts c = al_assay_get_counts(run);
-		unsigned long e = al_assay_diags(run)->errors;
-
-		if (e == 0) /* an input that could not be read: said above */
-			cli_error("no report written");
-		else if (c.rows_read > 0)
-			cli_error("%lu error%s in the input (%lu of %lu rows); "
-				  "no report written",
-				  e, e == 1 ? "" : "s", c.rows_bad, c.rows_read);
-		else
-			cli_error("%lu error%s in the input; no report written",
-				  e, e == 1 ? "" : "s");
-		goto out;
-	}
-	/* each result is evaluated once, as the report is written */
-	st = al_assay_finish_lazy(run);
-	if (st == AL_EIO && a.replicates) /* the replicates are written here */
-		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
-	else if (st != AL_OK)
-		cli_error("%s", al_strerror(st));
-	if (st != AL_OK)
-		goto out;
-	/* the run's id, in every report row and in the record */
-	if (record_seal(&rec) != 0) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		goto out;
-	}
-	a.ropt.report_id = rec.id;
-	report = open_output(a.output ? a.output : "-", NULL, &a.ropt);
-	if (report == NULL)
-		goto out;
-	if (al_report_write(al_outfile_stream(report), run, &a.ropt) != AL_OK) {
-		cli_error("%s: %s", out_name, cli_reason(AL_OK));
-		goto out;
-	}
-	st = al_assay_settle(run);
-	if (st == AL_EIO && a.replicates)
-		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
-	else if (st != AL_OK)
-		cli_error("%s", al_strerror(st));
-	if (st != AL_OK)
-		goto out;
-	if (a.budget) {
-		budget_out = open_output(a.budget, NULL, &a.ropt);
-		if (budget_out == NULL)
-			goto out;
-		if (al_budget_write(al_outfile_stream(budget_out), run, &a.ropt) !=
-			    AL_OK ||
-		    al_outfile_prepare(budget_out) != AL_OK) {
-			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
-			goto out;
-		}
-	}
-	file_report = a.output && strcmp(a.output, "-") != 0;
-	want_record = a.record || file_report;
-	if (want_record) {
-		/* the outputs' bytes are all written: a thread hashes them
-		 * for the record while their fsyncs run */
-		al_outfile *outs[FILE_HASHES_MAX] = {file_report ? report : NULL,
-						     rep_out, rej_out,
-						     budget_out};
-		const char *roles[FILE_HASHES_MAX] = {"report", "replicates",
-						      "rejects", "budget"};
-		const char *names[FILE_HASHES_MAX] = {a.output, a.replicates,
-						      a.rejects, a.budget};
-
-		for (int i = 0; i < FILE_HASHES_MAX; i++) {
-			if (outs[i] == NULL)
-				continue;
-			/* a device, FIFO or standard output is written once
-			 * and never read back (reading a FIFO would steal its
-			 * bytes): listed unhashed */
-			if (al_outfile_in_place(outs[i])) {
-				in_place_role[n_in_place] = roles[i];
-				in_place_path[n_in_place++] =
-					al_outfile_path(outs[i]);
-				continue;
-			}
-			if (outs[i] != budget_out) /* prepared (closed) above */
-				fflush(al_outfile_stream(outs[i]));
-			out_role[hashes.n] = roles[i];
-			out_path[hashes.n] = names[i];
-			hashes.path[hashes.n++] = al_outfile_written_path(outs[i]);
-		}
-		hashes.large = in_bytes >= (1u << 20);
-		file_hashes_start(&hashes);
-		hashing = 1;
-	}
-	/* named before the outputs appear, so that a failure leaves none */
-	open_results = unjudged(run, specs);
-	if (open_results < 0) {
-		cli_error("%s", cli_reason(AL_ENOMEM));
-		goto out;
-	}
-	/* every output checked before any of them appears */
-	if (al_outfile_prepare(report) != AL_OK) {
-		cli_error("%s: %s", out_name, cli_reason(AL_OK));
-		goto out;
-	}
-	if (rep_out && al_outfile_prepare(rep_out) != AL_OK) {
-		cli_error("%s: %s", a.replicates, cli_reason(AL_OK));
-		goto out;
-	}
-	if (rej_out && al_outfile_prepare(rej_out) != AL_OK) {
-		cli_error("%s: %s", a.rejects, cli_reason(AL_OK));
-		goto out;
-	}
-	if (want_record) {
-		const char *path = a.record;
-		int hash_bad;
-
-		if (!hashing)
-			file_hashes_start(&hashes);
-		hash_bad = file_hashes_finish(&hashes) != 0;
-		hashing = 0;
-		if (path == NULL) {
-			snprintf(record_path, sizeof record_path,
-				 "%s.record.json", a.output);
-			path = record_path;
-		}
-		for (size_t i = 0; !hash_bad && i < hashes.n; i++)
-			hash_bad = record_output_hashed(&rec, out_role[i],
-							out_path[i],
-							hashes.hex[i],
-							hashes.bytes[i]) != 0;
-		for (size_t i = 0; !hash_bad && i < n_in_place; i++)
-			hash_bad = record_output_unhashed(&rec, in_place_role[i],
-							  in_place_path[i]) != 0;
-		if (!hash_bad)
-			rec_out = al_outfile_open(path, &st);
-		if (hash_bad || rec_out == NULL ||
-		    fill_record(&rec, run,
-				a.aopt.qc.decision == AL_DECISION_GUARDED,
-				a.aopt.qc.guard_r, a.aopt.qc.exclude_outliers) != 0 ||
-		    record_write(&rec, al_outfile_stream(rec_out), path) != 0 ||
-		    al_outfile_prepare(rec_out) != AL_OK) {
-			cli_error("%s: cannot write the record of the run: %s",
-				  path, cli_reason(AL_OK));
-			goto out;
-		}
-	}
-	{
-		al_outfile **all[] = {&report, &rep_out, &rej_out, &budget_out,
-				      &rec_out};
-
-		if (cli_commit_all(all, 5) != 0)
-			goto out;
-	}
-	endpoint_warnings(run);
-	{
-		al_assay_counts c = al_assay_get_counts(run);
-
-		summary(run, &a, rejs.count);
-		if (specs == NULL)
-			cli_error("nothing was judged: no --spec was given");
-		/* conditional statements are not a pass (ILAC G8 4.2.2);
-		 * a result no specification judged is not released */
-		rc = c.by_verdict[AL_VERDICT_FAIL] ||
-				     c.by_verdict[AL_VERDICT_RETEST] ||
-				     c.by_verdict[AL_VERDICT_COND_PASS] ||
-				     c.by_verdict[AL_VERDICT_COND_FAIL] ||
-				     (specs && open_results > 0)
-			     ? EXIT_NOT_PASS
-			     : EXIT_ALL_PASS;
-	}
-out:
-	if (hashing) /* an error came first: the thread reads files */
-		(void)file_hashes_finish(&hashes);
-	al_outfile_abort(rep_out);
-	al_outfile_abort(rej_out);
-	al_outfile_abort(report);
-	al_outfile_abort(rec_out);
-	al_outfile_abort(budget_out);
-	al_assay_free(run);
-	al_spec_table_free(specs);
-	al_diags_clear(&spec_diags);
-	free_columns(&a, aliases, n_aliases);
-	al_register_free(titrants);
-	al_catalogue_free(cat);
-	record_free(&rec);
+	job_free(j);
+	al_free(j);
 	return rc;
 }

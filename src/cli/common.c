@@ -7,6 +7,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <stdarg.h>
+#include <math.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <sys/types.h>
@@ -99,6 +100,47 @@ cli_number(const char *cmd, const char *option, const char *text,
 	cli_usage_error(cmd, "%s: '%s' %s", option, text,
 			al_numerr_phrase(err));
 	return -1;
+}
+
+int
+cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
+		 const char *text)
+{
+	const char *at;
+	double v;
+
+	while (n > 0 && t->id != c)
+		t++, n--;
+	if (n == 0)
+		return 0;
+	if (cli_number(cmd, t->name, text, &v))
+		return -1;
+	if ((t->how & CLI_ABOVE ? !(v > t->lo) : !(v >= t->lo)) ||
+	    (t->how & CLI_BELOW ? !(v < t->hi) : !(v <= t->hi)) ||
+	    ((t->how & CLI_WHOLE) && v != floor(v))) {
+		at = strstr(t->message, "%s");
+		if (at == NULL)
+			cli_usage_error(cmd, "%s", t->message);
+		else
+			cli_usage_error(cmd, "%.*s%s%s", (int)(at - t->message),
+					t->message, text, at + 2);
+		return -1;
+	}
+	*t->out = v;
+	if (t->given)
+		*t->given = 1;
+	return 1;
+}
+
+int
+cli_text_option(const cli_text *t, size_t n, int c, const char *text)
+{
+	for (size_t i = 0; i < n; i++)
+		if (t[i].id == c) {
+			*t[i].out = text;
+			return 1;
+		}
+	return 0;
 }
 
 int
