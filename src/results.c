@@ -8,7 +8,6 @@
 
 #include "acidlot/alloc.h"
 #include "evaluate.h"
-#include "lanes.h"
 #include "run.h"
 
 static void evaluate(const al_assay *run, struct al_assay_reader *rd,
@@ -195,17 +194,6 @@ struct spread {
 	int has_sd;
 };
 
-/* From AL_LANES_MIN results on, a second thread does every other chunk
- * of them (lanes.h), into a slot of AL_LANES_CHUNK when the caller must
- * take them in order. */
-struct finish_job {
-	al_assay *run;
-	al_assay_reader *rd; /* the second thread's */
-	al_cochran_acc *acc;
-	int oom;
-	struct spread *slot[2];
-};
-
 static void
 spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	  struct spread *x)
@@ -235,140 +223,33 @@ spread_of(const al_assay *run, struct al_assay_reader *rd, size_t i,
 	x->n = r->stats.n;
 }
 
-/* The in-order part, result by result. */
-static void
-take_spread(struct finish_job *j, size_t i, const struct spread *x)
-{
-	if (!j->oom && x->has_sd &&
-	    al_cochran_acc_add(j->acc, x->product, x->n, x->var, i) != 0)
-		j->oom = 1;
-}
-
-static void
-cochran_own(void *ctx, size_t begin, size_t end)
-{
-	struct finish_job *j = ctx;
-
-	for (size_t i = begin; i < end; i++) {
-		struct spread x;
-
-		spread_of(j->run, &j->run->own, i, &x);
-		take_spread(j, i, &x);
-	}
-}
-
-static void
-cochran_make(void *ctx, size_t begin, size_t end, int s)
-{
-	struct finish_job *j = ctx;
-
-	for (size_t i = begin; i < end; i++)
-		spread_of(j->run, j->rd, i, &j->slot[s][i - begin]);
-}
-
-static void
-cochran_take(void *ctx, size_t begin, size_t end, int s)
-{
-	struct finish_job *j = ctx;
-
-	for (size_t i = begin; i < end; i++)
-		take_spread(j, i, &j->slot[s][i - begin]);
-}
-
-/* Every result evaluated once (evaluate keeps its verdict and flags in
- * the group); nothing to take in order. */
-static void
-judge(const al_assay *run, struct al_assay_reader *rd, size_t begin,
-      size_t end)
-{
-	for (size_t i = begin; i < end; i++)
-		if (!(run->groups.g[i].bits & AL_G_JUDGED))
-			reader_result(rd, i);
-}
-
-static void
-judge_own(void *ctx, size_t begin, size_t end)
-{
-	struct finish_job *j = ctx;
-
-	judge(j->run, &j->run->own, begin, end);
-}
-
-static void
-judge_make(void *ctx, size_t begin, size_t end, int s)
-{
-	struct finish_job *j = ctx;
-
-	(void)s;
-	judge(j->run, j->rd, begin, end);
-}
-
-static void
-judge_take(void *ctx, size_t begin, size_t end, int s)
-{
-	(void)ctx;
-	(void)begin;
-	(void)end;
-	(void)s;
-}
-
-/* Runs own/make/take over the results, in two threads from
- * AL_LANES_MIN results on (with slots of struct spread when slots). */
-static int
-finish_lanes(struct finish_job *j, int slots,
-	     void (*own)(void *, size_t, size_t),
-	     void (*make)(void *, size_t, size_t, int),
-	     void (*take)(void *, size_t, size_t, int))
-{
-	al_assay *run = j->run;
-
-	if (run->groups.n >= AL_LANES_MIN && run->opt.threads != 1) {
-		j->rd = al_assay_reader_new(run);
-		for (int s = 0; slots && s < 2; s++)
-			j->slot[s] = al_malloc(AL_LANES_CHUNK *
-					       sizeof *j->slot[s]);
-		if (j->rd == NULL ||
-		    (slots && (j->slot[0] == NULL || j->slot[1] == NULL)))
-			j->oom = 1;
-	}
-	if (!j->oom && j->rd != NULL) {
-		al_lanes job = {j, run->groups.n, own, make, take};
-
-		al_lanes_run(&job);
-	} else if (!j->oom) {
-		own(j, 0, run->groups.n);
-	}
-	al_free(j->slot[0]);
-	al_free(j->slot[1]);
-	j->slot[0] = j->slot[1] = NULL;
-	al_assay_reader_free(j->rd);
-	j->rd = NULL;
-	return j->oom ? -1 : 0;
-}
-
 /* Cochran's tests, and their flags on the results they single out. */
 static al_status
 finish_cochran(al_assay *run)
 {
-	struct finish_job j;
+	al_cochran_acc *acc = al_cochran_acc_new();
+	int oom = 0;
 
+	if (acc == NULL)
+		return AL_ENOMEM;
 	/* the key index is not needed any more */
 	al_groups_drop_index(&run->groups);
-	memset(&j, 0, sizeof j);
-	j.run = run;
-	j.acc = al_cochran_acc_new();
-	if (j.acc == NULL)
-		return AL_ENOMEM;
 	run->finished = 1;
 	run->own.run = run;
 	run->own.cur_index = 0;
 	memset(run->counts.by_verdict, 0, sizeof run->counts.by_verdict);
 	run->counts.groups = run->groups.n;
-	if (finish_lanes(&j, 1, cochran_own, cochran_make, cochran_take) == 0)
-		run->cochran = al_cochran_acc_finish(j.acc, &run->n_cochran,
-						     &j.oom);
-	al_cochran_acc_free(j.acc);
-	if (j.oom)
+	for (size_t i = 0; !oom && i < run->groups.n; i++) {
+		struct spread x;
+
+		spread_of(run, &run->own, i, &x);
+		oom = x.has_sd &&
+		      al_cochran_acc_add(acc, x.product, x.n, x.var, i) != 0;
+	}
+	if (!oom)
+		run->cochran = al_cochran_acc_finish(acc, &run->n_cochran, &oom);
+	al_cochran_acc_free(acc);
+	if (oom)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < run->n_cochran; i++) {
 		const al_cochran *c = &run->cochran[i];
@@ -419,16 +300,10 @@ al_assay_settle(al_assay *run)
 al_status
 al_assay_finish(al_assay *run)
 {
-	struct finish_job j;
 	al_status st = finish_cochran(run);
 
-	if (st != AL_OK)
-		return st;
-	memset(&j, 0, sizeof j);
-	j.run = run;
-	if (finish_lanes(&j, 0, judge_own, judge_make, judge_take) != 0)
-		return AL_ENOMEM;
-	st = al_assay_settle(run);
+	if (st == AL_OK)
+		st = al_assay_settle(run);
 	if (st != AL_OK)
 		return st;
 	return run->on_row ? al_run_replay(run) : AL_OK;
