@@ -8,52 +8,13 @@
 #include "acidlot/csvread.h"
 
 #include <csv.h>
-#ifdef __SSE2__
-#include <emmintrin.h>
-#endif
 #include <stdint.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "csvreader.h"
 
 #define CHUNK (64 * 1024)
-
-struct reader {
-	const al_csv_options *opt;
-	size_t max_field;
-	char delimiter;
-	const char *name;
-	al_csv_row_fn row_fn;
-	void *ud;
-	al_diags *diags;
-
-	/* the record being assembled */
-	char *buf;
-	size_t buf_len, buf_cap;
-	size_t *offsets, *lens;
-	const char **ptrs;
-	size_t nfields, fields_cap;
-	char *raw; /* its bytes as read */
-	size_t raw_len, raw_cap;
-
-	unsigned long cur_line; /* line on which the next record starts */
-	unsigned long extra;    /* line ends inside quoted fields so far */
-	int last_term;          /* terminator of the previous record */
-	al_status stop;         /* first failure; callbacks do nothing after */
-	char record_error[160]; /* recover mode: the record is malformed */
-
-	/* the quoting of the record being read through libcsv, followed
-	 * beside it (quote_scan), so that a malformed record is skipped
-	 * whole and an unclosed quote's line is known */
-	int quote;                /* Q_* */
-	int quote_cr;             /* the last byte scanned was a CR */
-	unsigned long quote_lines; /* line ends inside the record so far */
-	unsigned long quote_open; /* line of the last quote opened */
-	int skipping;             /* recover mode: past a malformed record's
-				     error, up to its end */
-};
-
-enum { Q_FIELD, Q_PLAIN, Q_QUOTED, Q_QUOTE_SEEN };
 
 /* libcsv's allocator hook has no context, so the cap on its field buffer
  * is per thread, set for the duration of one al_csv_read. */
@@ -68,41 +29,6 @@ capped_realloc(void *ptr, size_t size)
 		return NULL;
 	}
 	return al_realloc(ptr, size);
-}
-
-const char *
-al_trim(const char *s, size_t *len)
-{
-	size_t n = *len;
-
-	while (n > 0 && (*s == ' ' || *s == '\t')) {
-		s++;
-		n--;
-	}
-	while (n > 0 && (s[n - 1] == ' ' || s[n - 1] == '\t'))
-		n--;
-	*len = n;
-	return s;
-}
-
-int
-al_word_eq(const char *s, size_t len, const char *word)
-{
-	size_t i;
-
-	for (i = 0; i < len; i++) {
-		unsigned char a = (unsigned char)s[i], b = (unsigned char)word[i];
-
-		if (b == '\0')
-			return 0;
-		if (a >= 'A' && a <= 'Z')
-			a = (unsigned char)(a - 'A' + 'a');
-		if (b >= 'A' && b <= 'Z')
-			b = (unsigned char)(b - 'A' + 'a');
-		if (a != b)
-			return 0;
-	}
-	return word[len] == '\0';
 }
 
 /* Line ends in data[0..n): each CR, and each LF not right after a CR. */
@@ -121,8 +47,8 @@ count_line_ends(const char *data, size_t n, int *prev_cr)
 	return count;
 }
 
-static void
-fail(struct reader *r, al_status st, unsigned long line, const char *msg)
+void
+al_reader_fail(struct reader *r, al_status st, unsigned long line, const char *msg)
 {
 	if (r->stop != AL_OK)
 		return;
@@ -139,7 +65,7 @@ static void
 bad_record(struct reader *r, unsigned long line, const char *msg)
 {
 	if (!r->opt->recover) {
-		fail(r, AL_ESYNTAX, line, msg);
+		al_reader_fail(r, AL_ESYNTAX, line, msg);
 		return;
 	}
 	if (r->record_error[0] == '\0')
@@ -148,8 +74,8 @@ bad_record(struct reader *r, unsigned long line, const char *msg)
 
 /* Room for need fields (twice the room there was, at least 32); 0 when
  * memory runs out. */
-static int
-grow_fields(struct reader *r, size_t need)
+int
+al_reader_grow_fields(struct reader *r, size_t need)
 {
 	size_t n = r->fields_cap ? 2 * r->fields_cap : 32;
 	size_t *off, *lens;
@@ -176,8 +102,8 @@ grow_fields(struct reader *r, size_t need)
 }
 
 /* Room for need bytes in the record buffer; 0 when memory runs out. */
-static int
-grow_buf(struct reader *r, size_t need)
+int
+al_reader_grow_buf(struct reader *r, size_t need)
 {
 	char *grown = al_reserve(r->buf, &r->buf_cap, need);
 
@@ -221,12 +147,12 @@ on_field(void *data, size_t len, void *ud)
 		bad_record(r, r->cur_line, msg);
 		return;
 	}
-	if (!grow_fields(r, r->nfields + 1)) {
-		fail(r, AL_ENOMEM, 0, NULL);
+	if (!al_reader_grow_fields(r, r->nfields + 1)) {
+		al_reader_fail(r, AL_ENOMEM, 0, NULL);
 		return;
 	}
-	if (!grow_buf(r, r->buf_len + len + 1)) {
-		fail(r, AL_ENOMEM, 0, NULL);
+	if (!al_reader_grow_buf(r, r->buf_len + len + 1)) {
+		al_reader_fail(r, AL_ENOMEM, 0, NULL);
 		return;
 	}
 	if (len > 0)
@@ -343,7 +269,7 @@ keep_raw(struct reader *r, const char *data, size_t n)
 
 		if (r->raw_len + n > AL_CSV_MAX_RECORD) {
 			if (!r->opt->recover)
-				fail(r, AL_ESYNTAX, r->cur_line,
+				al_reader_fail(r, AL_ESYNTAX, r->cur_line,
 				     "record longer than 1 MiB (an unclosed "
 				     "quote?)");
 			else if (r->record_error[0] == '\0')
@@ -357,7 +283,7 @@ keep_raw(struct reader *r, const char *data, size_t n)
 			cap *= 2;
 		grown = al_realloc(r->raw, cap);
 		if (grown == NULL) {
-			fail(r, AL_ENOMEM, 0, NULL);
+			al_reader_fail(r, AL_ENOMEM, 0, NULL);
 			return;
 		}
 		r->raw = grown;
@@ -430,185 +356,7 @@ restart(struct reader *r, struct csv_parser *p, const char *msg,
 	hook_refused = 0;
 	csv_free(p);
 	if (parser_setup(p, r->delimiter) != 0)
-		fail(r, AL_ENOMEM, 0, NULL);
-}
-
-/* Field k of the fast path: b[a..e) trimmed of blanks (unless the
- * caller knows it has none: trim 0) and ended by a NUL; sets *content
- * when something is left. 0 when the field cannot be
- * had here: too many (libcsv's path says why), or no memory (then the
- * reader has failed). */
-static inline __attribute__((always_inline)) int
-fast_field(struct reader *r, char *b, size_t a, size_t e, size_t k,
-	   int trim, int *content)
-{
-	if (k == AL_CSV_MAX_FIELDS)
-		return 0;
-	if (k == r->fields_cap && !grow_fields(r, k + 1)) {
-		fail(r, AL_ENOMEM, 0, NULL);
-		return 0;
-	}
-	while (trim && a < e && (b[a] == ' ' || b[a] == '\t'))
-		a++;
-	while (trim && e > a && (b[e - 1] == ' ' || b[e - 1] == '\t'))
-		e--;
-	/* a field with something left is what makes the line not blank */
-	*content |= e > a;
-	b[e] = '\0';
-	r->ptrs[k] = b + a;
-	r->lens[k] = e - a;
-	return 1;
-}
-
-/* The fast path for the common record: one whole line, at a record
- * boundary, with no quote and no NUL, shorter than the field cap (so no
- * field can pass it) and not blank. libcsv (strict, our blank function)
- * gives such a line's fields as the pieces between delimiters with
- * blanks (space and tab, unless the delimiter) trimmed from both ends;
- * so does this, without the per-byte callbacks. dmask, when not NULL,
- * holds the line's delimiters as bits (bit i of dmask[i / 16] for byte
- * i; scan_line), found with its end; the line is then known to hold no
- * quote or NUL, and a blank only when blanks is set, and ascii says
- * whether its bytes are all ASCII (passed on in the row). Returns 0
- * when the line must go through libcsv. The test suite checks that
- * both paths give the same records (tests/unit/test_csv.c). */
-static int
-fast_record(struct reader *r, const char *line, size_t len, char term,
-	    const uint16_t *dmask, int blanks, int ascii)
-{
-	const char d = r->delimiter;
-	size_t k = 0, a = 0;
-	int content = 0;
-	al_csv_row row;
-	al_status st;
-	char *b;
-
-	if (r->opt->no_fast_path || len == 0 || len >= r->max_field ||
-	    len > AL_CSV_MAX_RECORD)
-		return 0;
-	if (!grow_buf(r, len + 1)) {
-		fail(r, AL_ENOMEM, 0, NULL);
-		return 1;
-	}
-	/* a quote or a NUL leaves the line to libcsv (nothing is done
-	 * until row_fn); else copy it, split it at the delimiter and trim
-	 * each field (memchr and memcpy look at many bytes a step) */
-	if (dmask == NULL && (memchr(line, '"', len) != NULL ||
-			      memchr(line, '\0', len) != NULL))
-		return 0;
-	b = r->buf;
-	memcpy(b, line, len);
-	b[len] = d; /* the end closes the last field */
-	if (dmask != NULL) {
-		/* each delimiter's bit, in turn */
-		for (size_t w = 0; w < (len + 15) / 16; w++)
-			for (unsigned m = dmask[w]; m != 0; m &= m - 1) {
-				size_t i = 16 * w + (size_t)__builtin_ctz(m);
-
-				if (!fast_field(r, b, a, i, k++, blanks,
-						&content))
-					return r->stop != AL_OK;
-				a = i + 1;
-			}
-		if (!fast_field(r, b, a, len, k++, blanks, &content))
-			return r->stop != AL_OK;
-	} else {
-		for (size_t i = 0; i <= len; i++) {
-			a = i;
-			while (b[i] != d)
-				i++;
-			if (!fast_field(r, b, a, i, k++, 1, &content))
-				return r->stop != AL_OK;
-		}
-	}
-	if (!content)
-		return 0;
-	memset(&row, 0, sizeof row);
-	row.nfields = k;
-	row.fields = r->ptrs;
-	row.lens = r->lens;
-	row.line = r->cur_line;
-	row.delimiter = d;
-	row.raw = line;
-	row.raw_len = len;
-	row.trimmed = 1;
-	row.ascii = (unsigned char)ascii;
-	st = r->row_fn(r->ud, &row);
-	if (st != AL_OK && r->stop == AL_OK)
-		r->stop = st;
-	r->cur_line++;
-	r->last_term = (unsigned char)term;
-	return 1;
-}
-
-/* Lines the vector scan looks at whole: up to SCAN_BLOCKS of 16 bytes.
- * The chunk keeps SCAN_PAD zero bytes past its data, so that a block
- * may be loaded past the end of what was read. */
-#define SCAN_BLOCKS 8
-#define SCAN_PAD (16 * SCAN_BLOCKS)
-
-/* The line at s (avail bytes of data, SCAN_PAD more readable): its
- * length to the first CR or LF, its delimiters as bits in dmask, in
- * *blanks whether it holds a space or a tab (a field to trim) and in
- * *ascii whether all its bytes are below 0x80, when it ends within
- * SCAN_PAD bytes and holds no quote and no NUL (1); -1 when it holds a
- * quote or a NUL, which leaves it to libcsv; else 0, to leave it to the
- * byte-by-byte path. 16 bytes a step, by SSE2 compares (every
- * x86-64 has them); elsewhere always 0. */
-static int
-scan_line(const char *s, size_t avail, char d, size_t *len,
-	  uint16_t dmask[SCAN_BLOCKS], int *blanks, int *ascii)
-{
-#ifdef __SSE2__
-	const __m128i lf = _mm_set1_epi8('\n'), cr = _mm_set1_epi8('\r'),
-		      qt = _mm_set1_epi8('"'), nul = _mm_setzero_si128(),
-		      dl = _mm_set1_epi8(d), sp = _mm_set1_epi8(' '),
-		      tab = _mm_set1_epi8('\t');
-	unsigned any_blank = 0, any_high = 0;
-
-	for (size_t w = 0; w < SCAN_BLOCKS && 16 * w < avail; w++) {
-		__m128i v = _mm_loadu_si128(
-			(const __m128i *)(const void *)(s + 16 * w));
-		unsigned end = (unsigned)_mm_movemask_epi8(_mm_or_si128(
-			_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
-		unsigned bad = (unsigned)_mm_movemask_epi8(_mm_or_si128(
-			_mm_cmpeq_epi8(v, qt), _mm_cmpeq_epi8(v, nul)));
-		unsigned before;
-
-		if (avail - 16 * w < 16) {
-			/* past the data: no end there, its zeros no NUL */
-			unsigned valid = (1u << (avail - 16 * w)) - 1;
-
-			end &= valid;
-			bad &= valid;
-		}
-		before = end ? (1u << __builtin_ctz(end)) - 1 : 0xFFFFu;
-		if (bad & before)
-			return -1; /* a quote or a NUL: libcsv's */
-		dmask[w] = (uint16_t)((unsigned)_mm_movemask_epi8(
-					      _mm_cmpeq_epi8(v, dl)) & before);
-		any_blank |= (unsigned)_mm_movemask_epi8(_mm_or_si128(
-				     _mm_cmpeq_epi8(v, sp),
-				     _mm_cmpeq_epi8(v, tab))) & before;
-		/* a byte's top bit: not ASCII */
-		any_high |= (unsigned)_mm_movemask_epi8(v) & before;
-		if (end) {
-			*len = 16 * w + (size_t)__builtin_ctz(end);
-			*blanks = any_blank != 0;
-			*ascii = any_high == 0;
-			return 1;
-		}
-	}
-#else
-	(void)s;
-	(void)avail;
-	(void)d;
-	(void)len;
-	(void)dmask;
-	(void)blanks;
-	(void)ascii;
-#endif
-	return 0;
+		al_reader_fail(r, AL_ENOMEM, 0, NULL);
 }
 
 /* Follows RFC 4180 quoting over s[0..n) from r->quote: a quote opens a
@@ -685,7 +433,7 @@ line_end(const char *data, size_t pos, size_t q, unsigned long *phys_line,
 /* libcsv stopped short of a segment's end: why, as a malformed
  * record's message. In recover mode 1, with the message in
  * r->record_error for the record to be skipped; else (or when memory ran
- * out) 0 after fail(). */
+ * out) 0 after al_reader_fail(). */
 static int
 stopped(struct reader *r, struct csv_parser *p, unsigned long phys_line)
 {
@@ -707,13 +455,13 @@ stopped(struct reader *r, struct csv_parser *p, unsigned long phys_line)
 			 "malformed quoting (a quote inside an unquoted field, "
 			 "or text after a closing quote)");
 	else {
-		fail(r, AL_ENOMEM, 0, NULL);
+		al_reader_fail(r, AL_ENOMEM, 0, NULL);
 		return 0;
 	}
 	if (hook_refused)
 		line = r->cur_line; /* where the record with the field began */
 	if (!r->opt->recover) {
-		fail(r, AL_ESYNTAX, line, msg);
+		al_reader_fail(r, AL_ESYNTAX, line, msg);
 		return 0;
 	}
 	snprintf(r->record_error, sizeof r->record_error, "%s", msg);
@@ -737,10 +485,10 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 			    !r->record_error[0];
 
 		if (start)
-			scan = scan_line(data + pos, n - pos, r->delimiter,
+			scan = al_scan_line(data + pos, n - pos, r->delimiter,
 					 &len, dmask, &blanks, &ascii);
 		if (scan == 1 && len > 0 &&
-		    fast_record(r, data + pos, len, data[pos + len], dmask,
+		    al_reader_plain_line(r, data + pos, len, data[pos + len], dmask,
 				blanks, ascii)) {
 			if (r->stop != AL_OK)
 				break;
@@ -758,7 +506,7 @@ feed(struct reader *r, struct csv_parser *p, const char *data, size_t n,
 		}
 		if (start && scan == 0 && q - pos > 1 &&
 		    (data[q - 1] == '\n' || data[q - 1] == '\r') &&
-		    fast_record(r, data + pos, q - pos - 1, data[q - 1], NULL,
+		    al_reader_plain_line(r, data + pos, q - pos - 1, data[q - 1], NULL,
 				1, 0)) {
 			if (r->stop != AL_OK)
 				break;
@@ -824,7 +572,7 @@ first_chunk(struct reader *r, struct csv_parser *p, al_read_fn read_fn,
 		*n += more;
 	}
 	if (failed) {
-		fail(r, AL_EIO, 0, NULL);
+		al_reader_fail(r, AL_EIO, 0, NULL);
 		return -1;
 	}
 	if (*n >= 3 && memcmp(chunk, "\xEF\xBB\xBF", 3) == 0)
@@ -836,7 +584,7 @@ first_chunk(struct reader *r, struct csv_parser *p, al_read_fn read_fn,
 		int wide = *n >= 4 && (memcmp(chunk + 2, "\0\0", 2) == 0 ||
 				       chunk[0] == 0);
 
-		fail(r, AL_ESYNTAX, 1,
+		al_reader_fail(r, AL_ESYNTAX, 1,
 		     wide ? "the file is UTF-32 text: save or export it as "
 			    "UTF-8 CSV"
 			  : "the file is UTF-16 text: save or export it as "
@@ -870,7 +618,7 @@ first_chunk(struct reader *r, struct csv_parser *p, al_read_fn read_fn,
 					    "has no ',', ';' or tab%s; give "
 					    "--delimiter",
 				 found);
-			fail(r, AL_ESYNTAX, 1, msg);
+			al_reader_fail(r, AL_ESYNTAX, 1, msg);
 			return -1;
 		}
 	}
@@ -919,7 +667,7 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 		size_t skip = 0;
 
 		if (failed) {
-			fail(&r, AL_EIO, 0, NULL);
+			al_reader_fail(&r, AL_EIO, 0, NULL);
 			break;
 		}
 		if (n == 0)
@@ -932,14 +680,14 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 			if (r.cur_line == 2) /* a "sep=" line */
 				phys_line = 2;
 		}
-		memset(chunk + n, 0, SCAN_PAD); /* scan_line reads past n */
+		memset(chunk + n, 0, SCAN_PAD); /* al_scan_line reads past n */
 		if (!feed(&r, &p, chunk + skip, n - skip, &phys_line, &prev_cr))
 			break;
 	}
 	/* a quote still open at the end is an error in either mode: the
 	 * rows after it would be lost in its field */
 	if (r.stop == AL_OK && r.quote == Q_QUOTED)
-		fail(&r, AL_ESYNTAX, r.quote_open,
+		al_reader_fail(&r, AL_ESYNTAX, r.quote_open,
 		     "unterminated quoted field (the quote opened here is never "
 		     "closed)");
 	if (r.stop == AL_OK && r.skipping)
@@ -947,7 +695,7 @@ al_csv_read(const al_csv_options *opt, al_read_fn read_fn, void *read_ctx,
 	else if (r.stop == AL_OK) {
 		if (csv_fini(&p, on_field, on_record, &r) != 0 &&
 		    r.stop == AL_OK)
-			fail(&r, csv_error(&p) == CSV_EPARSE ? AL_ESYNTAX
+			al_reader_fail(&r, csv_error(&p) == CSV_EPARSE ? AL_ESYNTAX
 							     : AL_ENOMEM,
 			     r.quote_open,
 			     "unterminated quoted field (the quote opened here "

@@ -148,3 +148,38 @@ al_text_loose(const char *s)
 	al_free(cps);
 	return out;
 }
+
+const char *
+al_trim(const char *s, size_t *len)
+{
+	size_t n = *len;
+
+	while (n > 0 && (*s == ' ' || *s == '\t')) {
+		s++;
+		n--;
+	}
+	while (n > 0 && (s[n - 1] == ' ' || s[n - 1] == '\t'))
+		n--;
+	*len = n;
+	return s;
+}
+
+int
+al_word_eq(const char *s, size_t len, const char *word)
+{
+	size_t i;
+
+	for (i = 0; i < len; i++) {
+		unsigned char a = (unsigned char)s[i], b = (unsigned char)word[i];
+
+		if (b == '\0')
+			return 0;
+		if (a >= 'A' && a <= 'Z')
+			a = (unsigned char)(a - 'A' + 'a');
+		if (b >= 'A' && b <= 'Z')
+			b = (unsigned char)(b - 'A' + 'a');
+		if (a != b)
+			return 0;
+	}
+	return word[len] == '\0';
+}

@@ -8,6 +8,7 @@
 #include <stdio.h>
 
 #include "acidlot/status.h"
+#include "acidlot/text.h"
 
 
 typedef struct al_csv_options {
@@ -78,12 +79,5 @@ al_status al_csv_read_file(const al_csv_options *opt, FILE *in,
 al_status al_csv_read_mem(const al_csv_options *opt, const char *data,
 			  size_t len, const char *name, al_csv_row_fn row_fn,
 			  void *ud, al_diags *diags);
-
-/* Trims blanks (space, tab) from both ends of s[0..*len): returns the new
- * start and updates *len. */
-const char *al_trim(const char *s, size_t *len);
-
-/* Case-insensitive ASCII comparison of s[0..len) with the C string word. */
-int al_word_eq(const char *s, size_t len, const char *word);
 
 #endif

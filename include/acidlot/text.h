@@ -31,4 +31,11 @@ char *al_text_loose(const char *s);
 /* 1 when s[0..len) holds only ASCII bytes. */
 int al_text_ascii(const char *s, size_t len);
 
+/* Trims blanks (space, tab) from both ends of s[0..*len): returns the new
+ * start and updates *len. */
+const char *al_trim(const char *s, size_t *len);
+
+/* Case-insensitive ASCII comparison of s[0..len) with the C string word. */
+int al_word_eq(const char *s, size_t len, const char *word);
+
 #endif
