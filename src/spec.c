@@ -60,39 +60,224 @@ err(struct spec_reader *r, unsigned long line, const char *col,
 }
 
 static al_status
+spec_header(struct spec_reader *r, const al_csv_row *row)
+{
+	r->header_done = 1;
+	r->header_fields = row->nfields;
+	if (al_header_map(AL_UNKNOWN_ERROR, row, spec_cols, C_COUNT, NULL, 0,
+			  r->col, r->file, r->diags) != AL_OK)
+		r->bad = 1;
+	/* the specification's delimiter is told from its header: a
+	 * comma-delimited one has '.' decimals, whatever the titration
+	 * files use */
+	if (row->delimiter == ',')
+		r->point = '.';
+	if (r->col[C_PRODUCT] < 0) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
+			     "missing required column 'product'");
+		r->bad = 1;
+	}
+	if (r->col[C_MIN] < 0 && r->col[C_MAX] < 0) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
+			     "needs a 'min' or a 'max' column");
+		r->bad = 1;
+	}
+	return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
+}
+
+/* The row's product, in NFC into r->ident: given, not too long, UTF-8
+ * and not specified before. */
+static al_status
+spec_product(struct spec_reader *r, const al_csv_row *row)
+{
+	size_t len;
+	const char *text = al_cell(row, r->col[C_PRODUCT], &len);
+	uint32_t dup;
+
+	if (al_text_identifier(text, len, &r->ident, &r->ident_cap, &len) !=
+		    AL_OK ||
+	    al_strindex_room(&r->table->index, r->table->count) != AL_OK)
+		return AL_ENOMEM;
+	text = r->ident;
+	if (len == 0)
+		err(r, row->line, "product",
+		    "is empty: a product code is required", text, len);
+	else if (len > AL_IDENT_MAX)
+		err(r, row->line, "product", "is longer than 255 bytes", text,
+		    40);
+	else if (!al_utf8_valid(text, len))
+		err(r, row->line, "product",
+		    "is not valid UTF-8 text (save the file as UTF-8)", text,
+		    len);
+	else if ((dup = *al_strindex_slot(&r->table->index, text, len)) != 0) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "product", "'%.*s' already specified at line %lu",
+			     (int)len, text, r->table->specs[dup - 1].line);
+		r->bad = 1;
+	}
+	return AL_OK;
+}
+
+/* The acid and the unit, where given. */
+static void
+spec_acid_unit(struct spec_reader *r, const al_csv_row *row, al_spec *s)
+{
+	size_t len;
+	const char *text = al_cell(row, r->col[C_ACID], &len);
+	char name[128], why[256];
+
+	if (len > 0) {
+		snprintf(name, sizeof name, "%.*s", (int)len, text);
+		s->acid = al_catalogue_find(r->cat, name);
+		if (s->acid == NULL)
+			err(r, row->line, "acid",
+			    "is not in the acid catalogue (see 'acidlot acids')",
+			    text, len);
+	}
+	text = al_cell(row, r->col[C_UNIT], &len);
+	if (len == 0)
+		return;
+	snprintf(name, 64, "%.*s", (int)len, text);
+	if (al_unit_parse(name, &s->unit) == AL_OK) {
+		s->has_unit = 1;
+		return;
+	}
+	snprintf(why, sizeof why, "%s (units: %s)", al_unit_refusal(name),
+		 al_unit_list());
+	err(r, row->line, "unit", why, text, len);
+}
+
+/* A number cell k: 1 set, 0 empty, -1 bad (reported, the row bad). */
+static int
+spec_number(struct spec_reader *r, const al_csv_row *row, int k, double *v)
+{
+	int got = al_cell_number(row, r->col[k], spec_cols[k], r->point,
+				 r->file, r->diags, v);
+
+	if (got < 0)
+		r->bad = 1;
+	return got;
+}
+
+/* A bad value of cell k, named with its text. */
+static void
+spec_bad_cell(struct spec_reader *r, const al_csv_row *row, int k,
+	      const char *msg)
+{
+	size_t len;
+	const char *text = al_cell(row, r->col[k], &len);
+
+	err(r, row->line, spec_cols[k], msg, text, len);
+}
+
+/* The replicates' limits: RSD, n, repeatability, reading resolution. */
+static void
+spec_precision(struct spec_reader *r, const al_csv_row *row, al_spec *s)
+{
+	double v, sr = 0, rl = 0;
+	int got = spec_number(r, row, C_MAX_RSD, &s->max_rsd_pct), got_sr,
+	    got_r;
+
+	s->has_max_rsd = got == 1;
+	if (got == 1 && !(s->max_rsd_pct > 0))
+		spec_bad_cell(r, row, C_MAX_RSD, "must be above 0");
+	got = spec_number(r, row, C_MIN_N, &v);
+	if (got == 1 && (v < 1 || v > 1000 || v != (double)(size_t)v))
+		spec_bad_cell(r, row, C_MIN_N,
+			      "must be a whole number from 1 to 1000");
+	else if (got == 1)
+		s->min_n = (size_t)v;
+	got_sr = spec_number(r, row, C_SR, &sr);
+	got_r = spec_number(r, row, C_R, &rl);
+	if (got_sr < 0 || got_r < 0)
+		;
+	else if (got_sr == 1 && got_r == 1) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, "r",
+			     "give sr or r, not both");
+		r->bad = 1;
+	} else if ((got_sr == 1 && !(sr > 0)) || (got_r == 1 && !(rl > 0))) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     got_sr == 1 ? "sr" : "r", "must be above 0");
+		r->bad = 1;
+	} else if (got_sr == 1 || got_r == 1) {
+		s->has_sr = 1;
+		/* ISO 5725-6 3.7: r = 2.8 sr (1.96 sqrt 2 rounded) */
+		s->sr = got_sr == 1 ? sr : rl / 2.8;
+	}
+	got = spec_number(r, row, C_RESOLUTION, &s->resolution_ml);
+	if (got == 1 && !(s->resolution_ml >= 0 && s->resolution_ml <= 1)) {
+		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+			     "resolution_ml", "must be from 0 to 1 mL");
+		r->bad = 1;
+	} else if (got >= 0)
+		s->has_resolution = got == 1;
+}
+
+/* The juice's limits (Brix, ratio, water: each min at most its max)
+ * and the basis. */
+static void
+spec_juice(struct spec_reader *r, const al_csv_row *row, al_spec *s)
+{
+	static const int cols[6] = {C_BRIX_MIN,	 C_BRIX_MAX,  C_RATIO_MIN,
+				    C_RATIO_MAX, C_WATER_MIN, C_WATER_MAX};
+	int *has[6] = {&s->has_brix_min,  &s->has_brix_max,
+		       &s->has_ratio_min, &s->has_ratio_max,
+		       &s->has_water_min, &s->has_water_max};
+	double *val[6] = {&s->brix_min,	 &s->brix_max,	&s->ratio_min,
+			  &s->ratio_max, &s->water_min, &s->water_max};
+	size_t len;
+	const char *text;
+
+	for (int k = 0; k < 6; k++)
+		*has[k] = spec_number(r, row, cols[k], val[k]) == 1;
+	for (int k = 0; k < 6; k += 2)
+		if (*has[k] && *has[k + 1] && *val[k] > *val[k + 1]) {
+			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
+				     spec_cols[cols[k]], "%g is above %s %g",
+				     *val[k], spec_cols[cols[k + 1]],
+				     *val[k + 1]);
+			r->bad = 1;
+		}
+	text = al_cell(row, r->col[C_BASIS], &len);
+	if (len == 0)
+		return;
+	s->has_basis = 1;
+	if (al_word_eq(text, len, "anhydrous"))
+		s->anhydrous = 1;
+	else if (!al_word_eq(text, len, "as-is") &&
+		 !al_word_eq(text, len, "as is"))
+		err(r, row->line, "basis",
+		    "is not a basis (use as-is or anhydrous)", text, len);
+}
+
+/* A good row's specification, added to the table. */
+static al_status
+spec_add(struct spec_reader *r, al_spec *s)
+{
+	void *grown = al_reserve(r->table->specs, &r->table->alloc,
+				 (r->table->count + 1) * sizeof *s);
+
+	if (grown == NULL)
+		return AL_ENOMEM;
+	r->table->specs = grown;
+	s->product = al_strndup(r->ident, strlen(r->ident));
+	if (s->product == NULL)
+		return AL_ENOMEM;
+	*al_strindex_slot(&r->table->index, s->product, strlen(s->product)) =
+		(uint32_t)(r->table->count + 1);
+	r->table->specs[r->table->count++] = *s;
+	return AL_OK;
+}
+
+static al_status
 spec_row(void *ud, const al_csv_row *row)
 {
 	struct spec_reader *r = ud;
-	al_spec s, *slot;
-	size_t len;
-	const char *text;
-	double v;
+	al_spec s;
 	int got, limit_bad;
-	uint32_t dup;
 
-	if (!r->header_done) {
-		r->header_done = 1;
-		r->header_fields = row->nfields;
-		if (al_header_map(AL_UNKNOWN_ERROR, row, spec_cols, C_COUNT, NULL, 0, r->col, r->file,
-				  r->diags) != AL_OK)
-			r->bad = 1;
-		/* the specification's delimiter is told from its header: a
-		 * comma-delimited one has '.' decimals, whatever the
-		 * titration files use */
-		if (row->delimiter == ',')
-			r->point = '.';
-		if (r->col[C_PRODUCT] < 0) {
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     NULL, "missing required column 'product'");
-			r->bad = 1;
-		}
-		if (r->col[C_MIN] < 0 && r->col[C_MAX] < 0) {
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     NULL, "needs a 'min' or a 'max' column");
-			r->bad = 1;
-		}
-		return r->diags->out_of_memory ? AL_ENOMEM : AL_OK;
-	}
+	if (!r->header_done)
+		return spec_header(r, row);
 	if (r->bad && r->col[C_PRODUCT] < 0)
 		return AL_OK;
 	if (row->nfields != r->header_fields) {
@@ -105,157 +290,17 @@ spec_row(void *ud, const al_csv_row *row)
 	memset(&s, 0, sizeof s);
 	s.line = row->line;
 	s.min_n = 2;
-	text = al_cell(row, r->col[C_PRODUCT], &len);
-	if (al_text_identifier(text, len, &r->ident, &r->ident_cap, &len) !=
-		    AL_OK ||
-	    al_strindex_room(&r->table->index, r->table->count) != AL_OK)
+	if (spec_product(r, row) != AL_OK)
 		return AL_ENOMEM;
-	text = r->ident;
-	if (len == 0)
-		err(r, row->line, "product", "is empty: a product code is required",
-		    text, len);
-	else if (len > AL_IDENT_MAX)
-		err(r, row->line, "product", "is longer than 255 bytes", text, 40);
-	else if (!al_utf8_valid(text, len))
-		err(r, row->line, "product",
-		    "is not valid UTF-8 text (save the file as UTF-8)", text, len);
-	else if ((dup = *al_strindex_slot(&r->table->index, text, len)) != 0) {
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-			     "product", "'%.*s' already specified at line %lu",
-			     (int)len, text, r->table->specs[dup - 1].line);
-		r->bad = 1;
-	}
-	text = al_cell(row, r->col[C_ACID], &len);
-	if (len > 0) {
-		char name[128];
-
-		snprintf(name, sizeof name, "%.*s", (int)len, text);
-		s.acid = al_catalogue_find(r->cat, name);
-		if (s.acid == NULL)
-			err(r, row->line, "acid",
-			    "is not in the acid catalogue (see 'acidlot acids')",
-			    text, len);
-	}
-	text = al_cell(row, r->col[C_UNIT], &len);
-	if (len > 0) {
-		char name[64];
-
-		snprintf(name, sizeof name, "%.*s", (int)len, text);
-		if (al_unit_parse(name, &s.unit) != AL_OK) {
-			char why[256];
-
-			snprintf(why, sizeof why, "%s (units: %s)",
-				 al_unit_refusal(name), al_unit_list());
-			err(r, row->line, "unit", why, text, len);
-		}
-		else
-			s.has_unit = 1;
-	}
-	got = al_cell_number(row, r->col[C_MIN], "min", r->point, r->file,
-			     r->diags, &s.min);
+	spec_acid_unit(r, row, &s);
+	got = spec_number(r, row, C_MIN, &s.min);
 	s.has_min = got == 1;
 	limit_bad = got < 0;
-	got = al_cell_number(row, r->col[C_MAX], "max", r->point, r->file,
-			     r->diags, &s.max);
+	got = spec_number(r, row, C_MAX, &s.max);
 	s.has_max = got == 1;
 	limit_bad |= got < 0;
-	if (limit_bad)
-		r->bad = 1;
-	got = al_cell_number(row, r->col[C_MAX_RSD], "max_rsd_pct", r->point,
-			     r->file, r->diags, &s.max_rsd_pct);
-	if (got < 0)
-		r->bad = 1;
-	else if (got == 1) {
-		s.has_max_rsd = 1;
-		if (!(s.max_rsd_pct > 0)) {
-			text = al_cell(row, r->col[C_MAX_RSD], &len);
-			err(r, row->line, "max_rsd_pct", "must be above 0", text,
-			    len);
-		}
-	}
-	got = al_cell_number(row, r->col[C_MIN_N], "min_n", r->point, r->file,
-			     r->diags, &v);
-	if (got < 0)
-		r->bad = 1;
-	else if (got == 1) {
-		if (v < 1 || v > 1000 || v != (double)(size_t)v) {
-			text = al_cell(row, r->col[C_MIN_N], &len);
-			err(r, row->line, "min_n",
-			    "must be a whole number from 1 to 1000", text, len);
-		} else
-			s.min_n = (size_t)v;
-	}
-	{
-		double sr = 0, rl = 0;
-		int got_sr = al_cell_number(row, r->col[C_SR], "sr", r->point,
-					    r->file, r->diags, &sr);
-		int got_r = al_cell_number(row, r->col[C_R], "r", r->point,
-					   r->file, r->diags, &rl);
-
-		if (got_sr < 0 || got_r < 0)
-			r->bad = 1;
-		else if (got_sr == 1 && got_r == 1) {
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     "r", "give sr or r, not both");
-			r->bad = 1;
-		} else if ((got_sr == 1 && !(sr > 0)) || (got_r == 1 && !(rl > 0))) {
-			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-				     got_sr == 1 ? "sr" : "r", "must be above 0");
-			r->bad = 1;
-		} else if (got_sr == 1 || got_r == 1) {
-			s.has_sr = 1;
-			/* ISO 5725-6 3.7: r = 2.8 sr (1.96 sqrt 2 rounded) */
-			s.sr = got_sr == 1 ? sr : rl / 2.8;
-		}
-	}
-	got = al_cell_number(row, r->col[C_RESOLUTION], "resolution_ml",
-			     r->point, r->file, r->diags, &s.resolution_ml);
-	if (got < 0)
-		r->bad = 1;
-	else if (got == 1 && !(s.resolution_ml >= 0 && s.resolution_ml <= 1)) {
-		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
-			     "resolution_ml", "must be from 0 to 1 mL");
-		r->bad = 1;
-	} else
-		s.has_resolution = got == 1;
-	{
-		static const int cols[6] = {C_BRIX_MIN,	 C_BRIX_MAX,  C_RATIO_MIN,
-					    C_RATIO_MAX, C_WATER_MIN, C_WATER_MAX};
-		int *has[6] = {&s.has_brix_min,	 &s.has_brix_max,
-			       &s.has_ratio_min, &s.has_ratio_max,
-			       &s.has_water_min, &s.has_water_max};
-		double *val[6] = {&s.brix_min,	&s.brix_max,  &s.ratio_min,
-				  &s.ratio_max, &s.water_min, &s.water_max};
-
-		for (int k = 0; k < 6; k++) {
-			int g = al_cell_number(row, r->col[cols[k]],
-					       spec_cols[cols[k]], r->point,
-					       r->file, r->diags, val[k]);
-
-			if (g < 0)
-				r->bad = 1;
-			*has[k] = g == 1;
-		}
-		for (int k = 0; k < 6; k += 2)
-			if (*has[k] && *has[k + 1] && *val[k] > *val[k + 1]) {
-				al_diags_add(r->diags, AL_SEV_ERROR, r->file,
-					     row->line, spec_cols[cols[k]],
-					     "%g is above %s %g", *val[k],
-					     spec_cols[cols[k + 1]], *val[k + 1]);
-				r->bad = 1;
-			}
-		text = al_cell(row, r->col[C_BASIS], &len);
-		if (len > 0) {
-			s.has_basis = 1;
-			if (al_word_eq(text, len, "anhydrous"))
-				s.anhydrous = 1;
-			else if (!al_word_eq(text, len, "as-is") &&
-				 !al_word_eq(text, len, "as is"))
-				err(r, row->line, "basis",
-				    "is not a basis (use as-is or anhydrous)", text,
-				    len);
-		}
-	}
+	spec_precision(r, row, &s);
+	spec_juice(r, row, &s);
 	if (!s.has_min && !s.has_max && !limit_bad) {
 		al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line, NULL,
 			     "needs a min or a max (or both)");
@@ -270,24 +315,7 @@ spec_row(void *ud, const al_csv_row *row)
 		return AL_ENOMEM;
 	if (r->bad)
 		return AL_OK; /* keep reading to list every problem */
-	if (r->table->count == r->table->alloc) {
-		size_t n = r->table->alloc ? 2 * r->table->alloc : 16;
-		al_spec *grown = al_realloc(r->table->specs, n * sizeof *grown);
-
-		if (grown == NULL)
-			return AL_ENOMEM;
-		r->table->specs = grown;
-		r->table->alloc = n;
-	}
-	s.product = al_strndup(r->ident, strlen(r->ident));
-	if (s.product == NULL)
-		return AL_ENOMEM;
-	*al_strindex_slot(&r->table->index, s.product,
-			  strlen(s.product)) =
-		(uint32_t)(r->table->count + 1);
-	slot = &r->table->specs[r->table->count++];
-	*slot = s;
-	return AL_OK;
+	return spec_add(r, &s);
 }
 
 al_spec_table *
