@@ -228,7 +228,6 @@ assay_write_record(struct job *j)
 	const struct args *a = &j->a;
 	char record_path[4096];
 	const char *path = a->record;
-	al_status st;
 	int bad = file_hashes_finish(&j->hashes) != 0;
 
 	j->hashing = 0;
@@ -244,15 +243,12 @@ assay_write_record(struct job *j)
 	for (size_t i = 0; !bad && i < j->n_in_place; i++)
 		bad = record_output_unhashed(&j->rec, j->in_place_role[i],
 					     j->in_place_path[i]) != 0;
-	if (!bad)
-		j->rec_out = al_outfile_open(path, &st);
-	if (bad || j->rec_out == NULL ||
+	if (bad ||
 	    assay_record_fill(&j->rec, j->run,
 			      a->aopt.qc.decision == AL_DECISION_GUARDED,
 			      a->aopt.qc.guard_r,
 			      a->aopt.qc.exclude_outliers) != 0 ||
-	    record_write(&j->rec, al_outfile_stream(j->rec_out), path) != 0 ||
-	    al_outfile_prepare(j->rec_out) != AL_OK) {
+	    record_write(&j->rec, path, &j->rec_out) != 0) {
 		cli_error("%s: cannot write the record of the run: %s", path,
 			  cli_reason(AL_OK));
 		return -1;

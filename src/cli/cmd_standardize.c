@@ -83,144 +83,105 @@ static const struct option options[] = {
 struct args {
 	const char *reg, *budget, *record, *analyst;
 	al_std_params p;
+	double min_n, valid_days; /* as given, then into p */
+	int has_min_n, has_valid_days;
 	al_csv_options csv;
 };
 
-/* A positive option value, or -1 after a usage error. */
+/* The options with a number, their ranges and where they go. */
 static int
-positive(const char *option, double *v, int allow_zero)
+number_option(struct args *a, int c)
 {
-	if (cli_number("standardize", option, optarg, v))
-		return -1;
-	if (allow_zero ? !(*v >= 0) : !(*v > 0)) {
-		cli_usage_error("standardize", "%s must be %s", option,
-				allow_zero ? "0 or more" : "above 0");
-		return -1;
-	}
-	return 0;
+	al_std_params *p = &a->p;
+	const cli_range t[] = {
+		{OPT_MAX_RSD, "--max-rsd", 0, HUGE_VAL, CLI_ABOVE,
+		 "--max-rsd must be above 0", &p->max_rsd_pct, NULL},
+		{OPT_MIN_N, "--min-n", 0, 1000, CLI_ABOVE | CLI_WHOLE,
+		 "--min-n takes a whole number from 1 to 1000", &a->min_n,
+		 &a->has_min_n},
+		{OPT_REPEATABILITY, "--repeatability-rsd", 0, 10, CLI_ABOVE,
+		 "--repeatability-rsd takes a percentage above 0 and up to 10",
+		 &p->repeatability_rsd_pct, NULL},
+		{OPT_VALID_DAYS, "--valid-days", 0, 3650, CLI_ABOVE | CLI_WHOLE,
+		 "--valid-days takes a whole number from 1 to 3650",
+		 &a->valid_days, &a->has_valid_days},
+		{OPT_BALANCE, "--balance-linearity-g", 0, HUGE_VAL, 0,
+		 "--balance-linearity-g must be 0 or more",
+		 &p->balance_linearity_g, NULL},
+		{OPT_BURETTE, "--burette-tol-ml", 0, HUGE_VAL, 0,
+		 "--burette-tol-ml must be 0 or more", &p->burette_tol_ml, NULL},
+		{OPT_TEMP, "--temp-range-c", 0, HUGE_VAL, 0,
+		 "--temp-range-c must be 0 or more", &p->temp_range_c, NULL},
+		{OPT_K, "--k", 0, HUGE_VAL, CLI_ABOVE, "--k must be above 0",
+		 &p->k, NULL},
+	};
+
+	return cli_range_option("standardize", t, sizeof t / sizeof t[0], c,
+				optarg);
 }
 
-/* One of the options with a number: checked and stored; 0, or -1
- * after a usage error. */
+/* The options with a text, or no value: 1 when c is one (-1 after a
+ * usage error), else 0. */
 static int
-number_option(int c, struct args *a)
+other_option(struct args *a, int c)
 {
-	double v;
+	const cli_text t[] = {
+		{'o', &a->reg},
+		{OPT_BUDGET, &a->budget},
+		{OPT_RECORD, &a->record},
+		{OPT_ANALYST, &a->analyst},
+	};
 
-	switch (c) {
-	case OPT_MAX_RSD:
-		if (positive("--max-rsd", &a->p.max_rsd_pct, 0))
-			return -1;
-		break;
-	case OPT_MIN_N:
-		if (positive("--min-n", &v, 0))
-			return -1;
-		if (v != floor(v) || v > 1000)
-			return cli_usage_error("standardize",
-					       "--min-n takes a whole "
-					       "number up to 1000"),
-			       -1;
-		a->p.min_n = (size_t)v;
-		break;
-	case OPT_REPEATABILITY:
-		if (positive("--repeatability-rsd", &v, 0))
-			return -1;
-		if (v > 10)
-			return cli_usage_error("standardize",
-					       "--repeatability-rsd takes "
-					       "a percentage up to 10"),
-			       -1;
-		a->p.repeatability_rsd_pct = v;
-		break;
-	case OPT_VALID_DAYS:
-		if (positive("--valid-days", &v, 0))
-			return -1;
-		if (v != floor(v) || v > 3650)
-			return cli_usage_error("standardize",
-					       "--valid-days takes a "
-					       "whole number up to 3650"),
-			       -1;
-		a->p.valid_days = (long)v;
-		break;
-	case OPT_BALANCE:
-		if (positive("--balance-linearity-g",
-			     &a->p.balance_linearity_g, 1))
-			return -1;
-		break;
-	case OPT_BURETTE:
-		if (positive("--burette-tol-ml", &a->p.burette_tol_ml, 1))
-			return -1;
-		break;
-	case OPT_TEMP:
-		if (positive("--temp-range-c", &a->p.temp_range_c, 1))
-			return -1;
-		break;
-	case OPT_K:
-		if (positive("--k", &a->p.k, 0))
-			return -1;
-		break;
+	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
+		return 1;
+	if (c == OPT_DECIMAL_COMMA) {
+		a->csv.decimal_point = ',';
+		return 1;
 	}
-	return 0;
+	if (c != OPT_DELIMITER)
+		return 0;
+	if (cli_delimiter(optarg, &a->csv.delimiter))
+		return cli_usage_error("standardize",
+				       "--delimiter: '%s' is not ',', ';', "
+				       "tab or auto",
+				       optarg),
+		       -1;
+	return 1;
 }
 
+/* 0 to go on, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
-	int c;
+	int c, got;
 
 	optind = 1;
 	opterr = 0;
 	while ((c = getopt_long(argc, argv, ":o:h", options, NULL)) != -1) {
-		switch (c) {
-		case 'o':
-			a->reg = optarg;
-			break;
-		case OPT_BUDGET:
-			a->budget = optarg;
-			break;
-		case OPT_RECORD:
-			a->record = optarg;
-			break;
-		case OPT_ANALYST:
-			a->analyst = optarg;
-			break;
-		case OPT_MAX_RSD:
-		case OPT_MIN_N:
-		case OPT_REPEATABILITY:
-		case OPT_VALID_DAYS:
-		case OPT_BALANCE:
-		case OPT_BURETTE:
-		case OPT_TEMP:
-		case OPT_K:
-			if (number_option(c, a))
-				return -1;
-			break;
-		case OPT_DELIMITER:
-			if (cli_delimiter(optarg, &a->csv.delimiter))
-				return cli_usage_error("standardize",
-						       "--delimiter: '%s' is not "
-						       "',', ';', tab or auto",
-						       optarg),
-				       -1;
-			break;
-		case OPT_DECIMAL_COMMA:
-			a->csv.decimal_point = ',';
-			break;
-		case 'h':
+		if (c == 'h') {
 			usage(stdout);
 			return 1;
-		case ':':
+		}
+		if (c == ':')
 			return cli_usage_error("standardize",
 					       "option '%s' needs a value",
 					       cli_bad_option(argv)),
 			       -1;
-		default:
+		got = number_option(a, c);
+		if (got == 0)
+			got = other_option(a, c);
+		if (got < 0)
+			return -1;
+		if (got == 0)
 			return cli_usage_error("standardize",
 					       "unknown option '%s'",
 					       cli_bad_option(argv)),
 			       -1;
-		}
 	}
+	if (a->has_min_n)
+		a->p.min_n = (size_t)a->min_n;
+	if (a->has_valid_days)
+		a->p.valid_days = (long)a->valid_days;
 	if (optind >= argc)
 		return cli_usage_error("standardize",
 				       "no standardisation file given"),
@@ -410,86 +371,97 @@ read_inputs(al_std_run *run, run_record *rec, int argc, char **argv,
 	return bad;
 }
 
-int
-cmd_standardize(int argc, char **argv)
-{
+/* One standardisation of the command: what it reads, makes and writes,
+ * in the order cmd_standardize goes through them. */
+struct job {
 	struct args a;
-	al_catalogue *cat = NULL;
-	al_std_run *run = NULL;
-	al_register *reg = NULL;
-	al_outfile *reg_out = NULL, *budget_out = NULL, *rec_out = NULL;
 	run_record rec;
-	char record_path[4096];
-	al_status st;
-	int rc = EXIT_TROUBLE, existed = 0, any_rejected = 0, bad = 0;
+	al_catalogue *cat;
+	al_std_run *run;
+	al_register *reg;
+	al_outfile *reg_out, *budget_out, *rec_out;
+	int any_rejected;
+};
 
-	memset(&a, 0, sizeof a);
-	memset(&rec, 0, sizeof rec);
-	al_std_params_default(&a.p);
-	switch (parse_args(argc, argv, &a)) {
-	case 1:
-		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-	case -1:
-		return EXIT_TROUBLE;
-	}
-	if (!outputs_safe(&a, argc, argv))
-		return EXIT_TROUBLE;
-	switch (record_start(&rec, "standardize", argc, argv, a.analyst)) {
+/* The record begun, the files read and their lots computed. */
+static int
+read_lots(struct job *j, int argc, char **argv)
+{
+	al_diags *d;
+	al_status st;
+	int bad;
+
+	switch (record_start(&j->rec, "standardize", argc, argv, j->a.analyst)) {
 	case 0:
 		break;
 	case -2: /* the run's time, said */
-		goto out;
+		return -1;
 	default:
 		cli_error("%s", al_strerror(AL_ENOMEM));
-		goto out;
+		return -1;
 	}
-	cat = cli_catalogue();
-	if (cat == NULL)
-		goto out;
-	run = al_std_new(cat, &a.p, rec.today, &st);
-	if (run == NULL) {
+	if ((j->cat = cli_catalogue()) == NULL)
+		return -1;
+	j->run = al_std_new(j->cat, &j->a.p, j->rec.today, &st);
+	if (j->run == NULL) {
 		cli_error("%s", al_strerror(st));
-		goto out;
+		return -1;
 	}
-	switch (read_inputs(run, &rec, argc, argv, &a.csv)) {
-	case -1: /* out of memory, said */
-		goto out;
-	case 1:
-		bad = 1;
-	}
-	cli_print_diags(al_std_diags(run));
-	if (bad || al_std_diags(run)->errors > 0) {
+	bad = read_inputs(j->run, &j->rec, argc, argv, &j->a.csv);
+	if (bad < 0) /* out of memory, said */
+		return -1;
+	d = al_std_diags(j->run);
+	cli_print_diags(d);
+	if (bad || d->errors > 0) {
 		cli_error("%lu error%s in the input; register not changed",
-			  al_std_diags(run)->errors,
-			  al_std_diags(run)->errors == 1 ? "" : "s");
-		goto out;
+			  d->errors, d->errors == 1 ? "" : "s");
+		return -1;
 	}
-	if (al_std_finish(run) != AL_OK) {
+	if (al_std_finish(j->run) != AL_OK) {
 		cli_error("%s", al_strerror(AL_ENOMEM));
-		goto out;
+		return -1;
 	}
-	if (a.reg) {
-		char hex[65];
-		unsigned long long bytes;
+	return 0;
+}
 
-		reg = load_register(a.reg, &st, &existed);
-		if (reg == NULL)
-			goto out;
-		if (existed && (sha256_file(a.reg, hex, &bytes) != 0 ||
-				record_input(&rec, "previous register", a.reg,
-					     bytes, -1, hex) != 0)) {
-			cli_error("%s: cannot hash it", a.reg);
-			goto out;
-		}
-	} else if ((reg = al_register_new(&st)) == NULL) {
-		cli_error("%s", al_strerror(st));
-		goto out;
+/* The register the lots go into: the one named by -o as it is (hashed
+ * into the record), or a new one. */
+static int
+open_register(struct job *j)
+{
+	const char *path = j->a.reg;
+	char hex[65];
+	unsigned long long bytes;
+	al_status st;
+	int existed;
+
+	if (path == NULL) {
+		j->reg = al_register_new(&st);
+		if (j->reg == NULL)
+			cli_error("%s", al_strerror(st));
+		return j->reg ? 0 : -1;
 	}
+	j->reg = load_register(path, &st, &existed);
+	if (j->reg == NULL)
+		return -1;
+	if (existed && (sha256_file(path, hex, &bytes) != 0 ||
+			record_input(&j->rec, "previous register", path, bytes,
+				     -1, hex) != 0)) {
+		cli_error("%s: cannot hash it", path);
+		return -1;
+	}
+	return 0;
+}
+
+/* Each lot into the register, and its line on standard output. */
+static int
+put_lots(struct job *j)
+{
 	fputs("titrant_lot,standard,n,concentration_mol_l,sd_mol_l,rsd_pct,"
 	      "u_mol_l,U_mol_l,k,standardised_on,valid_until,status,reason\n",
 	      stdout);
-	for (size_t i = 0; i < al_std_lot_count(run); i++) {
-		const al_std_lot *l = al_std_lot_at(run, i);
+	for (size_t i = 0; i < al_std_lot_count(j->run); i++) {
+		const al_std_lot *l = al_std_lot_at(j->run, i);
 		al_titrant t;
 
 		memset(&t, 0, sizeof t);
@@ -501,119 +473,151 @@ cmd_standardize(int argc, char **argv)
 		t.has_rsd = l->has_sd;
 		t.rsd_pct = l->rsd_pct;
 		t.standardised_on = l->date;
-		t.valid_until = al_date_add_days(l->date, a.p.valid_days);
+		t.valid_until = al_date_add_days(l->date, j->a.p.valid_days);
 		t.valid = l->valid;
 		if (!l->valid)
-			any_rejected = 1;
-		if (al_register_put(reg, &t) != AL_OK) {
+			j->any_rejected = 1;
+		if (al_register_put(j->reg, &t) != AL_OK) {
 			cli_error("%s", al_strerror(AL_ENOMEM));
-			goto out;
+			return -1;
 		}
-		summary_line(stdout, l, &t, a.p.k);
+		summary_line(stdout, l, &t, j->a.p.k);
 	}
-	if (a.budget) {
-		budget_out = al_outfile_open(a.budget, &st);
-		if (budget_out == NULL) {
-			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
-			goto out;
-		}
+	return 0;
+}
+
+/* The budget and the register written, not yet in place. */
+static int
+write_outputs(struct job *j)
+{
+	const struct args *a = &j->a;
+	al_status st;
+
+	if (a->budget) {
+		j->budget_out = al_outfile_open(a->budget, &st);
+		if (j->budget_out == NULL)
+			return cli_error("%s: %s", a->budget, cli_reason(AL_OK)),
+			       -1;
 		fputs("titrant_lot,component,value,unit,standard_uncertainty,"
 		      "sensitivity,contribution_mol_l,share_pct\n",
-		      al_outfile_stream(budget_out));
-		for (size_t i = 0; i < al_std_lot_count(run); i++)
-			budget_lines(al_outfile_stream(budget_out),
-				     al_std_lot_at(run, i));
-		if (al_outfile_prepare(budget_out) != AL_OK) {
-			cli_error("%s: %s", a.budget, cli_reason(AL_OK));
-			goto out;
-		}
+		      al_outfile_stream(j->budget_out));
+		for (size_t i = 0; i < al_std_lot_count(j->run); i++)
+			budget_lines(al_outfile_stream(j->budget_out),
+				     al_std_lot_at(j->run, i));
+		if (al_outfile_prepare(j->budget_out) != AL_OK)
+			return cli_error("%s: %s", a->budget, cli_reason(AL_OK)),
+			       -1;
 	}
-	if (a.reg) {
-		reg_out = al_outfile_open(a.reg, &st);
-		if (reg_out == NULL) {
-			cli_error("%s: %s", a.reg, cli_reason(AL_OK));
-			goto out;
-		}
-		if (al_register_write(al_outfile_stream(reg_out), reg) != AL_OK ||
-		    al_outfile_prepare(reg_out) != AL_OK) {
-			cli_error("%s: %s", a.reg, cli_reason(AL_OK));
-			goto out;
-		}
+	if (a->reg) {
+		j->reg_out = al_outfile_open(a->reg, &st);
+		if (j->reg_out == NULL ||
+		    al_register_write(al_outfile_stream(j->reg_out), j->reg) !=
+			    AL_OK ||
+		    al_outfile_prepare(j->reg_out) != AL_OK)
+			return cli_error("%s: %s", a->reg, cli_reason(AL_OK)), -1;
 	}
-	if (fflush(stdout) != 0 || ferror(stdout)) {
-		cli_error("standard output: %s", cli_reason(AL_OK));
-		goto out;
-	}
-	if (a.record || a.reg) {
-		json_t *lots = json_array(), *params;
-		const char *path = a.record;
+	if (fflush(stdout) != 0 || ferror(stdout))
+		return cli_error("standard output: %s", cli_reason(AL_OK)), -1;
+	return 0;
+}
 
-		if (path == NULL) {
-			snprintf(record_path, sizeof record_path,
-				 "%s.record.json", a.reg);
-			path = record_path;
-		}
-		params = json_pack("{s:f, s:f, s:f, s:f, s:f, s:f, s:I, s:I, "
-				   "s:f}",
-				   "balance_linearity_g", a.p.balance_linearity_g,
-				   "burette_tol_ml", a.p.burette_tol_ml,
-				   "temp_range_c", a.p.temp_range_c,
-				   "expansion_per_k", a.p.expansion_per_k, "k",
-				   a.p.k, "max_rsd_pct", a.p.max_rsd_pct, "min_n",
-				   (json_int_t)a.p.min_n, "valid_days",
-				   (json_int_t)a.p.valid_days,
-				   "repeatability_rsd_pct",
-				   a.p.repeatability_rsd_pct);
-		for (size_t i = 0; lots && i < al_std_lot_count(run); i++) {
-			const al_std_lot *l = al_std_lot_at(run, i);
+/* The uncertainty model and the lots, into the record; 0, or -1 when
+ * memory runs out. */
+static int
+fill_record(struct job *j)
+{
+	const al_std_params *p = &j->a.p;
+	json_t *lots = json_array(), *params;
+	int bad;
 
-			if (json_array_append_new(
-				    lots,
-				    json_pack("{s:o, s:s, s:f, s:f, s:f, s:I, s:b}",
-					      "titrant_lot", record_text(l->lot),
-					      "standard",
-					      l->standard->name,
-					      "concentration_mol_l", l->mean,
-					      "u_mol_l", l->budget.u, "U_mol_l",
-					      l->U, "n", (json_int_t)l->n,
-					      "accepted", l->valid)) != 0) {
-				json_decref(lots);
-				lots = NULL;
-			}
-		}
-		/* the _new calls take lots and params even when they fail */
-		bad = json_object_set_new(rec.root, "titrant_lots", lots) != 0;
-		bad |= json_object_set_new(rec.root, "uncertainty_model",
-					   params) != 0;
-		rec_out = al_outfile_open(path, &st);
-		if (bad || rec_out == NULL ||
-		    listed(&rec, "budget", a.budget, budget_out) ||
-		    listed(&rec, "register", a.reg, reg_out) ||
-		    record_seal(&rec) != 0 ||
-		    record_write(&rec, al_outfile_stream(rec_out), path) != 0 ||
-		    al_outfile_prepare(rec_out) != AL_OK) {
-			cli_error("%s: cannot write the record: %s", path,
-				  cli_reason(AL_OK));
-			goto out;
+	params = json_pack("{s:f, s:f, s:f, s:f, s:f, s:f, s:I, s:I, s:f}",
+			   "balance_linearity_g", p->balance_linearity_g,
+			   "burette_tol_ml", p->burette_tol_ml, "temp_range_c",
+			   p->temp_range_c, "expansion_per_k",
+			   p->expansion_per_k, "k", p->k, "max_rsd_pct",
+			   p->max_rsd_pct, "min_n", (json_int_t)p->min_n,
+			   "valid_days", (json_int_t)p->valid_days,
+			   "repeatability_rsd_pct", p->repeatability_rsd_pct);
+	for (size_t i = 0; lots && i < al_std_lot_count(j->run); i++) {
+		const al_std_lot *l = al_std_lot_at(j->run, i);
+
+		if (json_array_append_new(
+			    lots,
+			    json_pack("{s:o, s:s, s:f, s:f, s:f, s:I, s:b}",
+				      "titrant_lot", record_text(l->lot),
+				      "standard", l->standard->name,
+				      "concentration_mol_l", l->mean,
+				      "u_mol_l", l->budget.u, "U_mol_l", l->U,
+				      "n", (json_int_t)l->n, "accepted",
+				      l->valid)) != 0) {
+			json_decref(lots);
+			lots = NULL;
 		}
 	}
-	{
-		al_outfile **all[] = {&budget_out, &reg_out, &rec_out};
+	/* the _new calls take lots and params even when they fail */
+	bad = json_object_set_new(j->rec.root, "titrant_lots", lots) != 0;
+	bad |= json_object_set_new(j->rec.root, "uncertainty_model", params) !=
+	       0;
+	return bad ? -1 : 0;
+}
 
-		if (cli_commit_all(all, 3) != 0)
-			goto out;
+/* The record, beside the register (or where --record says). */
+static int
+write_record(struct job *j)
+{
+	const struct args *a = &j->a;
+	char record_path[4096];
+	const char *path = a->record;
+
+	if (a->record == NULL && a->reg == NULL)
+		return 0;
+	if (path == NULL) {
+		snprintf(record_path, sizeof record_path, "%s.record.json",
+			 a->reg);
+		path = record_path;
 	}
-	rc = any_rejected ? EXIT_NOT_PASS : EXIT_ALL_PASS;
-	fprintf(stderr, PROG ": %zu titrant lot%s standardised%s\n",
-		al_std_lot_count(run), al_std_lot_count(run) == 1 ? "" : "s",
-		any_rejected ? "; some not accepted (see status)" : "");
-out:
-	al_outfile_abort(reg_out);
-	al_outfile_abort(budget_out);
-	al_outfile_abort(rec_out);
-	al_register_free(reg);
-	al_std_free(run);
-	al_catalogue_free(cat);
-	record_free(&rec);
+	if (fill_record(j) != 0 ||
+	    listed(&j->rec, "budget", a->budget, j->budget_out) ||
+	    listed(&j->rec, "register", a->reg, j->reg_out) ||
+	    record_seal(&j->rec) != 0 ||
+	    record_write(&j->rec, path, &j->rec_out) != 0) {
+		cli_error("%s: cannot write the record: %s", path,
+			  cli_reason(AL_OK));
+		return -1;
+	}
+	return 0;
+}
+
+int
+cmd_standardize(int argc, char **argv)
+{
+	struct job j;
+	al_outfile **all[] = {&j.budget_out, &j.reg_out, &j.rec_out};
+	int rc = EXIT_TROUBLE, n;
+
+	memset(&j, 0, sizeof j);
+	al_std_params_default(&j.a.p);
+	switch (parse_args(argc, argv, &j.a)) {
+	case 1:
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	case -1:
+		return EXIT_TROUBLE;
+	}
+	if (outputs_safe(&j.a, argc, argv) && read_lots(&j, argc, argv) == 0 &&
+	    open_register(&j) == 0 && put_lots(&j) == 0 &&
+	    write_outputs(&j) == 0 && write_record(&j) == 0 &&
+	    cli_commit_all(all, 3) == 0) {
+		n = (int)al_std_lot_count(j.run);
+		rc = j.any_rejected ? EXIT_NOT_PASS : EXIT_ALL_PASS;
+		fprintf(stderr, PROG ": %d titrant lot%s standardised%s\n", n,
+			n == 1 ? "" : "s",
+			j.any_rejected ? "; some not accepted (see status)" : "");
+	}
+	for (size_t i = 0; i < 3; i++)
+		al_outfile_abort(*all[i]);
+	al_register_free(j.reg);
+	al_std_free(j.run);
+	al_catalogue_free(j.cat);
+	record_free(&j.rec);
 	return rc;
 }

@@ -444,20 +444,26 @@ locate(json_t *list, const char *record_dir)
 }
 
 int
-record_write(run_record *r, FILE *out, const char *path)
+record_write(run_record *r, const char *path, al_outfile **file)
 {
 	char abs[PATH_MAX + NAME_MAX + 2];
+	al_status st;
+	FILE *out;
 
-	if (path && cli_absolute(path, abs, sizeof abs) == 0) {
+	if (cli_absolute(path, abs, sizeof abs) == 0) {
 		*strrchr(abs, '/') = '\0';
 		locate(r->inputs, abs[0] ? abs : "/");
 		locate(r->outputs, abs[0] ? abs : "/");
 	}
+	*file = al_outfile_open(path, &st);
+	if (*file == NULL)
+		return -1;
+	out = al_outfile_stream(*file);
 	if (json_dump_callback(r->root, dump_to, out,
 			       JSON_INDENT(2) | JSON_SORT_KEYS) != 0 ||
-	    fputc('\n', out) == EOF)
+	    fputc('\n', out) == EOF || ferror(out))
 		return -1;
-	return ferror(out) ? -1 : 0;
+	return al_outfile_prepare(*file) == AL_OK ? 0 : -1;
 }
 
 void

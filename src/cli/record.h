@@ -79,8 +79,9 @@ int record_output_hashed(run_record *r, const char *role, const char *path,
 /* Derives the run's id from the time, command line and input hashes, and
  * stores it ("report_id"). */
 int record_seal(run_record *r);
-/* Writes the record as JSON; 0 on success. */
-int record_write(run_record *r, FILE *out, const char *path);
+/* Writes the record as JSON to path through an output file not yet in
+ * place (*file, for the caller to commit or abort); 0 on success. */
+int record_write(run_record *r, const char *path, al_outfile **file);
 void record_free(run_record *r);
 
 /* Sets jansson to allocate through al_malloc/al_free. */
