@@ -197,6 +197,7 @@ static al_status
 flag_rejected(al_assay *run, const al_csv_row *row)
 {
 	al_key k;
+	al_key_look look;
 	const char *text[5];
 	size_t tl[5];
 	al_group *g;
@@ -210,7 +211,9 @@ flag_rejected(al_assay *run, const al_csv_row *row)
 		return AL_OK;
 	k = (al_key){text[AL_T_PRODUCT], text[AL_T_LOT], text[AL_T_SAMPLE],
 		     tl[AL_T_PRODUCT],	 tl[AL_T_LOT],	 tl[AL_T_SAMPLE]};
-	if (al_groups_find(&run->groups, &k, row->line, &g, &created) != AL_OK)
+	al_groups_ahead(&run->groups, &k, &look);
+	if (al_groups_find(&run->groups, &k, &look, row->line, &g,
+			   &created) != AL_OK)
 		return AL_ENOMEM;
 	g->flags |= AL_FLAG_REJECTED;
 	return AL_OK;
@@ -250,16 +253,14 @@ bad_row(al_assay *run, const al_csv_row *row)
 /* The row's group: the one of its key, made on its first valid row with
  * the row's acid, unit and basis; NULL after an error (row_diags). */
 static al_group *
-join_group(al_assay *run, const al_row *r, al_status *st)
+join_group(al_assay *run, const al_row *r, const al_key *k,
+	   const al_key_look *look, al_status *st)
 {
-	al_key k = {r->text[AL_T_PRODUCT], r->text[AL_T_LOT],
-		    r->text[AL_T_SAMPLE],  r->len[AL_T_PRODUCT],
-		    r->len[AL_T_LOT],	   r->len[AL_T_SAMPLE]};
 	al_group *g;
 	const al_acid *had;
 	int created;
 
-	*st = al_groups_find(&run->groups, &k, r->line, &g, &created);
+	*st = al_groups_find(&run->groups, k, look, r->line, &g, &created);
 	if (*st != AL_OK)
 		return NULL;
 	had = al_groups_acid(&run->groups, g);
@@ -372,15 +373,24 @@ data_row(al_assay *run, const al_csv_row *row)
 	al_row_kind kind = al_rows_kind(rs, row);
 	al_status st = AL_OK;
 	al_group *g = NULL;
+	al_key_look look;
+	al_key k;
 	al_row r;
 
 	if (kind == AL_ROW_SKIP)
 		return AL_OK;
 	run->counts.rows_read++;
 	if (kind == AL_ROW_DATA) {
-		st = al_rows_cells(rs, row, &r);
+		st = al_rows_names(rs, row, &r);
+		if (st == AL_OK) {
+			k = (al_key){r.text[AL_T_PRODUCT], r.text[AL_T_LOT],
+				     r.text[AL_T_SAMPLE],  r.len[AL_T_PRODUCT],
+				     r.len[AL_T_LOT],	   r.len[AL_T_SAMPLE]};
+			al_groups_ahead(&run->groups, &k, &look);
+			st = al_rows_values(rs, row, &r);
+		}
 		if (st == AL_OK && rs->row_diags.errors == 0 && r.acid != NULL)
-			g = join_group(run, &r, &st);
+			g = join_group(run, &r, &k, &look, &st);
 		if (g != NULL &&
 		    al_titration_value(rs, &r, (al_unit)g->unit,
 				       (g->bits & AL_G_ANHYDROUS) != 0) == 0)

@@ -193,16 +193,26 @@ add_group(al_groups *gs, const al_key *k, uint32_t h32, size_t j,
 	return AL_OK;
 }
 
-al_status
-al_groups_find(al_groups *gs, const al_key *k, unsigned long line,
-	       al_group **out, int *created)
+void
+al_groups_ahead(const al_groups *gs, const al_key *k, al_key_look *look)
 {
-	uint32_t h32;
+	look->same = gs->last && key_is(gs, &gs->g[gs->last - 1], k);
+	if (look->same)
+		return;
+	look->h32 = SLOT_HASH(key_hash(k));
+	if (gs->n_slots)
+		__builtin_prefetch(&gs->slots[look->h32 & (gs->n_slots - 1)]);
+}
+
+al_status
+al_groups_find(al_groups *gs, const al_key *k, const al_key_look *look,
+	       unsigned long line, al_group **out, int *created)
+{
+	uint32_t h32 = look->h32;
 	size_t j;
 
 	*created = 0;
-	/* replicates usually follow each other */
-	if (gs->last && key_is(gs, &gs->g[gs->last - 1], k)) {
+	if (look->same) {
 		*out = &gs->g[gs->last - 1];
 		return AL_OK;
 	}
@@ -210,7 +220,6 @@ al_groups_find(al_groups *gs, const al_key *k, unsigned long line,
 		if (rehash(gs) != AL_OK)
 			return AL_ENOMEM;
 	}
-	h32 = SLOT_HASH(key_hash(k));
 	for (j = h32 & (gs->n_slots - 1); gs->slots[j];
 	     j = (j + 1) & (gs->n_slots - 1)) {
 		uint64_t v = gs->slots[j];

@@ -111,9 +111,20 @@ al_status al_groups_begin_file(al_groups *gs);
  * first seen in. */
 size_t al_groups_file_of(const al_groups *gs, size_t i);
 
-/* The group of a key, made when there is none (*created says so; line
- * is where it was first seen). */
-al_status al_groups_find(al_groups *gs, const al_key *k, unsigned long line,
+/* How a key will be found: the group found last (replicates mostly
+ * follow each other), or else by its hash, whose slot al_groups_ahead
+ * starts fetching (at millions of results a cache miss) while the
+ * caller reads the row's other cells. */
+typedef struct al_key_look {
+	int same;
+	uint32_t h32;
+} al_key_look;
+void al_groups_ahead(const al_groups *gs, const al_key *k, al_key_look *look);
+
+/* The group of a key seen by al_groups_ahead, made when there is none
+ * (*created says so; line is where it was first seen). */
+al_status al_groups_find(al_groups *gs, const al_key *k,
+			 const al_key_look *look, unsigned long line,
 			 al_group **out, int *created);
 /* A stored key's parts: product (returned), lot at + *pl + 1 and sample
  * after it. */

@@ -44,6 +44,9 @@ typedef struct al_rows {
 	size_t lot_cap;
 	const al_titrant **lots_used; /* register lots, in order of use */
 	size_t n_lots_used;
+	char *last_product; /* the product whose specification ... */
+	size_t last_len, last_cap;
+	const al_spec *last_spec; /* ... was looked up last */
 } al_rows;
 
 /* A data row's cells, checked. */
@@ -83,9 +86,11 @@ al_row_kind al_rows_kind(al_rows *rs, const al_csv_row *row);
 al_status al_rows_text(al_rows *rs, const al_csv_row *row,
 		       const char *out[5], size_t lens[5]);
 
-/* Reads a data row's cells into r: every error goes to row_diags; the
- * status is AL_ENOMEM only. */
-al_status al_rows_cells(al_rows *rs, const al_csv_row *row, al_row *r);
+/* Reads a data row's cells into r, in two steps: its names (product,
+ * lot, sample, replicate, acid), then the rest. Every error goes to
+ * row_diags; the status is AL_ENOMEM only. */
+al_status al_rows_names(al_rows *rs, const al_csv_row *row, al_row *r);
+al_status al_rows_values(al_rows *rs, const al_csv_row *row, al_row *r);
 
 /* Adds an error for the current row (reported or rejected at its end). */
 #define AL_ROW_ERR(rs, line, column, ...)                                     \
