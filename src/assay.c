@@ -488,19 +488,20 @@ al_run_replay(al_assay *run)
 		al_replicate rep;
 		al_status st;
 
-		memset(&rep, 0, sizeof rep);
-		rep.file = run->files[k->file];
-		rep.line = k->line;
-		rep.product = r->product;
-		rep.lot = r->lot;
-		rep.sample = r->sample;
-		rep.replicate = run->kept_text + k->replicate;
-		rep.meq = k->meq;
-		rep.value = k->value;
-		rep.unit = r->unit;
-		rep.acid = r->acid;
-		rep.flags = k->flags;
-		rep.endpoint_ph_needed = k->needed;
+		rep = (al_replicate){
+			.file = run->files[k->file],
+			.line = k->line,
+			.product = r->product,
+			.lot = r->lot,
+			.sample = r->sample,
+			.replicate = run->kept_text + k->replicate,
+			.meq = k->meq,
+			.value = k->value,
+			.unit = r->unit,
+			.acid = r->acid,
+			.flags = k->flags,
+			.endpoint_ph_needed = k->needed,
+		};
 		if (r->has_grubbs && k->pos == r->grubbs_index)
 			rep.flags |= r->flags & (AL_FLAG_OUTLIER | AL_FLAG_STRAGGLER);
 		if (r->has_dixon && k->pos == r->dixon_index)

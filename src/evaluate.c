@@ -179,9 +179,32 @@ juice(const al_eval_inputs *in, al_group_result *r)
 /* Brix, ratio and water limits join the decision: any outside fails;
  * limits without values to judge can only turn a pass into a retest,
  * never hide a fail. */
+/* A value against a pair of limits: the flag low below min, high above
+ * max, 0 inside; *missing set when a limit has no value to judge. */
+static unsigned
+outside(int has_min, double min, int has_max, double max, int has, double v,
+	const unsigned flag[2], int *missing)
+{
+	if (!has_min && !has_max)
+		return 0;
+	if (!has) {
+		*missing = 1;
+		return 0;
+	}
+	if (has_min && v < min)
+		return flag[0];
+	return has_max && v > max ? flag[1] : 0;
+}
+
 static void
 other_limits(al_group_result *r)
 {
+	static const unsigned brix_flags[2] = {AL_FLAG_BRIX_LOW,
+					       AL_FLAG_BRIX_HIGH};
+	static const unsigned ratio_flags[2] = {AL_FLAG_RATIO_LOW,
+						AL_FLAG_RATIO_HIGH};
+	static const unsigned water_flags[2] = {AL_FLAG_WATER_LOW,
+						AL_FLAG_WATER_HIGH};
 	const al_spec *sp = r->spec;
 	double brix = r->has_brix_corrected ? r->brix_corrected : r->brix;
 	unsigned out = 0;
@@ -189,30 +212,14 @@ other_limits(al_group_result *r)
 
 	if (sp == NULL || r->stats.n == 0)
 		return;
-	if (sp->has_brix_min || sp->has_brix_max) {
-		if (!r->has_brix)
-			missing = 1;
-		else if (sp->has_brix_min && brix < sp->brix_min)
-			out |= AL_FLAG_BRIX_LOW;
-		else if (sp->has_brix_max && brix > sp->brix_max)
-			out |= AL_FLAG_BRIX_HIGH;
-	}
-	if (sp->has_ratio_min || sp->has_ratio_max) {
-		if (!r->has_ratio)
-			missing = 1;
-		else if (sp->has_ratio_min && r->ratio < sp->ratio_min)
-			out |= AL_FLAG_RATIO_LOW;
-		else if (sp->has_ratio_max && r->ratio > sp->ratio_max)
-			out |= AL_FLAG_RATIO_HIGH;
-	}
-	if (sp->has_water_min || sp->has_water_max) {
-		if (!r->has_water)
-			missing = 1;
-		else if (sp->has_water_min && r->water_pct < sp->water_min)
-			out |= AL_FLAG_WATER_LOW;
-		else if (sp->has_water_max && r->water_pct > sp->water_max)
-			out |= AL_FLAG_WATER_HIGH;
-	}
+	out |= outside(sp->has_brix_min, sp->brix_min, sp->has_brix_max,
+		       sp->brix_max, r->has_brix, brix, brix_flags, &missing);
+	out |= outside(sp->has_ratio_min, sp->ratio_min, sp->has_ratio_max,
+		       sp->ratio_max, r->has_ratio, r->ratio, ratio_flags,
+		       &missing);
+	out |= outside(sp->has_water_min, sp->water_min, sp->has_water_max,
+		       sp->water_max, r->has_water, r->water_pct, water_flags,
+		       &missing);
 	r->flags |= out | (missing ? AL_FLAG_NO_BRIX : 0);
 	if (out)
 		r->verdict = AL_VERDICT_FAIL;

@@ -667,16 +667,24 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 	return done(&k, opt);
 }
 
-al_status
-al_replicates_header(FILE *out, al_report_options *opt)
+/* A file that starts with a header line only. */
+static al_status
+header_only(FILE *out, const char *names, al_report_options *opt)
 {
 	char kb[SINK_BYTES];
 	struct sink k;
 
 	sink_open(&k, out, kb, sizeof kb);
-	header(&k, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
-	       opt);
+	header(&k, names, opt);
 	return done(&k, opt);
+}
+
+al_status
+al_replicates_header(FILE *out, al_report_options *opt)
+{
+	return header_only(
+		out, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
+		opt);
 }
 
 al_status
@@ -708,12 +716,7 @@ al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 al_status
 al_rejects_header(FILE *out, al_report_options *opt)
 {
-	char kb[SINK_BYTES];
-	struct sink k;
-
-	sink_open(&k, out, kb, sizeof kb);
-	header(&k, "file,line,reason,record", opt);
-	return done(&k, opt);
+	return header_only(out, "file,line,reason,record", opt);
 }
 
 al_status

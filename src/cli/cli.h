@@ -58,6 +58,10 @@ typedef struct cli_range {
 int cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 		     const char *text);
 
+/* --brix: the density of a sucrose solution of that Brix (NBS), into
+ * *density; 1, or -1 after a usage error. */
+int cli_brix_option(const char *cmd, const char *text, double *density);
+
 /* An option that takes a text, stored as given. */
 typedef struct cli_text {
 	int id;
@@ -65,6 +69,22 @@ typedef struct cli_text {
 } cli_text;
 /* Option c, if table t has it: stored (1), else 0. */
 int cli_text_option(const cli_text *t, size_t n, int c, const char *text);
+
+/* A command's handler of option c (getopt_long's value) and its value
+ * text: 1 taken, 0 not an option of the command, -1 after a usage
+ * error. */
+typedef int (*cli_option_fn)(void *ctx, int c, char *text);
+/* Reads argv's options by getopt_long. names are the command's long
+ * options, in the order of its OPT_ values from CLI_OPT: "name" takes a
+ * value, "name!" takes none, "name=c" is also -c and gives c (such ones
+ * come last). --help (-h) prints usage and gives 1; a missing value or an
+ * unknown option is a usage error (-1); every other goes to one. 0 when
+ * all were taken; optind is then the first operand. */
+#define CLI_OPT 256
+#define CLI_MAX_OPTIONS 48
+int cli_options(const char *cmd, int argc, char **argv,
+		const char *const *names, size_t n, void (*usage)(FILE *),
+		cli_option_fn one, void *ctx);
 
 /* Parses a unit name for an option ("--unit", or "UNIT" for an operand);
  * 0 on success, else a usage error saying why and -1. */

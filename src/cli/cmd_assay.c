@@ -120,7 +120,7 @@ write_reject(void *ud, const char *file, unsigned long line,
 }
 
 enum {
-	OPT_ACID = 256, OPT_UNIT, OPT_BLANK, OPT_TITRANT, OPT_DENSITY,
+	OPT_ACID = CLI_OPT, OPT_UNIT, OPT_BLANK, OPT_TITRANT, OPT_DENSITY,
 	OPT_ENDPOINT, OPT_DECIMALS, OPT_REJECTS, OPT_DELIMITER,
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
@@ -128,41 +128,17 @@ enum {
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U
 };
 
-static const struct option options[] = {
-	{"spec", required_argument, NULL, 's'},
-	{"output", required_argument, NULL, 'o'},
-	{"replicates", required_argument, NULL, 'r'},
-	{"rejects", required_argument, NULL, OPT_REJECTS},
-	{"acid", required_argument, NULL, OPT_ACID},
-	{"unit", required_argument, NULL, OPT_UNIT},
-	{"blank-ml", required_argument, NULL, OPT_BLANK},
-	{"titrant-mol-l", required_argument, NULL, OPT_TITRANT},
-	{"density-g-ml", required_argument, NULL, OPT_DENSITY},
-	{"endpoint-ph", required_argument, NULL, OPT_ENDPOINT},
-	{"decimals", required_argument, NULL, OPT_DECIMALS},
-	{"delimiter", required_argument, NULL, OPT_DELIMITER},
-	{"decimal-comma", no_argument, NULL, OPT_DECIMAL_COMMA},
-	{"column", required_argument, NULL, OPT_COLUMN},
-	{"columns", required_argument, NULL, OPT_COLUMNS},
-	{"sheet-style", required_argument, NULL, OPT_SHEET},
-	{"bom", no_argument, NULL, OPT_BOM},
-	{"raw-text", no_argument, NULL, OPT_RAW_TEXT},
-	{"titrants", required_argument, NULL, OPT_TITRANTS},
-	{"record", required_argument, NULL, OPT_RECORD},
-	{"analyst", required_argument, NULL, OPT_ANALYST},
-	{"decision", required_argument, NULL, OPT_DECISION},
-	{"exclude-outliers", no_argument, NULL, OPT_EXCLUDE},
-	{"budget", required_argument, NULL, OPT_BUDGET},
-	{"titrant-u", required_argument, NULL, OPT_TITRANT_U},
-	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
-	{"resolution-ml", required_argument, NULL, OPT_RESOLUTION},
-	{"water-u-pct", required_argument, NULL, OPT_WATER_U},
-	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
-	{"k", required_argument, NULL, OPT_K},
-	{"basis", required_argument, NULL, OPT_BASIS},
-	{"help", no_argument, NULL, 'h'},
-	{NULL, 0, NULL, 0},
+/* The long options, in the order of the OPT_ values (cli_options). */
+static const char *const options[] = {
+	"acid", "unit", "blank-ml", "titrant-mol-l", "density-g-ml",
+	"endpoint-ph", "decimals", "rejects", "delimiter", "decimal-comma!",
+	"column", "columns", "sheet-style", "bom!", "raw-text!", "titrants",
+	"record", "analyst", "decision", "exclude-outliers!", "budget",
+	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
+	"resolution-ml", "water-u-pct", "spec=s", "output=o", "replicates=r",
 };
+_Static_assert(sizeof options / sizeof options[0] == OPT_WATER_U - CLI_OPT + 4,
+	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
 static int
@@ -328,38 +304,32 @@ word_option(struct args *a, int c, const char *text)
 	return 0;
 }
 
+/* One option of the command: 1 taken, 0 not one, -1 a usage error. */
+static int
+one_option(void *ctx, int c, char *text)
+{
+	struct args *a = ctx;
+	int got = text_option(a, c);
+
+	if (got == 0)
+		got = number_option(a, c);
+	if (got == 0)
+		got = word_option(a, c, text);
+	if (got == 0 && c == OPT_COLUMN)
+		got = column_option(a, text);
+	return got;
+}
+
 /* 0 to go on, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
-	int c, got;
+	int got = cli_options("assay", argc, argv, options,
+			      sizeof options / sizeof options[0], usage,
+			      one_option, a);
 
-	optind = 1;
-	opterr = 0;
-	while ((c = getopt_long(argc, argv, ":s:o:r:h", options, NULL)) != -1) {
-		if (c == 'h') {
-			usage(stdout);
-			return 1;
-		}
-		if (c == ':')
-			return cli_usage_error("assay",
-					       "option '%s' needs a value",
-					       cli_bad_option(argv)),
-			       -1;
-		if (text_option(a, c))
-			continue;
-		got = number_option(a, c);
-		if (got == 0)
-			got = word_option(a, c, optarg);
-		if (got == 0 && c == OPT_COLUMN)
-			got = column_option(a, optarg);
-		if (got < 0)
-			return -1;
-		if (got == 0)
-			return cli_usage_error("assay", "unknown option '%s'",
-					       cli_bad_option(argv)),
-			       -1;
-	}
+	if (got != 0)
+		return got;
 	if (a->has_decimals)
 		a->ropt.decimals = (int)a->decimals;
 	if (optind >= argc)

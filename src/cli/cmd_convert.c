@@ -31,7 +31,7 @@ usage(FILE *out)
 	      out);
 }
 
-enum { OPT_ACID = 256, OPT_TO_ACID, OPT_TO_UNIT, OPT_DENSITY, OPT_DECIMALS,
+enum { OPT_ACID = CLI_OPT, OPT_TO_ACID, OPT_TO_UNIT, OPT_DENSITY, OPT_DECIMALS,
        OPT_BRIX };
 
 static const al_acid *
@@ -52,86 +52,44 @@ struct conv_args {
 	double density, decimals; /* 0: none; -1: the default form */
 };
 
+/* The long options, in the order of the OPT_ values (cli_options). */
+static const char *const options[] = {"acid",	      "to-acid",  "to-unit",
+				      "density-g-ml", "decimals", "brix"};
+_Static_assert(sizeof options / sizeof options[0] == OPT_BRIX - CLI_OPT + 1,
+	       "one name for each OPT_ value");
+
+/* One option of the command: 1 taken, 0 not one, -1 a usage error. */
+static int
+one_option(void *ctx, int c, char *text)
+{
+	struct conv_args *a = ctx;
+	const cli_text texts[] = {{OPT_ACID, &a->acid},
+				  {OPT_TO_ACID, &a->to_acid},
+				  {OPT_TO_UNIT, &a->to_unit}};
+	const cli_range t[] = {
+		{OPT_DENSITY, "--density-g-ml", 0, HUGE_VAL, CLI_ABOVE,
+		 "--density-g-ml must be above 0", &a->density, NULL},
+		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
+		 "--decimals takes a whole number from 0 to 15", &a->decimals,
+		 NULL},
+	};
+
+	if (c == OPT_BRIX)
+		return cli_brix_option("convert", text, &a->density);
+	if (cli_text_option(texts, sizeof texts / sizeof texts[0], c, text))
+		return 1;
+	return cli_range_option("convert", t, sizeof t / sizeof t[0], c, text);
+}
+
 /* 0, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct conv_args *a)
 {
-	static const struct option options[] = {
-		{"acid", required_argument, NULL, OPT_ACID},
-		{"to-acid", required_argument, NULL, OPT_TO_ACID},
-		{"to-unit", required_argument, NULL, OPT_TO_UNIT},
-		{"density-g-ml", required_argument, NULL, OPT_DENSITY},
-		{"decimals", required_argument, NULL, OPT_DECIMALS},
-		{"brix", required_argument, NULL, OPT_BRIX},
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
-	int c;
-
 	memset(a, 0, sizeof *a);
 	a->decimals = -1;
-	optind = 1;
-	opterr = 0;
-	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
-		switch (c) {
-		case OPT_ACID:
-			a->acid = optarg;
-			break;
-		case OPT_TO_ACID:
-			a->to_acid = optarg;
-			break;
-		case OPT_TO_UNIT:
-			a->to_unit = optarg;
-			break;
-		case OPT_DENSITY:
-			if (cli_number("convert", "--density-g-ml", optarg,
-				       &a->density))
-				return -1;
-			if (!(a->density > 0))
-				return cli_usage_error("convert",
-						       "--density-g-ml must be "
-						       "above 0"),
-				       -1;
-			break;
-		case OPT_BRIX: {
-			double brix;
-
-			if (cli_number("convert", "--brix", optarg, &brix))
-				return -1;
-			/* the density of a sucrose solution of that Brix (NBS) */
-			if (al_density_from_brix(brix, &a->density) != AL_OK)
-				return cli_usage_error("convert",
-						       "--brix: a density from Brix "
-						       "needs 0 to 40 Brix"),
-				       -1;
-			break;
-		}
-		case OPT_DECIMALS:
-			if (cli_number("convert", "--decimals", optarg,
-				       &a->decimals))
-				return -1;
-			if (!(a->decimals >= 0 && a->decimals <= 15) ||
-			    a->decimals != floor(a->decimals))
-				return cli_usage_error("convert",
-						       "--decimals takes a whole "
-						       "number from 0 to 15"),
-				       -1;
-			break;
-		case 'h':
-			usage(stdout);
-			return 1;
-		case ':':
-			return cli_usage_error("convert",
-					       "option '%s' needs a value",
-					       cli_bad_option(argv)),
-			       -1;
-		default:
-			return cli_usage_error("convert", "unknown option '%s'",
-					       cli_bad_option(argv)),
-			       -1;
-		}
-	}
-	return 0;
+	return cli_options("convert", argc, argv, options,
+			   sizeof options / sizeof options[0], usage,
+			   one_option, a);
 }
 
 int

@@ -2,6 +2,7 @@
  * demand of a lot).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include <getopt.h>
+#include <math.h>
 #include <string.h>
 
 #include "cli.h"
@@ -35,7 +36,7 @@ usage(FILE *out)
 }
 
 enum {
-	OPT_TA = 256, OPT_UNIT, OPT_ACID, OPT_START_KG, OPT_START_L,
+	OPT_TA = CLI_OPT, OPT_UNIT, OPT_ACID, OPT_START_KG, OPT_START_L,
 	OPT_DENSITY, OPT_BRIX, OPT_RECOVERED, OPT_ASSAY, OPT_BASE
 };
 
@@ -68,101 +69,57 @@ check_args(int argc, char **argv, const struct rec_args *a)
 	return 0;
 }
 
-static const struct option options[] = {
-	{"ta", required_argument, NULL, OPT_TA},
-	{"unit", required_argument, NULL, OPT_UNIT},
-	{"acid", required_argument, NULL, OPT_ACID},
-	{"start-kg", required_argument, NULL, OPT_START_KG},
-	{"start-l", required_argument, NULL, OPT_START_L},
-	{"density-g-ml", required_argument, NULL, OPT_DENSITY},
-	{"brix", required_argument, NULL, OPT_BRIX},
-	{"recovered-kg", required_argument, NULL, OPT_RECOVERED},
-	{"assay", required_argument, NULL, OPT_ASSAY},
-	{"base", required_argument, NULL, OPT_BASE},
-	{"help", no_argument, NULL, 'h'},
-	{NULL, 0, NULL, 0},
-};
+/* The long options, in the order of the OPT_ values (cli_options). */
+static const char *const options[] = {
+	"ta",	       "unit", "acid",		"start-kg", "start-l",
+	"density-g-ml", "brix", "recovered-kg", "assay",    "base"};
+_Static_assert(sizeof options / sizeof options[0] == OPT_BASE - CLI_OPT + 1,
+	       "one name for each OPT_ value");
+
+/* One option of the command: 1 taken, 0 not one, -1 a usage error. */
+static int
+one_option(void *ctx, int c, char *text)
+{
+	struct rec_args *a = ctx;
+	const cli_text texts[] = {
+		{OPT_UNIT, &a->unit}, {OPT_ACID, &a->acid}, {OPT_BASE, &a->base}};
+	const cli_range t[] = {
+		{OPT_TA, "--ta", 0, HUGE_VAL, CLI_ABOVE,
+		 "--ta: %s is not above 0", &a->ta, NULL},
+		{OPT_START_KG, "--start-kg", 0, HUGE_VAL, CLI_ABOVE,
+		 "--start-kg: %s is not above 0", &a->start, NULL},
+		{OPT_START_L, "--start-l", 0, HUGE_VAL, CLI_ABOVE,
+		 "--start-l: %s is not above 0", &a->start, &a->by_volume},
+		{OPT_DENSITY, "--density-g-ml", 0, HUGE_VAL, CLI_ABOVE,
+		 "--density-g-ml: %s is not above 0", &a->density, NULL},
+		{OPT_RECOVERED, "--recovered-kg", 0, HUGE_VAL, CLI_ABOVE,
+		 "--recovered-kg: %s is not above 0", &a->recovered, NULL},
+		{OPT_ASSAY, "--assay", 0, 110, CLI_ABOVE,
+		 "--assay is a percentage above 0, at most 110", &a->assay,
+		 NULL},
+	};
+
+	if (c == OPT_BRIX)
+		return cli_brix_option("recovery", text, &a->density);
+	if (c == OPT_START_KG)
+		a->by_volume = 0;
+	return cli_text_option(texts, sizeof texts / sizeof texts[0], c,
+			       text) ||
+	       cli_range_option("recovery", t, sizeof t / sizeof t[0], c, text);
+}
 
 /* 0, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct rec_args *a)
 {
-	const char *optname;
-	char name_buf[64];
-	double v;
-	int c;
+	int got;
 
 	memset(a, 0, sizeof *a);
 	a->ta = a->start = a->recovered = a->assay = -1;
-	optind = 1;
-	opterr = 0;
-	while ((c = getopt_long(argc, argv, ":h", options, NULL)) != -1) {
-		if (c == 'h') {
-			usage(stdout);
-			return 1;
-		}
-		if (c == ':' || c == '?')
-			return cli_usage_error("recovery", "%s '%s'",
-					       c == ':' ? "option needs a value"
-							: "unknown option",
-					       cli_bad_option(argv)), -1;
-		if (c == OPT_UNIT) {
-			a->unit = optarg;
-			continue;
-		}
-		if (c == OPT_ACID) {
-			a->acid = optarg;
-			continue;
-		}
-		if (c == OPT_BASE) {
-			a->base = optarg;
-			continue;
-		}
-		optname = "an option";
-		for (const struct option *o = options; o->name; o++)
-			if (o->val == c) {
-				snprintf(name_buf, sizeof name_buf, "--%s",
-					 o->name);
-				optname = name_buf;
-			}
-		if (cli_number("recovery", optname, optarg, &v))
-			return -1;
-		if (!(v > 0) && !(c == OPT_BRIX && v == 0))
-			return cli_usage_error("recovery", "%s: %s is not above 0",
-					       optname, optarg), -1;
-		switch (c) {
-		case OPT_TA:
-			a->ta = v;
-			break;
-		case OPT_START_KG:
-			a->start = v;
-			a->by_volume = 0;
-			break;
-		case OPT_START_L:
-			a->start = v;
-			a->by_volume = 1;
-			break;
-		case OPT_DENSITY:
-			a->density = v;
-			break;
-		case OPT_BRIX:
-			if (al_density_from_brix(v, &a->density) != AL_OK)
-				return cli_usage_error("recovery",
-						       "--brix: a density from Brix "
-						       "needs 0 to 40 Brix"), -1;
-			break;
-		case OPT_RECOVERED:
-			a->recovered = v;
-			break;
-		case OPT_ASSAY:
-			if (v > 110)
-				return cli_usage_error("recovery",
-						       "--assay is a percentage"), -1;
-			a->assay = v;
-			break;
-		}
-	}
-	return check_args(argc, argv, a);
+	got = cli_options("recovery", argc, argv, options,
+			  sizeof options / sizeof options[0], usage,
+			  one_option, a);
+	return got != 0 ? got : check_args(argc, argv, a);
 }
 
 /* The recovery (with --recovered-kg and --assay) and the base demand

@@ -56,29 +56,20 @@ usage(FILE *out)
 }
 
 enum {
-	OPT_BUDGET = 256, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
+	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
 	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY
 };
 
-static const struct option options[] = {
-	{"register", required_argument, NULL, 'o'},
-	{"budget", required_argument, NULL, OPT_BUDGET},
-	{"record", required_argument, NULL, OPT_RECORD},
-	{"analyst", required_argument, NULL, OPT_ANALYST},
-	{"max-rsd", required_argument, NULL, OPT_MAX_RSD},
-	{"min-n", required_argument, NULL, OPT_MIN_N},
-	{"repeatability-rsd", required_argument, NULL, OPT_REPEATABILITY},
-	{"valid-days", required_argument, NULL, OPT_VALID_DAYS},
-	{"balance-linearity-g", required_argument, NULL, OPT_BALANCE},
-	{"burette-tol-ml", required_argument, NULL, OPT_BURETTE},
-	{"temp-range-c", required_argument, NULL, OPT_TEMP},
-	{"k", required_argument, NULL, OPT_K},
-	{"delimiter", required_argument, NULL, OPT_DELIMITER},
-	{"decimal-comma", no_argument, NULL, OPT_DECIMAL_COMMA},
-	{"help", no_argument, NULL, 'h'},
-	{NULL, 0, NULL, 0},
+/* The long options, in the order of the OPT_ values (cli_options). */
+static const char *const options[] = {
+	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
+	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
+	"delimiter", "decimal-comma!", "repeatability-rsd", "register=o",
 };
+_Static_assert(sizeof options / sizeof options[0] ==
+		       OPT_REPEATABILITY - CLI_OPT + 2,
+	       "one name for each OPT_ value, then the one with a letter");
 
 struct args {
 	const char *reg, *budget, *record, *analyst;
@@ -149,35 +140,26 @@ other_option(struct args *a, int c)
 	return 1;
 }
 
+/* One option of the command: 1 taken, 0 not one, -1 a usage error. */
+static int
+one_option(void *ctx, int c, char *text)
+{
+	int got = number_option(ctx, c);
+
+	(void)text;
+	return got != 0 ? got : other_option(ctx, c);
+}
+
 /* 0 to go on, 1 after --help, -1 after a usage error. */
 static int
 parse_args(int argc, char **argv, struct args *a)
 {
-	int c, got;
+	int got = cli_options("standardize", argc, argv, options,
+			      sizeof options / sizeof options[0],
+			      usage, one_option, a);
 
-	optind = 1;
-	opterr = 0;
-	while ((c = getopt_long(argc, argv, ":o:h", options, NULL)) != -1) {
-		if (c == 'h') {
-			usage(stdout);
-			return 1;
-		}
-		if (c == ':')
-			return cli_usage_error("standardize",
-					       "option '%s' needs a value",
-					       cli_bad_option(argv)),
-			       -1;
-		got = number_option(a, c);
-		if (got == 0)
-			got = other_option(a, c);
-		if (got < 0)
-			return -1;
-		if (got == 0)
-			return cli_usage_error("standardize",
-					       "unknown option '%s'",
-					       cli_bad_option(argv)),
-			       -1;
-	}
+	if (got != 0)
+		return got;
 	if (a->has_min_n)
 		a->p.min_n = (size_t)a->min_n;
 	if (a->has_valid_days)

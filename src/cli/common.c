@@ -102,6 +102,68 @@ cli_number(const char *cmd, const char *option, const char *text,
 	return -1;
 }
 
+/* getopt_long's table and short options from cli_options' names. */
+static void
+option_table(const char *const *names, size_t n, struct option *opts,
+	     char (*name)[32], char *shorts)
+{
+	size_t k = 0, len;
+
+	shorts[k++] = ':';
+	for (size_t i = 0; i < n; i++) {
+		const char *end = names[i] + strcspn(names[i], "!=");
+
+		len = (size_t)(end - names[i]);
+		memcpy(name[i], names[i], len);
+		name[i][len] = '\0';
+		opts[i] = (struct option){name[i],
+					  *end == '!' ? no_argument
+						      : required_argument,
+					  NULL, (int)(CLI_OPT + i)};
+		if (*end == '=') {
+			opts[i].val = (unsigned char)end[1];
+			shorts[k++] = end[1];
+			shorts[k++] = ':';
+		}
+	}
+	opts[n] = (struct option){"help", no_argument, NULL, 'h'};
+	opts[n + 1] = (struct option){NULL, 0, NULL, 0};
+	shorts[k++] = 'h';
+	shorts[k] = '\0';
+}
+
+int
+cli_options(const char *cmd, int argc, char **argv,
+	    const char *const *names, size_t n, void (*usage)(FILE *),
+	    cli_option_fn one, void *ctx)
+{
+	struct option opts[CLI_MAX_OPTIONS + 2];
+	char name[CLI_MAX_OPTIONS][32], shorts[2 * CLI_MAX_OPTIONS + 3];
+	int c, got;
+
+	option_table(names, n, opts, name, shorts);
+	optind = 1;
+	opterr = 0;
+	while ((c = getopt_long(argc, argv, shorts, opts, NULL)) != -1) {
+		if (c == 'h') {
+			usage(stdout);
+			return 1;
+		}
+		if (c == ':')
+			return cli_usage_error(cmd, "option '%s' needs a value",
+					       cli_bad_option(argv)),
+			       -1;
+		got = c == '?' ? 0 : one(ctx, c, optarg);
+		if (got < 0)
+			return -1;
+		if (got == 0)
+			return cli_usage_error(cmd, "unknown option '%s'",
+					       cli_bad_option(argv)),
+			       -1;
+	}
+	return 0;
+}
+
 int
 cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 		 const char *text)
@@ -129,6 +191,20 @@ cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 	*t->out = v;
 	if (t->given)
 		*t->given = 1;
+	return 1;
+}
+
+int
+cli_brix_option(const char *cmd, const char *text, double *density)
+{
+	double brix;
+
+	if (cli_number(cmd, "--brix", text, &brix))
+		return -1;
+	if (al_density_from_brix(brix, density) != AL_OK)
+		return cli_usage_error(cmd, "--brix: a density from Brix needs "
+					    "0 to 40 Brix"),
+		       -1;
 	return 1;
 }
 

@@ -272,14 +272,23 @@ record_name(json_t *f, const char *key, char *out, size_t cap)
 	return out;
 }
 
+/* A file's entry: role, path (and its bytes when they are not text),
+ * size and SHA-256; NULL when memory runs out. */
+static json_t *
+file_entry(const char *role, const char *path, unsigned long long bytes,
+	   const char *sha256)
+{
+	return keep_name(json_pack("{s:s, s:o, s:I, s:s}", "role", role, "path",
+				   record_text(path), "bytes",
+				   (json_int_t)bytes, "sha256", sha256),
+			 "path_hex", path);
+}
+
 int
 record_input(run_record *r, const char *role, const char *path,
 	     unsigned long long bytes, long rows, const char *sha256)
 {
-	json_t *o = keep_name(json_pack("{s:s, s:o, s:I, s:s}", "role", role,
-					"path", record_text(path), "bytes",
-					(json_int_t)bytes, "sha256", sha256),
-			      "path_hex", path);
+	json_t *o = file_entry(role, path, bytes, sha256);
 
 	if (o == NULL)
 		return -1;
@@ -294,14 +303,9 @@ int
 record_output_hashed(run_record *r, const char *role, const char *path,
 		     const char *hex, unsigned long long bytes)
 {
-	json_t *o = keep_name(json_pack("{s:s, s:o, s:I, s:s}", "role", role,
-					"path", record_text(path), "bytes",
-					(json_int_t)bytes, "sha256", hex),
-			      "path_hex", path);
+	json_t *o = file_entry(role, path, bytes, hex);
 
-	if (o == NULL)
-		return -1;
-	return json_array_append_new(r->outputs, o) ? -1 : 0;
+	return o == NULL || json_array_append_new(r->outputs, o) ? -1 : 0;
 }
 
 int
