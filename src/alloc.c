@@ -73,6 +73,13 @@ al_free(void *ptr)
 	free(ptr);
 }
 
+void
+al_free_all(void *const *ptrs, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		al_free(ptrs[i]);
+}
+
 void *
 al_reserve(void *buf, size_t *cap, size_t need)
 {

@@ -57,17 +57,12 @@ al_assay_free(al_assay *run)
 		return;
 	al_groups_free(&run->groups);
 	al_rows_free(&run->rows);
-	for (size_t i = 0; i < run->n_files; i++)
-		al_free(run->files[i]);
-	al_free(run->files);
 	al_labels_free(run->labels);
-	al_free(run->kept);
-	al_free(run->kept_text);
-	al_free((void *)run->acids_used);
-	al_free((void *)run->specs_used);
-	al_free(run->cochran);
 	al_diags_clear(&run->diags);
-	al_free(run);
+	al_free_all((void *const *)run->files, run->n_files);
+	AL_FREE_ALL(run->files, run->kept, run->kept_text,
+		    (void *)run->acids_used, (void *)run->specs_used,
+		    run->cochran, run);
 }
 
 al_diags *

@@ -345,50 +345,24 @@ al_catalogue_free(al_catalogue *cat)
 {
 	if (cat == NULL)
 		return;
-	for (size_t i = 0; i < cat->n_elements; i++) {
-		al_free(cat->elements[i].name);
-		al_free(cat->elements[i].source);
-	}
-	for (size_t i = 0; i < cat->n_acids; i++) {
-		al_acid *a = &cat->acids[i];
-
-		al_free(a->name);
-		al_free(a->aliases);
-		al_free(a->formula);
-		al_free(a->notes);
-		al_free(a->source);
-	}
-	for (size_t i = 0; i < cat->n_standards; i++) {
-		al_standard *a = &cat->standards[i];
-
-		al_free(a->name);
-		al_free(a->aliases);
-		al_free(a->formula);
-		al_free(a->source);
-	}
-	for (size_t i = 0; i < cat->n_bases; i++) {
-		al_free(cat->bases[i].name);
-		al_free(cat->bases[i].aliases);
-		al_free(cat->bases[i].formula);
-		al_free(cat->bases[i].source);
-	}
-	al_free(cat->bases);
-	al_free(cat->standards);
-	al_free(cat->elements);
-	al_free(cat->acids);
-	al_free(cat);
-}
-
-size_t
-al_catalogue_acid_count(const al_catalogue *cat)
-{
-	return cat->n_acids;
+	for (size_t i = 0; i < cat->n_elements; i++)
+		AL_FREE_ALL(cat->elements[i].name, cat->elements[i].source);
+	for (const al_acid *a = cat->acids; a < cat->acids + cat->n_acids; a++)
+		AL_FREE_ALL(a->name, a->aliases, a->formula, a->notes,
+			    a->source);
+	for (const al_standard *a = cat->standards;
+	     a < cat->standards + cat->n_standards; a++)
+		AL_FREE_ALL(a->name, a->aliases, a->formula, a->source);
+	for (const al_base *b = cat->bases; b < cat->bases + cat->n_bases; b++)
+		AL_FREE_ALL(b->name, b->aliases, b->formula, b->source);
+	AL_FREE_ALL(cat->bases, cat->standards, cat->elements, cat->acids, cat);
 }
 
 const al_acid *
-al_catalogue_acid(const al_catalogue *cat, size_t i)
+al_catalogue_acids(const al_catalogue *cat, size_t *n)
 {
-	return i < cat->n_acids ? &cat->acids[i] : NULL;
+	*n = cat->n_acids;
+	return cat->acids;
 }
 
 /* Canonical form of an acid name: lower case, '_' and blanks as '-',

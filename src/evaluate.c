@@ -517,9 +517,7 @@ al_cochran_acc_free(al_cochran_acc *acc)
 {
 	if (acc == NULL)
 		return;
-	al_free(acc->cells);
-	al_free(acc->slots);
-	al_free(acc);
+	AL_FREE_ALL(acc->cells, acc->slots, acc);
 }
 
 static uint64_t

@@ -19,12 +19,8 @@ al_groups_free(al_groups *gs)
 		else if (g->bits & AL_G_STREAM)
 			al_free(g->values.stream);
 	}
-	al_free(gs->g);
-	al_free(gs->arena);
-	al_free(gs->slots);
-	al_free(gs->extras);
-	al_free(gs->extremes);
-	al_free(gs->file_first);
+	AL_FREE_ALL(gs->g, gs->arena, gs->slots, gs->extras, gs->extremes,
+		    gs->file_first);
 	memset(gs, 0, sizeof *gs);
 }
 

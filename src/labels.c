@@ -54,8 +54,7 @@ al_labels_free(al_labels *l)
 {
 	if (l == NULL)
 		return;
-	al_free(l->more);
-	al_free(l);
+	AL_FREE_ALL(l->more, l);
 }
 
 static size_t

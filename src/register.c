@@ -53,25 +53,17 @@ al_register_free(al_register *reg)
 {
 	if (reg == NULL)
 		return;
-	for (size_t i = 0; i < reg->count; i++) {
-		al_free(reg->items[i].lot);
-		al_free(reg->items[i].standard);
-	}
-	al_free(reg->items);
+	for (size_t i = 0; i < reg->count; i++)
+		AL_FREE_ALL(reg->items[i].lot, reg->items[i].standard);
 	al_strindex_free(&reg->index);
-	al_free(reg);
-}
-
-size_t
-al_register_count(const al_register *reg)
-{
-	return reg ? reg->count : 0;
+	AL_FREE_ALL(reg->items, reg);
 }
 
 const al_titrant *
-al_register_at(const al_register *reg, size_t i)
+al_register_all(const al_register *reg, size_t *n)
 {
-	return reg && i < reg->count ? &reg->items[i] : NULL;
+	*n = reg ? reg->count : 0;
+	return reg ? reg->items : NULL;
 }
 
 const al_titrant *

@@ -333,16 +333,11 @@ al_assay_spec_used(const al_assay *run, size_t i)
 	return i < run->n_specs_used ? run->specs_used[i] : NULL;
 }
 
-size_t
-al_assay_cochran_count(const al_assay *run)
-{
-	return run->n_cochran;
-}
-
 const al_cochran *
-al_assay_cochran_at(const al_assay *run, size_t i)
+al_assay_cochran(const al_assay *run, size_t *n)
 {
-	return i < run->n_cochran ? &run->cochran[i] : NULL;
+	*n = run->n_cochran;
+	return run->cochran;
 }
 
 

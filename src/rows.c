@@ -411,13 +411,9 @@ al_rows_init(al_rows *rs, const al_assay_options *opt, al_diags *diags)
 void
 al_rows_free(al_rows *rs)
 {
-	for (int i = 0; i < 5; i++)
-		al_free(rs->ident[i]);
-	al_free(rs->lot);
-	al_free(rs->scratch);
-	al_free(rs->header_text);
-	al_free(rs->last_product);
-	al_free((void *)rs->lots_used);
+	al_free_all((void *const *)rs->ident, 5);
+	AL_FREE_ALL(rs->lot, rs->scratch, rs->header_text, rs->last_product,
+		    (void *)rs->lots_used);
 	al_diags_clear(&rs->row_diags);
 }
 

@@ -363,27 +363,18 @@ al_spec_table_free(al_spec_table *table)
 {
 	if (table == NULL)
 		return;
-	for (size_t i = 0; i < table->count; i++) {
-		al_free(table->specs[i].product);
-		if (table->loose)
-			al_free(table->loose[i]);
-	}
-	al_free(table->loose);
+	for (size_t i = 0; i < table->count; i++)
+		AL_FREE_ALL(table->specs[i].product,
+			    table->loose ? table->loose[i] : NULL);
 	al_strindex_free(&table->index);
-	al_free(table->specs);
-	al_free(table);
-}
-
-size_t
-al_spec_count(const al_spec_table *table)
-{
-	return table ? table->count : 0;
+	AL_FREE_ALL(table->loose, table->specs, table);
 }
 
 const al_spec *
-al_spec_at(const al_spec_table *table, size_t i)
+al_spec_all(const al_spec_table *table, size_t *n)
 {
-	return table && i < table->count ? &table->specs[i] : NULL;
+	*n = table ? table->count : 0;
+	return table ? table->specs : NULL;
 }
 
 const al_spec *

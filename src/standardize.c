@@ -152,18 +152,11 @@ al_std_free(al_std_run *run)
 {
 	if (run == NULL)
 		return;
-	for (size_t i = 0; i < run->n_lots; i++) {
-		al_free(run->lots[i].name);
-		al_free(run->lots[i].rows);
-	}
-	for (size_t i = 0; i < run->n_files; i++)
-		al_free(run->files[i]);
-	al_free(run->files);
-	al_free(run->ident);
-	al_free(run->lots);
-	al_free(run->results);
+	for (size_t i = 0; i < run->n_lots; i++)
+		AL_FREE_ALL(run->lots[i].name, run->lots[i].rows);
+	al_free_all((void *const *)run->files, run->n_files);
 	al_diags_clear(&run->diags);
-	al_free(run);
+	AL_FREE_ALL(run->files, run->ident, run->lots, run->results, run);
 }
 
 al_diags *

@@ -17,6 +17,13 @@ void al_free(void *ptr);
  * NULL when memory runs out; buf and *cap are then as they were. */
 void *al_reserve(void *buf, size_t *cap, size_t need);
 
+/* al_free of each of n pointers; AL_FREE_ALL(a, b, ...) frees a
+ * struct's buffers in one statement. */
+void al_free_all(void *const *ptrs, size_t n);
+#define AL_FREE_ALL(...)                                                      \
+	al_free_all((void *const[]){__VA_ARGS__},                              \
+		    sizeof((void *const[]){__VA_ARGS__}) / sizeof(void *))
+
 /* Maps the memory pages of [base + from, base + to) in one system call
  * ahead of their first use, where the system can (Linux 5.14 and later;
  * elsewhere nothing happens). The bytes do not change: this only saves

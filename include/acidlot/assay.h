@@ -68,8 +68,7 @@ al_assay_counts al_assay_get_counts(const al_assay *run);
 al_diags *al_assay_diags(al_assay *run);
 /* Cochran's tests of the run (one per product with two or more results
  * of the same n); valid after finish. */
-size_t al_assay_cochran_count(const al_assay *run);
-const al_cochran *al_assay_cochran_at(const al_assay *run, size_t i);
+const al_cochran *al_assay_cochran(const al_assay *run, size_t *n);
 
 /* The flags of the i-th result (as in al_assay_result), without
  * evaluating it; 0 past the end. */

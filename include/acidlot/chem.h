@@ -67,8 +67,8 @@ typedef struct al_catalogue al_catalogue;
 al_catalogue *al_catalogue_new(al_status *status, al_diags *diags);
 void al_catalogue_free(al_catalogue *cat);
 
-size_t al_catalogue_acid_count(const al_catalogue *cat);
-const al_acid *al_catalogue_acid(const al_catalogue *cat, size_t i);
+/* The acids of the catalogue, *n of them. */
+const al_acid *al_catalogue_acids(const al_catalogue *cat, size_t *n);
 /* Finds an acid by key or alias, ignoring case, blanks, '_' vs '-' and a
  * trailing " acid". NULL when unknown. */
 const al_acid *al_catalogue_find(const al_catalogue *cat, const char *name);

@@ -32,8 +32,8 @@ al_register *al_register_new(al_status *status);
 al_register *al_register_read(FILE *in, const char *name, al_status *status,
 			      al_diags *diags);
 void al_register_free(al_register *reg);
-size_t al_register_count(const al_register *reg);
-const al_titrant *al_register_at(const al_register *reg, size_t i);
+/* Its lots in order, *n of them (none in a NULL register). */
+const al_titrant *al_register_all(const al_register *reg, size_t *n);
 const al_titrant *al_register_find(const al_register *reg, const char *lot);
 /* Adds a lot, or replaces the entry of the same lot; strings are copied. */
 al_status al_register_put(al_register *reg, const al_titrant *t);

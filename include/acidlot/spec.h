@@ -50,8 +50,8 @@ al_spec_table *al_spec_table_read(const al_catalogue *cat,
 				  const char *name, al_status *status,
 				  al_diags *diags);
 void al_spec_table_free(al_spec_table *table);
-size_t al_spec_count(const al_spec_table *table);
-const al_spec *al_spec_at(const al_spec_table *table, size_t i);
+/* Its specifications in file order, *n of them (none in a NULL table). */
+const al_spec *al_spec_all(const al_spec_table *table, size_t *n);
 /* The specification of a product (exact, case-sensitive match of the
  * NFC forms: products are read through al_text_identifier), or NULL. */
 const al_spec *al_spec_find(const al_spec_table *table, const char *product);

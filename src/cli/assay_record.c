@@ -44,9 +44,11 @@ static json_t *
 cochran_tests(const al_assay *run)
 {
 	json_t *cochran = json_array();
+	size_t n;
+	const al_cochran *tests = al_assay_cochran(run, &n);
 
-	for (size_t i = 0; cochran && i < al_assay_cochran_count(run); i++) {
-		const al_cochran *ct = al_assay_cochran_at(run, i);
+	for (size_t i = 0; cochran && i < n; i++) {
+		const al_cochran *ct = &tests[i];
 
 		if (json_array_append_new(
 			    cochran,

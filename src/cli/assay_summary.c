@@ -10,9 +10,11 @@ static void
 summary(const al_assay *run, const struct args *a, unsigned long rejected)
 {
 	al_assay_counts c = al_assay_get_counts(run);
+	size_t n;
+	const al_cochran *tests = al_assay_cochran(run, &n);
 
-	for (size_t i = 0; i < al_assay_cochran_count(run); i++) {
-		const al_cochran *t = al_assay_cochran_at(run, i);
+	for (size_t i = 0; i < n; i++) {
+		const al_cochran *t = &tests[i];
 		const al_group_result *r = al_assay_result(run, t->result);
 
 		cli_error("Cochran %s: C = %.4f over %zu results of n = %zu "

@@ -43,6 +43,8 @@ cmd_acids(int argc, char **argv)
 	};
 	int c, csv = 0;
 	al_catalogue *cat;
+	const al_acid *acids;
+	size_t n_acids;
 
 	optind = 1;
 	opterr = 0;
@@ -62,6 +64,7 @@ cmd_acids(int argc, char **argv)
 	cat = cli_catalogue();
 	if (cat == NULL)
 		return EXIT_TROUBLE;
+	acids = al_catalogue_acids(cat, &n_acids);
 	if (csv)
 		fputs("name,formula,molar_mass_g_mol,protons,g_per_meq,pka,"
 		      "notes,source\n",
@@ -69,8 +72,8 @@ cmd_acids(int argc, char **argv)
 	else
 		printf("%-19s %-12s %9s %3s %8s  %-16s %s\n", "name", "formula",
 		       "g/mol", "H+", "g/meq", "pKa (25 C)", "source");
-	for (size_t i = 0; i < al_catalogue_acid_count(cat); i++) {
-		const al_acid *a = al_catalogue_acid(cat, i);
+	for (size_t i = 0; i < n_acids; i++) {
+		const al_acid *a = &acids[i];
 		char pka[64], num[32];
 
 		pka_text(a, pka, sizeof pka);

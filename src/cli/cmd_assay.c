@@ -409,6 +409,7 @@ static int
 load_lookups(struct job *j)
 {
 	struct args *a = &j->a;
+	size_t n;
 
 	if (load_columns(a, &j->aliases, &j->n_aliases) != 0)
 		return -1;
@@ -419,16 +420,17 @@ load_lookups(struct job *j)
 	if (a->spec) {
 		j->specs = load_spec(a, j->cat, &j->spec_diags);
 		if (j->specs == NULL ||
-		    hash_input(&j->rec, "specification", a->spec,
-			       (long)al_spec_count(j->specs)))
+		    (al_spec_all(j->specs, &n),
+		     hash_input(&j->rec, "specification", a->spec, (long)n)))
 			return -1;
 		a->aopt.specs = j->specs;
 	}
 	if (a->titrants) {
 		j->titrants = load_titrants(a->titrants);
 		if (j->titrants == NULL ||
-		    hash_input(&j->rec, "titrant register", a->titrants,
-			       (long)al_register_count(j->titrants)))
+		    (al_register_all(j->titrants, &n),
+		     hash_input(&j->rec, "titrant register", a->titrants,
+				(long)n)))
 			return -1;
 		a->aopt.titrants = j->titrants;
 	}

@@ -274,9 +274,12 @@ cli_catalogue(void)
 void
 cli_list_acids(const al_catalogue *cat)
 {
+	size_t n;
+	const al_acid *acids = al_catalogue_acids(cat, &n);
+
 	fputs(PROG ": known acids:", stderr);
-	for (size_t i = 0; i < al_catalogue_acid_count(cat); i++)
-		fprintf(stderr, " %s", al_catalogue_acid(cat, i)->name);
+	for (size_t i = 0; i < n; i++)
+		fprintf(stderr, " %s", acids[i].name);
 	fputc('\n', stderr);
 }
 

@@ -10,6 +10,8 @@
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
+	const al_titrant *lots;
+	size_t n, n_again;
 	al_status st;
 	al_diags d = {0};
 	al_register *reg;
@@ -22,9 +24,9 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	al_diags_clear(&d);
 	if (reg == NULL)
 		return 0;
-	for (size_t i = 0; i < al_register_count(reg); i++)
-		if (al_register_find(reg, al_register_at(reg, i)->lot) !=
-		    al_register_at(reg, i))
+	lots = al_register_all(reg, &n);
+	for (size_t i = 0; i < n; i++)
+		if (al_register_find(reg, lots[i].lot) != &lots[i])
 			__builtin_trap();
 	if (st == AL_OK) {
 		char *text = NULL;
@@ -41,7 +43,7 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		again = al_register_read(f, "again.csv", &st, &d);
 		fclose(f);
 		if (again == NULL || st != AL_OK ||
-		    al_register_count(again) != al_register_count(reg))
+		    (al_register_all(again, &n_again), n_again != n))
 			__builtin_trap();
 		al_register_free(again);
 		al_diags_clear(&d);

@@ -37,7 +37,12 @@ molar_masses(void **state)
 	(void)state;
 	for (size_t i = 0; i < sizeof want / sizeof want[0]; i++)
 		assert_abs(acid(want[i].name)->molar_mass, want[i].m, 0.0005);
-	assert_true(al_catalogue_acid_count(cat) >= 13);
+	{
+		size_t n;
+
+		(void)al_catalogue_acids(cat, &n);
+		assert_true(n >= 13);
+	}
 }
 
 /* Factors (g per meq) against AOAC 942.15's list, to its published three

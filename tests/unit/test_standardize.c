@@ -238,6 +238,7 @@ dates(void **state)
 static void
 register_round_trip(void **state)
 {
+	size_t n;
 	const char *text =
 		"titrant_lot,standard,concentration_mol_l,u_mol_l,n,rsd_pct,"
 		"standardised_on,valid_until,valid\n"
@@ -255,7 +256,8 @@ register_round_trip(void **state)
 	(void)state;
 	fclose(f);
 	assert_non_null(reg);
-	assert_int_equal(al_register_count(reg), 2);
+	(void)al_register_all(reg, &n);
+	assert_int_equal(n, 2);
 	assert_true(al_register_find(reg, "N1")->valid);
 	assert_false(al_register_find(reg, "N2")->valid);
 	assert_rel(al_register_find(reg, "N1")->concentration_mol_l, 0.1002,
@@ -270,7 +272,8 @@ register_round_trip(void **state)
 	t.standardised_on = 20789;
 	t.valid_until = 20789 + 30;
 	assert_int_equal(al_register_put(reg, &t), AL_OK);
-	assert_int_equal(al_register_count(reg), 2);
+	(void)al_register_all(reg, &n);
+	assert_int_equal(n, 2);
 	o = open_memstream(&out, &len);
 	assert_int_equal(al_register_write(o, reg), AL_OK);
 	fclose(o);
