@@ -143,6 +143,35 @@ element_row(struct table *t, const al_csv_row *row)
 	return AL_OK;
 }
 
+/* The texts every entry has: its name, aliases and formula (columns 0,
+ * 1 and 2 of each table) and its source (column src). */
+static al_status
+entry_texts(struct table *t, const al_csv_row *row, int src, char **name,
+	    char **aliases, char **formula, char **source)
+{
+	*name = al_strdup(cell(t, row, 0));
+	*aliases = al_strdup(cell(t, row, 1));
+	*formula = al_strdup(cell(t, row, 2));
+	*source = al_strdup(cell(t, row, src));
+	return *name && *aliases && *formula && *source ? AL_OK : AL_ENOMEM;
+}
+
+/* The molar mass of an entry's formula, with its standard uncertainty
+ * when u is not NULL; an error naming the row when the formula cannot be
+ * read. */
+static al_status
+molar_mass(struct table *t, unsigned long line, const char *formula,
+	   double *m, double *u)
+{
+	const char *why = NULL;
+	al_status st = u ? al_formula_mass_u(t->cat, formula, m, u, &why)
+			 : al_formula_mass(t->cat, formula, m, &why);
+
+	if (st == AL_OK || st == AL_ENOMEM)
+		return st;
+	return bad(t, line, why, formula);
+}
+
 enum { AC_NAME, AC_ALIASES, AC_FORMULA, AC_PROTONS, AC_PKA, AC_NOTES,
        AC_SOURCE };
 static const char *const acid_cols[] = {"name",	   "aliases", "formula",
@@ -154,7 +183,7 @@ acid_row(struct table *t, const al_csv_row *row)
 {
 	al_catalogue *cat = t->cat;
 	al_acid *a, *grown;
-	const char *why = NULL, *pka;
+	const char *pka;
 	double protons;
 	al_status st;
 
@@ -165,12 +194,10 @@ acid_row(struct table *t, const al_csv_row *row)
 	a = &cat->acids[cat->n_acids];
 	memset(a, 0, sizeof *a);
 	cat->n_acids++;
-	a->name = al_strdup(cell(t, row, AC_NAME));
-	a->aliases = al_strdup(cell(t, row, AC_ALIASES));
-	a->formula = al_strdup(cell(t, row, AC_FORMULA));
 	a->notes = al_strdup(cell(t, row, AC_NOTES));
-	a->source = al_strdup(cell(t, row, AC_SOURCE));
-	if (!a->name || !a->aliases || !a->formula || !a->notes || !a->source)
+	if (a->notes == NULL ||
+	    entry_texts(t, row, AC_SOURCE, &a->name, &a->aliases, &a->formula,
+			&a->source) != AL_OK)
 		return AL_ENOMEM;
 	st = parse_double(t, row, AC_PROTONS, &protons);
 	if (st != AL_OK)
@@ -197,11 +224,9 @@ acid_row(struct table *t, const al_csv_row *row)
 		a->n_pka++;
 		pka += len;
 	}
-	st = al_formula_mass(cat, a->formula, &a->molar_mass, &why);
-	if (st == AL_ENOMEM)
-		return st;
+	st = molar_mass(t, row->line, a->formula, &a->molar_mass, NULL);
 	if (st != AL_OK)
-		return bad(t, row->line, why, a->formula);
+		return st;
 	/* E = M / protons / 1000 g per milliequivalent (METHODS.md s.1) */
 	a->g_per_meq = a->molar_mass / a->protons / 1000.0;
 	return AL_OK;
@@ -218,7 +243,6 @@ standard_row(struct table *t, const al_csv_row *row)
 {
 	al_catalogue *cat = t->cat;
 	al_standard *a, *grown;
-	const char *why = NULL;
 	double protons;
 	al_status st;
 
@@ -230,24 +254,16 @@ standard_row(struct table *t, const al_csv_row *row)
 	a = &cat->standards[cat->n_standards];
 	memset(a, 0, sizeof *a);
 	cat->n_standards++;
-	a->name = al_strdup(cell(t, row, ST_NAME));
-	a->aliases = al_strdup(cell(t, row, ST_ALIASES));
-	a->formula = al_strdup(cell(t, row, ST_FORMULA));
-	a->source = al_strdup(cell(t, row, ST_SOURCE));
-	if (!a->name || !a->aliases || !a->formula || !a->source)
+	if (entry_texts(t, row, ST_SOURCE, &a->name, &a->aliases, &a->formula,
+			&a->source) != AL_OK)
 		return AL_ENOMEM;
 	if ((st = parse_double(t, row, ST_PROTONS, &protons)) != AL_OK ||
 	    (st = parse_double(t, row, ST_PURITY, &a->purity)) != AL_OK ||
 	    (st = parse_double(t, row, ST_PURITY_U, &a->purity_u)) != AL_OK)
 		return st;
 	a->protons = (int)protons;
-	st = al_formula_mass_u(cat, a->formula, &a->molar_mass,
-			       &a->molar_mass_u, &why);
-	if (st == AL_ENOMEM)
-		return st;
-	if (st != AL_OK)
-		return bad(t, row->line, why, a->formula);
-	return AL_OK;
+	return molar_mass(t, row->line, a->formula, &a->molar_mass,
+			  &a->molar_mass_u);
 }
 
 enum { B_NAME, B_ALIASES, B_FORMULA, B_EQUIV, B_SOURCE };
@@ -259,7 +275,6 @@ base_row(struct table *t, const al_csv_row *row)
 {
 	al_catalogue *cat = t->cat;
 	al_base *b, *grown;
-	const char *why = NULL;
 	double eq;
 	al_status st;
 
@@ -270,21 +285,13 @@ base_row(struct table *t, const al_csv_row *row)
 	b = &cat->bases[cat->n_bases];
 	memset(b, 0, sizeof *b);
 	cat->n_bases++;
-	b->name = al_strdup(cell(t, row, B_NAME));
-	b->aliases = al_strdup(cell(t, row, B_ALIASES));
-	b->formula = al_strdup(cell(t, row, B_FORMULA));
-	b->source = al_strdup(cell(t, row, B_SOURCE));
-	if (!b->name || !b->aliases || !b->formula || !b->source)
+	if (entry_texts(t, row, B_SOURCE, &b->name, &b->aliases, &b->formula,
+			&b->source) != AL_OK)
 		return AL_ENOMEM;
 	if ((st = parse_double(t, row, B_EQUIV, &eq)) != AL_OK)
 		return st;
 	b->equivalents = (int)eq;
-	st = al_formula_mass(cat, b->formula, &b->molar_mass, &why);
-	if (st == AL_ENOMEM)
-		return st;
-	if (st != AL_OK)
-		return bad(t, row->line, why, b->formula);
-	return AL_OK;
+	return molar_mass(t, row->line, b->formula, &b->molar_mass, NULL);
 }
 
 static al_status
