@@ -57,7 +57,7 @@ al_assay_free(al_assay *run)
 		return;
 	al_groups_free(&run->groups);
 	al_rows_free(&run->rows);
-	al_labels_free(run->labels);
+	al_labels_clear(&run->labels);
 	al_diags_clear(&run->diags);
 	al_free_all((void *const *)run->files, run->n_files);
 	AL_FREE_ALL(run->files, run->kept, run->kept_text,
@@ -106,7 +106,7 @@ group_start(const al_assay *run, const al_group *g)
 
 /* A replicate label that the row's result has already: the same data
  * twice (a file given twice, rows pasted twice), an error naming both
- * rows. 1 when so (or when memory ran out: row_diags says). Checked
+ * rows; 1 when so. Checked
  * while the result keeps its values (AL_VALUES_KEPT): past them it keeps
  * running statistics only, and no memory grows with its rows. */
 static int
@@ -114,11 +114,7 @@ twice(al_assay *run, const al_group *g, const al_row *r)
 {
 	al_label_at at;
 
-	if (run->labels == NULL && (run->labels = al_labels_new()) == NULL) {
-		run->rows.row_diags.out_of_memory = 1;
-		return 1;
-	}
-	if (!al_labels_find(run->labels, &g->labels, group_index(run, g),
+	if (!al_labels_find(&run->labels, &g->labels, group_index(run, g),
 			    group_start(run, g), r->text[AL_T_REPLICATE],
 			    r->len[AL_T_REPLICATE], &at))
 		return 0;
@@ -342,7 +338,7 @@ add_row(al_assay *run, al_group *g, const al_row *r)
 		st = al_groups_note_extremes(&run->groups, g, &in);
 	if (st == AL_OK && r->len[AL_T_REPLICATE] > 0 && g->n < AL_VALUES_KEPT)
 		st = al_labels_add(
-			run->labels, &g->labels, group_index(run, g),
+			&run->labels, &g->labels, group_index(run, g),
 			group_start(run, g), r->text[AL_T_REPLICATE],
 			r->len[AL_T_REPLICATE],
 			(al_label_at){(uint32_t)(run->n_files - 1), r->line});

@@ -5,6 +5,7 @@
 
 #include <ctype.h>
 #include <math.h>
+#include <stddef.h>
 #include <string.h>
 
 #include "acidlot/alloc.h"
@@ -39,7 +40,8 @@ struct table {
 	al_diags *diags;
 	int header_done;
 	int col[8];
-	const char *const *names;
+	char text[256]; /* the column names, each NUL-terminated */
+	const char *names[8];
 	size_t n_names;
 	al_status (*row)(struct table *, const al_csv_row *);
 };
@@ -93,28 +95,39 @@ parse_double(struct table *t, const al_csv_row *row, int k, double *out)
 }
 
 enum { EL_SYMBOL, EL_NAME, EL_WEIGHT, EL_SOURCE, EL_LOW, EL_HIGH, EL_U };
-static const char *const element_cols[] = {"symbol",	   "name",
-					   "atomic_weight", "source",
-					   "interval_low",  "interval_high",
-					   "uncertainty"};
+static const char element_cols[] =
+	"symbol,name,atomic_weight,source,interval_low,interval_high,uncertainty";
+
+/* A new zeroed item at the end of the array whose pointer is at arrayp
+ * (*n items of size bytes, one more after); NULL when memory runs out
+ * (the array unchanged). */
+static void *
+append(void *arrayp, size_t *n, size_t size)
+{
+	char *items, *grown;
+
+	memcpy(&items, arrayp, sizeof items);
+	grown = al_realloc(items, (*n + 1) * size);
+	if (grown == NULL)
+		return NULL;
+	memcpy(arrayp, &grown, sizeof grown);
+	memset(grown + *n * size, 0, size);
+	return grown + (*n)++ * size;
+}
 
 static al_status
 element_row(struct table *t, const al_csv_row *row)
 {
 	al_catalogue *cat = t->cat;
-	al_element *e, *grown;
+	al_element *e;
 	const char *sym = cell(t, row, EL_SYMBOL);
 	al_status st;
 
 	if (strlen(sym) == 0 || strlen(sym) >= sizeof e->symbol)
 		return bad(t, row->line, "bad element symbol", sym);
-	grown = al_realloc(cat->elements,
-			   (cat->n_elements + 1) * sizeof *grown);
-	if (grown == NULL)
+	e = append(&cat->elements, &cat->n_elements, sizeof *e);
+	if (e == NULL)
 		return AL_ENOMEM;
-	cat->elements = grown;
-	e = &cat->elements[cat->n_elements];
-	memset(e, 0, sizeof *e);
 	strcpy(e->symbol, sym);
 	st = parse_double(t, row, EL_WEIGHT, &e->atomic_weight);
 	if (st != AL_OK)
@@ -137,14 +150,14 @@ element_row(struct table *t, const al_csv_row *row)
 	}
 	e->name = al_strdup(cell(t, row, EL_NAME));
 	e->source = al_strdup(cell(t, row, EL_SOURCE));
-	cat->n_elements++;
 	if (e->name == NULL || e->source == NULL)
 		return AL_ENOMEM;
 	return AL_OK;
 }
 
 /* The texts every entry has: its name, aliases and formula (columns 0,
- * 1 and 2 of each table) and its source (column src). */
+ * 1 and 2 of the acid, standard and base tables; their enums go on from
+ * 3) and its source (column src). */
 static al_status
 entry_texts(struct table *t, const al_csv_row *row, int src, char **name,
 	    char **aliases, char **formula, char **source)
@@ -172,28 +185,22 @@ molar_mass(struct table *t, unsigned long line, const char *formula,
 	return bad(t, line, why, formula);
 }
 
-enum { AC_NAME, AC_ALIASES, AC_FORMULA, AC_PROTONS, AC_PKA, AC_NOTES,
-       AC_SOURCE };
-static const char *const acid_cols[] = {"name",	   "aliases", "formula",
-					"protons", "pka",     "notes",
-					"source"};
+enum { AC_PROTONS = 3, AC_PKA, AC_NOTES, AC_SOURCE };
+static const char acid_cols[] =
+	"name,aliases,formula,protons,pka,notes,source";
 
 static al_status
 acid_row(struct table *t, const al_csv_row *row)
 {
 	al_catalogue *cat = t->cat;
-	al_acid *a, *grown;
+	al_acid *a;
 	const char *pka;
 	double protons;
 	al_status st;
 
-	grown = al_realloc(cat->acids, (cat->n_acids + 1) * sizeof *grown);
-	if (grown == NULL)
+	a = append(&cat->acids, &cat->n_acids, sizeof *a);
+	if (a == NULL)
 		return AL_ENOMEM;
-	cat->acids = grown;
-	a = &cat->acids[cat->n_acids];
-	memset(a, 0, sizeof *a);
-	cat->n_acids++;
 	a->notes = al_strdup(cell(t, row, AC_NOTES));
 	if (a->notes == NULL ||
 	    entry_texts(t, row, AC_SOURCE, &a->name, &a->aliases, &a->formula,
@@ -232,59 +239,48 @@ acid_row(struct table *t, const al_csv_row *row)
 	return AL_OK;
 }
 
-enum { ST_NAME, ST_ALIASES, ST_FORMULA, ST_PROTONS, ST_PURITY, ST_PURITY_U,
-       ST_SOURCE };
-static const char *const standard_cols[] = {"name",    "aliases", "formula",
-					    "protons", "purity",  "purity_u",
-					    "source"};
+enum { ST_PROTONS = 3, ST_PURITY, ST_PURITY_U, ST_SOURCE };
+static const char standard_cols[] =
+	"name,aliases,formula,protons,purity,purity_u,source";
 
 static al_status
 standard_row(struct table *t, const al_csv_row *row)
 {
-	al_catalogue *cat = t->cat;
-	al_standard *a, *grown;
-	double protons;
+	double protons, purity, purity_u;
+	al_standard *a;
 	al_status st;
 
-	grown = al_realloc(cat->standards,
-			   (cat->n_standards + 1) * sizeof *grown);
-	if (grown == NULL)
+	if ((st = parse_double(t, row, ST_PROTONS, &protons)) != AL_OK ||
+	    (st = parse_double(t, row, ST_PURITY, &purity)) != AL_OK ||
+	    (st = parse_double(t, row, ST_PURITY_U, &purity_u)) != AL_OK)
+		return st;
+	a = append(&t->cat->standards, &t->cat->n_standards, sizeof *a);
+	if (a == NULL)
 		return AL_ENOMEM;
-	cat->standards = grown;
-	a = &cat->standards[cat->n_standards];
-	memset(a, 0, sizeof *a);
-	cat->n_standards++;
+	*a = (al_standard){.protons = (int)protons,
+			   .purity = purity,
+			   .purity_u = purity_u};
 	if (entry_texts(t, row, ST_SOURCE, &a->name, &a->aliases, &a->formula,
 			&a->source) != AL_OK)
 		return AL_ENOMEM;
-	if ((st = parse_double(t, row, ST_PROTONS, &protons)) != AL_OK ||
-	    (st = parse_double(t, row, ST_PURITY, &a->purity)) != AL_OK ||
-	    (st = parse_double(t, row, ST_PURITY_U, &a->purity_u)) != AL_OK)
-		return st;
-	a->protons = (int)protons;
 	return molar_mass(t, row->line, a->formula, &a->molar_mass,
 			  &a->molar_mass_u);
 }
 
-enum { B_NAME, B_ALIASES, B_FORMULA, B_EQUIV, B_SOURCE };
-static const char *const base_cols[] = {"name", "aliases", "formula",
-					"hydroxide_equivalents", "source"};
+enum { B_EQUIV = 3, B_SOURCE };
+static const char base_cols[] =
+	"name,aliases,formula,hydroxide_equivalents,source";
 
 static al_status
 base_row(struct table *t, const al_csv_row *row)
 {
-	al_catalogue *cat = t->cat;
-	al_base *b, *grown;
+	al_base *b;
 	double eq;
 	al_status st;
 
-	grown = al_realloc(cat->bases, (cat->n_bases + 1) * sizeof *grown);
-	if (grown == NULL)
+	b = append(&t->cat->bases, &t->cat->n_bases, sizeof *b);
+	if (b == NULL)
 		return AL_ENOMEM;
-	cat->bases = grown;
-	b = &cat->bases[cat->n_bases];
-	memset(b, 0, sizeof *b);
-	cat->n_bases++;
 	if (entry_texts(t, row, B_SOURCE, &b->name, &b->aliases, &b->formula,
 			&b->source) != AL_OK)
 		return AL_ENOMEM;
@@ -294,50 +290,56 @@ base_row(struct table *t, const al_csv_row *row)
 	return molar_mass(t, row->line, b->formula, &b->molar_mass, NULL);
 }
 
-static al_status
-load_table(al_catalogue *cat, const unsigned char *data, size_t len,
-	   const char *file, const char *const *names, size_t n_names,
-	   al_status (*row)(struct table *, const al_csv_row *),
-	   al_diags *diags)
-{
-	struct table t;
+/* One of the built-in tables: its bytes, name, columns as its header
+ * line names them ("name,aliases,formula,..."; at most 8) and reader of
+ * a row. */
+struct table_kind {
+	const unsigned char *data;
+	const size_t *len;
+	const char *file, *cols;
+	al_status (*row)(struct table *, const al_csv_row *);
+};
 
-	memset(&t, 0, sizeof t);
-	t.cat = cat;
-	t.file = file;
-	t.diags = diags;
-	t.names = names;
-	t.n_names = n_names;
-	t.row = row;
-	return al_csv_read_mem(NULL, (const char *)data, len, file, table_row,
-			       &t, diags);
+static al_status
+load_table(al_catalogue *cat, const struct table_kind *k, al_diags *diags)
+{
+	struct table t = {
+		.cat = cat, .file = k->file, .diags = diags, .row = k->row};
+
+	snprintf(t.text, sizeof t.text, "%s", k->cols);
+	for (char *c = t.text; c && t.n_names < 8; c = strchr(c, ',')) {
+		if (*c == ',')
+			*c++ = '\0';
+		t.names[t.n_names++] = c;
+	}
+	return al_csv_read_mem(NULL, (const char *)k->data, *k->len, k->file,
+			       table_row, &t, diags);
 }
 
 al_catalogue *
 al_catalogue_new(al_status *status, al_diags *diags)
 {
+	/* elements first: the others' molar masses need them */
+	static const struct table_kind tables[] = {
+		{al_ref_atomic_weights, &al_ref_atomic_weights_len,
+		 "reference/atomic_weights.csv", element_cols, element_row},
+		{al_ref_acids, &al_ref_acids_len, "reference/acids.csv",
+		 acid_cols, acid_row},
+		{al_ref_standards, &al_ref_standards_len,
+		 "reference/standards.csv", standard_cols, standard_row},
+		{al_ref_bases, &al_ref_bases_len, "reference/bases.csv",
+		 base_cols, base_row},
+	};
 	al_catalogue *cat = al_calloc(1, sizeof *cat);
-	al_status st;
+	al_status st = AL_OK;
 
 	if (cat == NULL) {
 		*status = AL_ENOMEM;
 		return NULL;
 	}
-	st = load_table(cat, al_ref_atomic_weights, al_ref_atomic_weights_len,
-			"reference/atomic_weights.csv", element_cols, 7,
-			element_row, diags);
-	if (st == AL_OK)
-		st = load_table(cat, al_ref_acids, al_ref_acids_len,
-				"reference/acids.csv", acid_cols, 7, acid_row,
-				diags);
-	if (st == AL_OK)
-		st = load_table(cat, al_ref_standards, al_ref_standards_len,
-				"reference/standards.csv", standard_cols, 7,
-				standard_row, diags);
-	if (st == AL_OK)
-		st = load_table(cat, al_ref_bases, al_ref_bases_len,
-				"reference/bases.csv", base_cols, 5, base_row,
-				diags);
+	for (size_t i = 0; st == AL_OK && i < sizeof tables / sizeof tables[0];
+	     i++)
+		st = load_table(cat, &tables[i], diags);
 	if (st != AL_OK) {
 		al_catalogue_free(cat);
 		*status = st;
@@ -345,24 +347,6 @@ al_catalogue_new(al_status *status, al_diags *diags)
 	}
 	*status = AL_OK;
 	return cat;
-}
-
-void
-al_catalogue_free(al_catalogue *cat)
-{
-	if (cat == NULL)
-		return;
-	for (size_t i = 0; i < cat->n_elements; i++)
-		AL_FREE_ALL(cat->elements[i].name, cat->elements[i].source);
-	for (const al_acid *a = cat->acids; a < cat->acids + cat->n_acids; a++)
-		AL_FREE_ALL(a->name, a->aliases, a->formula, a->notes,
-			    a->source);
-	for (const al_standard *a = cat->standards;
-	     a < cat->standards + cat->n_standards; a++)
-		AL_FREE_ALL(a->name, a->aliases, a->formula, a->source);
-	for (const al_base *b = cat->bases; b < cat->bases + cat->n_bases; b++)
-		AL_FREE_ALL(b->name, b->aliases, b->formula, b->source);
-	AL_FREE_ALL(cat->bases, cat->standards, cat->elements, cat->acids, cat);
 }
 
 const al_acid *
@@ -422,13 +406,31 @@ entry_matches(const char *name, const char *key, const char *aliases)
 	return 0;
 }
 
+/* The first of n entries (size bytes each, their name first and their
+ * aliases at aliases_at: acids, standards, bases) that name matches;
+ * NULL when none does. */
+static const void *
+find_entry(const void *entries, size_t n, size_t size, size_t aliases_at,
+	   const char *name)
+{
+	const char *e = entries;
+
+	for (size_t i = 0; i < n; i++, e += size) {
+		const char *entry_name, *aliases;
+
+		memcpy(&entry_name, e, sizeof entry_name);
+		memcpy(&aliases, e + aliases_at, sizeof aliases);
+		if (entry_matches(name, entry_name, aliases))
+			return e;
+	}
+	return NULL;
+}
+
 const al_acid *
 al_catalogue_find(const al_catalogue *cat, const char *name)
 {
-	for (size_t i = 0; i < cat->n_acids; i++)
-		if (entry_matches(name, cat->acids[i].name, cat->acids[i].aliases))
-			return &cat->acids[i];
-	return NULL;
+	return find_entry(cat->acids, cat->n_acids, sizeof *cat->acids,
+			  offsetof(al_acid, aliases), name);
 }
 
 const al_element *
@@ -600,45 +602,35 @@ al_formula_mass(const al_catalogue *cat, const char *formula,
 	return al_formula_mass_u(cat, formula, molar_mass, NULL, why);
 }
 
-size_t
-al_catalogue_standard_count(const al_catalogue *cat)
-{
-	return cat->n_standards;
-}
-
-const al_standard *
-al_catalogue_standard(const al_catalogue *cat, size_t i)
-{
-	return i < cat->n_standards ? &cat->standards[i] : NULL;
-}
-
 const al_standard *
 al_catalogue_find_standard(const al_catalogue *cat, const char *name)
 {
-	for (size_t i = 0; i < cat->n_standards; i++)
-		if (entry_matches(name, cat->standards[i].name,
-				  cat->standards[i].aliases))
-			return &cat->standards[i];
-	return NULL;
+	return find_entry(cat->standards, cat->n_standards,
+			  sizeof *cat->standards, offsetof(al_standard, aliases),
+			  name);
 }
 
 const al_base *
 al_catalogue_find_base(const al_catalogue *cat, const char *name)
 {
-	for (size_t i = 0; i < cat->n_bases; i++)
-		if (entry_matches(name, cat->bases[i].name, cat->bases[i].aliases))
-			return &cat->bases[i];
-	return NULL;
+	return find_entry(cat->bases, cat->n_bases, sizeof *cat->bases,
+			  offsetof(al_base, aliases), name);
 }
 
-size_t
-al_catalogue_base_count(const al_catalogue *cat)
+void
+al_catalogue_free(al_catalogue *cat)
 {
-	return cat->n_bases;
-}
-
-const al_base *
-al_catalogue_base(const al_catalogue *cat, size_t i)
-{
-	return i < cat->n_bases ? &cat->bases[i] : NULL;
+	if (cat == NULL)
+		return;
+	for (size_t i = 0; i < cat->n_elements; i++)
+		AL_FREE_ALL(cat->elements[i].name, cat->elements[i].source);
+	for (const al_acid *a = cat->acids; a < cat->acids + cat->n_acids; a++)
+		AL_FREE_ALL(a->name, a->aliases, a->formula, a->notes,
+			    a->source);
+	for (const al_standard *a = cat->standards;
+	     a < cat->standards + cat->n_standards; a++)
+		AL_FREE_ALL(a->name, a->aliases, a->formula, a->source);
+	for (const al_base *b = cat->bases; b < cat->bases + cat->n_bases; b++)
+		AL_FREE_ALL(b->name, b->aliases, b->formula, b->source);
+	AL_FREE_ALL(cat->bases, cat->standards, cat->elements, cat->acids, cat);
 }

@@ -506,18 +506,18 @@ struct al_cochran_acc {
 	size_t last; /* 1 + the cell of the previous result */
 };
 
-al_cochran_acc *
-al_cochran_acc_new(void)
-{
-	return al_calloc(1, sizeof(al_cochran_acc));
-}
-
 void
 al_cochran_acc_free(al_cochran_acc *acc)
 {
 	if (acc == NULL)
 		return;
 	AL_FREE_ALL(acc->cells, acc->slots, acc);
+}
+
+al_cochran_acc *
+al_cochran_acc_new(void)
+{
+	return al_calloc(1, sizeof(al_cochran_acc));
 }
 
 static uint64_t

@@ -17,11 +17,6 @@ struct more_label {
 	al_label_at at;
 };
 
-struct al_labels {
-	struct more_label *more;
-	size_t n_more, cap_more; /* cap a power of two, or 0 */
-};
-
 /* The table's key: up to 7 bytes, the bytes and the length; longer, a
  * 56-bit hash (FNV-1a, 64 bit, mixed). Never 0. */
 static uint64_t
@@ -43,18 +38,11 @@ slot_key(const char *s, size_t len)
 	return len == 1 ? (uint8_t)s[0] : 0;
 }
 
-al_labels *
-al_labels_new(void)
-{
-	return al_calloc(1, sizeof(al_labels));
-}
-
 void
-al_labels_free(al_labels *l)
+al_labels_clear(al_labels *l)
 {
-	if (l == NULL)
-		return;
-	AL_FREE_ALL(l->more, l);
+	al_free(l->more);
+	memset(l, 0, sizeof *l);
 }
 
 static size_t

@@ -29,11 +29,14 @@ typedef struct al_label_at {
 	unsigned long line;
 } al_label_at;
 
-/* The run's table of the labels that are not in a result's slots. */
-typedef struct al_labels al_labels;
+/* The run's table of the labels that are not in a result's slots;
+ * zeroed, it is empty. */
+typedef struct al_labels {
+	struct more_label *more;
+	size_t n_more, cap_more; /* cap a power of two, or 0 */
+} al_labels;
 
-al_labels *al_labels_new(void);
-void al_labels_free(al_labels *l);
+void al_labels_clear(al_labels *l);
 
 /* 1 and *at when the result (index group, its slots, begun at first)
  * has the label s[0..len) already; else 0. Labels compare byte for

@@ -48,17 +48,6 @@ al_register_new(al_status *status)
 	return reg;
 }
 
-void
-al_register_free(al_register *reg)
-{
-	if (reg == NULL)
-		return;
-	for (size_t i = 0; i < reg->count; i++)
-		AL_FREE_ALL(reg->items[i].lot, reg->items[i].standard);
-	al_strindex_free(&reg->index);
-	AL_FREE_ALL(reg->items, reg);
-}
-
 const al_titrant *
 al_register_all(const al_register *reg, size_t *n)
 {
@@ -149,9 +138,8 @@ static al_status
 reg_header(struct reader *r, const al_csv_row *row)
 {
 	r->header_done = 1;
-	r->fields = row->nfields;
-	if (al_header_map(AL_UNKNOWN_ERROR, row, reg_cols, R_COUNT, NULL, 0,
-			  r->col, r->file, r->diags) != AL_OK)
+	if (al_own_header(row, reg_cols, R_COUNT, r->col, &r->fields, r->file,
+			  r->diags) != AL_OK)
 		r->bad = 1;
 	for (int k = 0; k < R_COUNT; k++)
 		if (r->col[k] < 0 && k != R_RSD) {
@@ -275,12 +263,9 @@ al_register *
 al_register_read(FILE *in, const char *name, al_status *status,
 		 al_diags *diags)
 {
-	struct reader r;
+	struct reader r = {.file = name, .diags = diags};
 	al_status st;
 
-	memset(&r, 0, sizeof r);
-	r.file = name;
-	r.diags = diags;
 	r.reg = al_register_new(status);
 	if (r.reg == NULL)
 		return NULL;
@@ -322,4 +307,15 @@ al_register_write(FILE *out, const al_register *reg)
 		fprintf(out, ",%s,%s,%s\n", on, until, t->valid ? "yes" : "no");
 	}
 	return ferror(out) ? AL_EIO : AL_OK;
+}
+
+void
+al_register_free(al_register *reg)
+{
+	if (reg == NULL)
+		return;
+	for (al_titrant *t = reg->items; t < reg->items + reg->count; t++)
+		AL_FREE_ALL(t->lot, t->standard);
+	al_strindex_free(&reg->index);
+	AL_FREE_ALL(reg->items, reg);
 }

@@ -636,6 +636,22 @@ put_results_2(struct sink *k, const al_assay *run, size_t n,
 	return st;
 }
 
+/* The report's columns (and report_id last when the run has one). */
+#define REPORT_COLUMNS                                                        \
+	"product,lot,sample,acid,unit,n,mean,sd,rsd_pct,ci95_low,ci95_high,"   \
+	"spec_min,spec_max,status,flags,median,grubbs_g,dixon_q,range,"        \
+	"critical_range,horrat,u,U,k,brix,brix_corrected,brix_acid_ratio,"     \
+	"water_pct,basis"
+
+/* A table's sink, opened on kb, and its header line. */
+static void
+table_start(struct sink *k, FILE *out, char *kb, size_t cap,
+	    const char *names, al_report_options *opt)
+{
+	sink_open(k, out, kb, cap);
+	header(k, names, opt);
+}
+
 al_status
 al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
@@ -643,19 +659,9 @@ al_report_write(FILE *out, const al_assay *run, al_report_options *opt)
 	struct sink k;
 	size_t n = al_assay_group_count(run);
 
-	sink_open(&k, out, kb, sizeof kb);
-	header(&k,
-	       opt->report_id ? "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
-				"ci95_low,ci95_high,spec_min,spec_max,status,"
-				"flags,median,grubbs_g,dixon_q,range,"
-				"critical_range,horrat,u,U,k,brix,brix_corrected,"
-				"brix_acid_ratio,water_pct,basis,report_id"
-			      : "product,lot,sample,acid,unit,n,mean,sd,rsd_pct,"
-				"ci95_low,ci95_high,spec_min,spec_max,status,"
-				"flags,median,grubbs_g,dixon_q,range,"
-				"critical_range,horrat,u,U,k,brix,brix_corrected,"
-				"brix_acid_ratio,water_pct,basis",
-	       opt);
+	table_start(&k, out, kb, sizeof kb,
+		    opt->report_id ? REPORT_COLUMNS ",report_id" : REPORT_COLUMNS,
+		    opt);
 	if (n >= AL_LANES_MIN && opt->threads != 1) {
 		if (put_results_2(&k, run, n, opt) != AL_OK) {
 			sink_flush(&k);
@@ -674,8 +680,7 @@ header_only(FILE *out, const char *names, al_report_options *opt)
 	char kb[SINK_BYTES];
 	struct sink k;
 
-	sink_open(&k, out, kb, sizeof kb);
-	header(&k, names, opt);
+	table_start(&k, out, kb, sizeof kb, names, opt);
 	return done(&k, opt);
 }
 
@@ -746,13 +751,13 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 {
 	static char kb[SINK_BYTES]; /* off the stack */
 	struct sink k;
-	char d = delim_of(opt);
+	char d;
 
-	sink_open(&k, out, kb, sizeof kb);
-	header(&k,
-	       "product,lot,sample,component,value,unit,standard_uncertainty,"
-	       "sensitivity,contribution,share_pct",
-	       opt);
+	table_start(&k, out, kb, sizeof kb,
+		    "product,lot,sample,component,value,unit,"
+		    "standard_uncertainty,sensitivity,contribution,share_pct",
+		    opt);
+	d = delim_of(opt);
 	for (size_t i = 0; i < al_assay_group_count(run); i++) {
 		const al_group_result *r = al_assay_result(run, i);
 

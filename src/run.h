@@ -36,7 +36,7 @@ struct al_assay {
 	al_groups groups; /* the results they make (groups.h) */
 	char **files;
 	size_t n_files;
-	al_labels *labels; /* replicate labels beyond the groups' slots */
+	al_labels labels; /* replicate labels beyond the groups' slots */
 	al_replicate_fn on_row;
 	void *ud;
 	struct kept_row *kept;

@@ -63,9 +63,8 @@ static al_status
 spec_header(struct spec_reader *r, const al_csv_row *row)
 {
 	r->header_done = 1;
-	r->header_fields = row->nfields;
-	if (al_header_map(AL_UNKNOWN_ERROR, row, spec_cols, C_COUNT, NULL, 0,
-			  r->col, r->file, r->diags) != AL_OK)
+	if (al_own_header(row, spec_cols, C_COUNT, r->col, &r->header_fields,
+			  r->file, r->diags) != AL_OK)
 		r->bad = 1;
 	/* the specification's delimiter is told from its header: a
 	 * comma-delimited one has '.' decimals, whatever the titration
@@ -323,14 +322,14 @@ al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
 		   FILE *in, const char *name, al_status *status,
 		   al_diags *diags)
 {
-	struct spec_reader r;
+	struct spec_reader r = {
+		.cat = cat,
+		.file = name,
+		.diags = diags,
+		.point = csv && csv->decimal_point ? csv->decimal_point : '.',
+	};
 	al_status st;
 
-	memset(&r, 0, sizeof r);
-	r.cat = cat;
-	r.file = name;
-	r.diags = diags;
-	r.point = csv && csv->decimal_point ? csv->decimal_point : '.';
 	r.table = al_calloc(1, sizeof *r.table);
 	if (r.table == NULL) {
 		*status = AL_ENOMEM;
@@ -368,13 +367,6 @@ al_spec_table_free(al_spec_table *table)
 			    table->loose ? table->loose[i] : NULL);
 	al_strindex_free(&table->index);
 	AL_FREE_ALL(table->loose, table->specs, table);
-}
-
-const al_spec *
-al_spec_all(const al_spec_table *table, size_t *n)
-{
-	*n = table ? table->count : 0;
-	return table ? table->specs : NULL;
 }
 
 const al_spec *
@@ -481,4 +473,11 @@ al_judge_rule(const al_spec *spec, const al_summary *s, al_decision_rule rule,
 	    (spec->has_max && s->mean > spec->max + w))
 		return AL_VERDICT_FAIL;
 	return inside ? AL_VERDICT_COND_PASS : AL_VERDICT_COND_FAIL;
+}
+
+const al_spec *
+al_spec_all(const al_spec_table *table, size_t *n)
+{
+	*n = table ? table->count : 0;
+	return table ? table->specs : NULL;
 }

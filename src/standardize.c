@@ -147,18 +147,6 @@ al_std_new(const al_catalogue *cat, const al_std_params *p, long today,
 	return run;
 }
 
-void
-al_std_free(al_std_run *run)
-{
-	if (run == NULL)
-		return;
-	for (size_t i = 0; i < run->n_lots; i++)
-		AL_FREE_ALL(run->lots[i].name, run->lots[i].rows);
-	al_free_all((void *const *)run->files, run->n_files);
-	al_diags_clear(&run->diags);
-	AL_FREE_ALL(run->files, run->ident, run->lots, run->results, run);
-}
-
 al_diags *
 al_std_diags(al_std_run *run)
 {
@@ -514,4 +502,16 @@ al_std_finish(al_std_run *run)
 		}
 	}
 	return AL_OK;
+}
+
+void
+al_std_free(al_std_run *run)
+{
+	if (run == NULL)
+		return;
+	al_free_all((void *const *)run->files, run->n_files);
+	al_diags_clear(&run->diags);
+	for (size_t i = 0; i < run->n_lots; i++)
+		AL_FREE_ALL(run->lots[i].name, run->lots[i].rows);
+	AL_FREE_ALL(run->files, run->ident, run->lots, run->results, run);
 }

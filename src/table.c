@@ -386,6 +386,16 @@ edit_distance(const char *a, size_t la, const char *b, size_t lb)
 	return prev[lb];
 }
 
+al_status
+al_own_header(const al_csv_row *header, const char *const *names,
+	      size_t n_names, int *index, size_t *fields, const char *file,
+	      al_diags *diags)
+{
+	*fields = header->nfields;
+	return al_header_map(AL_UNKNOWN_ERROR, header, names, n_names, NULL, 0,
+			     index, file, diags);
+}
+
 const char *
 al_header_closest(const al_csv_row *header, const char *name)
 {

@@ -9,29 +9,34 @@ struct unit_info {
 	const char *name;
 	al_basis basis;
 	int meq;
-	double per; /* g or mL of sample */
+	double per;	     /* g or mL of sample */
+	const char *aliases; /* other names, lower case, blank-separated */
 };
 
+/* ISO 750 writes meq as mmol of H+. */
 static const struct unit_info units[AL_UNIT_COUNT] = {
-	[AL_UNIT_G_100G] = {"g/100g", AL_BASIS_MASS, 0, 100},
-	[AL_UNIT_G_KG] = {"g/kg", AL_BASIS_MASS, 0, 1000},
-	[AL_UNIT_G_100ML] = {"g/100mL", AL_BASIS_VOLUME, 0, 100},
-	[AL_UNIT_G_L] = {"g/L", AL_BASIS_VOLUME, 0, 1000},
-	[AL_UNIT_MEQ_100G] = {"meq/100g", AL_BASIS_MASS, 1, 100},
-	[AL_UNIT_MEQ_L] = {"meq/L", AL_BASIS_VOLUME, 1, 1000},
+	[AL_UNIT_G_100G] = {"g/100g", AL_BASIS_MASS, 0, 100, "%w/w %m/m"},
+	[AL_UNIT_G_KG] = {"g/kg", AL_BASIS_MASS, 0, 1000, "mg/g g/1000g"},
+	[AL_UNIT_G_100ML] = {"g/100mL", AL_BASIS_VOLUME, 0, 100, "%w/v %m/v"},
+	[AL_UNIT_G_L] = {"g/L", AL_BASIS_VOLUME, 0, 1000, "g/1000ml mg/ml"},
+	[AL_UNIT_MEQ_100G] = {"meq/100g", AL_BASIS_MASS, 1, 100,
+			      "mmolh+/100g"},
+	[AL_UNIT_MEQ_L] = {"meq/L", AL_BASIS_VOLUME, 1, 1000, "mmolh+/l"},
 };
 
-static const struct {
-	const char *alias;
-	al_unit unit;
-} aliases[] = {
-	{"%w/w", AL_UNIT_G_100G},       {"%m/m", AL_UNIT_G_100G},
-	{"%w/v", AL_UNIT_G_100ML},      {"%m/v", AL_UNIT_G_100ML},
-	/* ISO 750 writes meq as mmol of H+ */
-	{"mmolh+/100g", AL_UNIT_MEQ_100G}, {"mmolh+/l", AL_UNIT_MEQ_L},
-	{"g/1000ml", AL_UNIT_G_L},      {"mg/ml", AL_UNIT_G_L},
-	{"mg/g", AL_UNIT_G_KG},         {"g/1000g", AL_UNIT_G_KG},
-};
+/* Whether key is one of a blank-separated list of words. */
+static int
+in_list(const char *key, const char *list)
+{
+	size_t len = strlen(key);
+
+	for (const char *w = list; *w; w += strcspn(w, " ")) {
+		w += strspn(w, " ");
+		if (strncmp(w, key, len) == 0 && (w[len] == ' ' || !w[len]))
+			return 1;
+	}
+	return 0;
+}
 
 /* Lower case without blanks. */
 static void
@@ -55,16 +60,11 @@ al_unit_parse(const char *name, al_unit *unit)
 	squeeze(name, key, sizeof key);
 	for (int u = 0; u < AL_UNIT_COUNT; u++) {
 		squeeze(units[u].name, cand, sizeof cand);
-		if (strcmp(key, cand) == 0) {
+		if (strcmp(key, cand) == 0 || in_list(key, units[u].aliases)) {
 			*unit = (al_unit)u;
 			return AL_OK;
 		}
 	}
-	for (size_t i = 0; i < sizeof aliases / sizeof aliases[0]; i++)
-		if (strcmp(key, aliases[i].alias) == 0) {
-			*unit = aliases[i].unit;
-			return AL_OK;
-		}
 	return AL_ENOTFOUND;
 }
 

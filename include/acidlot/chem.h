@@ -74,13 +74,9 @@ const al_acid *al_catalogue_acids(const al_catalogue *cat, size_t *n);
 const al_acid *al_catalogue_find(const al_catalogue *cat, const char *name);
 const al_element *al_catalogue_element(const al_catalogue *cat,
 				       const char *symbol);
-size_t al_catalogue_standard_count(const al_catalogue *cat);
-const al_standard *al_catalogue_standard(const al_catalogue *cat, size_t i);
 /* A base (NaOH, KOH, Na2CO3, Ca(OH)2) by name or alias; NULL if none. */
 const al_base *al_catalogue_find_base(const al_catalogue *cat,
 				      const char *name);
-size_t al_catalogue_base_count(const al_catalogue *cat);
-const al_base *al_catalogue_base(const al_catalogue *cat, size_t i);
 /* A primary standard by name or alias (matched like acids); NULL if none. */
 const al_standard *al_catalogue_find_standard(const al_catalogue *cat,
 					      const char *name);

@@ -37,6 +37,13 @@ al_status al_header_map(al_unknown_columns unknown,const al_csv_row *header, con
 			size_t n_aliases, int *index, const char *file,
 			al_diags *diags);
 
+/* The header of one of our own tables (specification, register):
+ * unknown columns are errors; *fields gets its field count. AL_OK, or
+ * AL_EINPUT after the errors went to diags. */
+al_status al_own_header(const al_csv_row *header, const char *const *names,
+			size_t n_names, int *index, size_t *fields,
+			const char *file, al_diags *diags);
+
 /* The header cell closest to `name` (edit distance, ignoring case, '_'
  * and blanks), or NULL when none is close. */
 const char *al_header_closest(const al_csv_row *header, const char *name);

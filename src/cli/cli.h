@@ -74,6 +74,10 @@ int cli_text_option(const cli_text *t, size_t n, int c, const char *text);
  * text: 1 taken, 0 not an option of the command, -1 after a usage
  * error. */
 typedef int (*cli_option_fn)(void *ctx, int c, char *text);
+/* The exit status after a command's options were read (got: 1 after
+ * --help, -1 after a usage error), or -1 to go on (got 0). */
+int cli_options_done(int got);
+
 /* Reads argv's options by getopt_long. names are the command's long
  * options, in the order of its OPT_ values from CLI_OPT: "name" takes a
  * value, "name!" takes none, "name=c" is also -c and gives c (such ones

@@ -63,10 +63,7 @@ static int
 one_option(void *ctx, int c, char *text)
 {
 	struct conv_args *a = ctx;
-	const cli_text texts[] = {{OPT_ACID, &a->acid},
-				  {OPT_TO_ACID, &a->to_acid},
-				  {OPT_TO_UNIT, &a->to_unit}};
-	const cli_range t[] = {
+	const cli_range numbers[] = {
 		{OPT_DENSITY, "--density-g-ml", 0, HUGE_VAL, CLI_ABOVE,
 		 "--density-g-ml must be above 0", &a->density, NULL},
 		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
@@ -74,11 +71,20 @@ one_option(void *ctx, int c, char *text)
 		 NULL},
 	};
 
-	if (c == OPT_BRIX)
-		return cli_brix_option("convert", text, &a->density);
-	if (cli_text_option(texts, sizeof texts / sizeof texts[0], c, text))
+	switch (c) {
+	case OPT_ACID:
+		a->acid = text;
 		return 1;
-	return cli_range_option("convert", t, sizeof t / sizeof t[0], c, text);
+	case OPT_TO_ACID:
+		a->to_acid = text;
+		return 1;
+	case OPT_TO_UNIT:
+		a->to_unit = text;
+		return 1;
+	case OPT_BRIX:
+		return cli_brix_option("convert", text, &a->density);
+	}
+	return cli_range_option("convert", numbers, 2, c, text);
 }
 
 /* 0, 1 after --help, -1 after a usage error. */
@@ -100,15 +106,11 @@ cmd_convert(int argc, char **argv)
 	al_unit unit, to_unit;
 	al_catalogue *cat = NULL;
 	char num[64];
-	int rc = EXIT_TROUBLE;
+	int rc = EXIT_TROUBLE, done;
 	struct conv_args o;
 
-	switch (parse_args(argc, argv, &o)) {
-	case 1:
-		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-	case -1:
-		return EXIT_TROUBLE;
-	}
+	if ((done = cli_options_done(parse_args(argc, argv, &o))) >= 0)
+		return done;
 	if (argc - optind != 2)
 		return cli_usage_error("convert",
 				       "give a VALUE and its UNIT, e.g. '7.5 g/L'");

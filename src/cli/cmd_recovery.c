@@ -69,13 +69,6 @@ check_args(int argc, char **argv, const struct rec_args *a)
 	return 0;
 }
 
-/* The long options, in the order of the OPT_ values (cli_options). */
-static const char *const options[] = {
-	"ta",	       "unit", "acid",		"start-kg", "start-l",
-	"density-g-ml", "brix", "recovered-kg", "assay",    "base"};
-_Static_assert(sizeof options / sizeof options[0] == OPT_BASE - CLI_OPT + 1,
-	       "one name for each OPT_ value");
-
 /* One option of the command: 1 taken, 0 not one, -1 a usage error. */
 static int
 one_option(void *ctx, int c, char *text)
@@ -107,6 +100,13 @@ one_option(void *ctx, int c, char *text)
 			       text) ||
 	       cli_range_option("recovery", t, sizeof t / sizeof t[0], c, text);
 }
+
+/* The long options, in the order of the OPT_ values (cli_options). */
+static const char *const options[] = {
+	"ta",	       "unit", "acid",		"start-kg", "start-l",
+	"density-g-ml", "brix", "recovered-kg", "assay",    "base"};
+_Static_assert(sizeof options / sizeof options[0] == OPT_BASE - CLI_OPT + 1,
+	       "one name for each OPT_ value");
 
 /* 0, 1 after --help, -1 after a usage error. */
 static int
@@ -162,7 +162,7 @@ print_outcomes(const struct rec_args *o, const al_base *base, double acid_kg,
 int
 cmd_recovery(int argc, char **argv)
 {
-	int not_pass = 0, rc = EXIT_TROUBLE;
+	int not_pass = 0, rc = EXIT_TROUBLE, done;
 	al_unit unit;
 	al_catalogue *cat = NULL;
 	const al_acid *acid;
@@ -170,12 +170,8 @@ cmd_recovery(int argc, char **argv)
 	double meq_per, meq_total, acid_kg, per_unit_amount;
 	struct rec_args o;
 
-	switch (parse_args(argc, argv, &o)) {
-	case 1:
-		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-	case -1:
-		return EXIT_TROUBLE;
-	}
+	if ((done = cli_options_done(parse_args(argc, argv, &o))) >= 0)
+		return done;
 	if (cli_unit("recovery", "--unit", o.unit, &unit) != 0)
 		return EXIT_TROUBLE;
 	cat = cli_catalogue();

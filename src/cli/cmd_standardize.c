@@ -575,16 +575,12 @@ cmd_standardize(int argc, char **argv)
 {
 	struct job j;
 	al_outfile **all[] = {&j.budget_out, &j.reg_out, &j.rec_out};
-	int rc = EXIT_TROUBLE, n;
+	int rc = EXIT_TROUBLE, n, done;
 
 	memset(&j, 0, sizeof j);
 	al_std_params_default(&j.a.p);
-	switch (parse_args(argc, argv, &j.a)) {
-	case 1:
-		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-	case -1:
-		return EXIT_TROUBLE;
-	}
+	if ((done = cli_options_done(parse_args(argc, argv, &j.a))) >= 0)
+		return done;
 	if (outputs_safe(&j.a, argc, argv) && read_lots(&j, argc, argv) == 0 &&
 	    open_register(&j) == 0 && put_lots(&j) == 0 &&
 	    write_outputs(&j) == 0 && write_record(&j) == 0 &&

@@ -133,6 +133,14 @@ option_table(const char *const *names, size_t n, struct option *opts,
 }
 
 int
+cli_options_done(int got)
+{
+	if (got == 1)
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	return got < 0 ? EXIT_TROUBLE : -1;
+}
+
+int
 cli_options(const char *cmd, int argc, char **argv,
 	    const char *const *names, size_t n, void (*usage)(FILE *),
 	    cli_option_fn one, void *ctx)
