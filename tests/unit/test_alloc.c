@@ -70,13 +70,6 @@ failure_leaves_it_whole(void **state)
 	al_free(p);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(keeps_its_bytes),
-		cmocka_unit_test(failure_leaves_it_whole),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(keeps_its_bytes),
+	       cmocka_unit_test(failure_leaves_it_whole))

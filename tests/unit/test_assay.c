@@ -541,19 +541,12 @@ water_in_budget(void **state)
 	al_assay_free(c);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(interleaved_equals_adjacent),
-		cmocka_unit_test(counts_and_errors),
-		cmocka_unit_test(endpoint_flag),
-		cmocka_unit_test(report_two_threads),
-		cmocka_unit_test(lazy_equals_finish),
-		cmocka_unit_test(excluded_equals_deleted),
-		cmocka_unit_test(ties_are_no_outliers),
-		cmocka_unit_test(water_in_budget),
-	};
-
-	return cmocka_run_group_tests(tests, setup, teardown);
-}
+UNIT_TEST_MAIN(setup, teardown,
+	       cmocka_unit_test(interleaved_equals_adjacent),
+	       cmocka_unit_test(counts_and_errors),
+	       cmocka_unit_test(endpoint_flag),
+	       cmocka_unit_test(report_two_threads),
+	       cmocka_unit_test(lazy_equals_finish),
+	       cmocka_unit_test(excluded_equals_deleted),
+	       cmocka_unit_test(ties_are_no_outliers),
+	       cmocka_unit_test(water_in_budget))

@@ -161,18 +161,9 @@ endpoint_needed(void **state)
 			 AL_EDOMAIN);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(molar_masses),
-		cmocka_unit_test(aoac_factors),
-		cmocka_unit_test(formulas),
-		cmocka_unit_test(names),
-		cmocka_unit_test(protons_monoprotic),
-		cmocka_unit_test(protons_polyprotic),
-		cmocka_unit_test(endpoint_needed),
-	};
-
-	return cmocka_run_group_tests(tests, setup, teardown);
-}
+UNIT_TEST_MAIN(setup, teardown,
+	       cmocka_unit_test(molar_masses), cmocka_unit_test(aoac_factors),
+	       cmocka_unit_test(formulas), cmocka_unit_test(names),
+	       cmocka_unit_test(protons_monoprotic),
+	       cmocka_unit_test(protons_polyprotic),
+	       cmocka_unit_test(endpoint_needed))

@@ -548,18 +548,11 @@ unclosed_quote(void **state)
 	free(text);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
-		cmocka_unit_test(bom),	     cmocka_unit_test(malformed),
-		cmocka_unit_test(long_field), cmocka_unit_test(utf8),
-		cmocka_unit_test(chunk_boundary),
-		cmocka_unit_test(fast_path_matches_libcsv),
-		cmocka_unit_test(rejects_keep_place),
-		cmocka_unit_test(unclosed_quote),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
+	       cmocka_unit_test(bom), cmocka_unit_test(malformed),
+	       cmocka_unit_test(long_field), cmocka_unit_test(utf8),
+	       cmocka_unit_test(chunk_boundary),
+	       cmocka_unit_test(fast_path_matches_libcsv),
+	       cmocka_unit_test(rejects_keep_place),
+	       cmocka_unit_test(unclosed_quote))

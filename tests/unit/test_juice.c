@@ -76,14 +76,6 @@ usp_anhydrous(void **state)
 	assert_int_equal(al_anhydrous(v, 100, &a), AL_EDOMAIN);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(kimball_table),
-		cmocka_unit_test(sucrose_sg),
-		cmocka_unit_test(usp_anhydrous),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(kimball_table), cmocka_unit_test(sucrose_sg),
+	       cmocka_unit_test(usp_anhydrous))

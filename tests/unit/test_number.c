@@ -240,17 +240,8 @@ matches_strtod(void **state)
 	}
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(accepted),
-		cmocka_unit_test(refused),
-		cmocka_unit_test(decimal_comma),
-		cmocka_unit_test(matches_strtod),
-		cmocka_unit_test(edge_cases),
-		cmocka_unit_test(formats_like_printf),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(accepted), cmocka_unit_test(refused),
+	       cmocka_unit_test(decimal_comma),
+	       cmocka_unit_test(matches_strtod), cmocka_unit_test(edge_cases),
+	       cmocka_unit_test(formats_like_printf))

@@ -158,18 +158,20 @@ f_quantile_large_df(void **state)
 	}
 }
 
-int
-main(void)
+/* as the command does: GSL reports, never aborts */
+static int
+setup(void **state)
 {
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(grubbs_table),	   cmocka_unit_test(grubbs_statistic),
-		cmocka_unit_test(dixon_table),	   cmocka_unit_test(dixon_statistic),
-		cmocka_unit_test(critical_range), cmocka_unit_test(cochran_table),
-		cmocka_unit_test(horwitz),
-		cmocka_unit_test(f_quantile_large_df),
-	};
-
-	/* as the command does: GSL reports, never aborts */
+	(void)state;
 	gsl_set_error_handler_off();
-	return cmocka_run_group_tests(tests, NULL, NULL);
+	return 0;
 }
+
+UNIT_TEST_MAIN(setup, NULL,
+	       cmocka_unit_test(grubbs_table),
+	       cmocka_unit_test(grubbs_statistic),
+	       cmocka_unit_test(dixon_table),
+	       cmocka_unit_test(dixon_statistic),
+	       cmocka_unit_test(critical_range),
+	       cmocka_unit_test(cochran_table), cmocka_unit_test(horwitz),
+	       cmocka_unit_test(f_quantile_large_df))

@@ -112,13 +112,5 @@ bad_tables(void **state)
 	}
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(verdicts),
-		cmocka_unit_test(bad_tables),
-	};
-
-	return cmocka_run_group_tests(tests, setup, teardown);
-}
+UNIT_TEST_MAIN(setup, teardown,
+	       cmocka_unit_test(verdicts), cmocka_unit_test(bad_tables))

@@ -286,15 +286,8 @@ register_round_trip(void **state)
 	al_diags_clear(&d);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(quam_a2), cmocka_unit_test(quam_a2_2012),
-		cmocka_unit_test(quam_a3_2012), cmocka_unit_test(khp),
-		cmocka_unit_test(lots),	   cmocka_unit_test(dates),
-		cmocka_unit_test(register_round_trip),
-	};
-
-	return cmocka_run_group_tests(tests, setup, teardown);
-}
+UNIT_TEST_MAIN(setup, teardown,
+	       cmocka_unit_test(quam_a2), cmocka_unit_test(quam_a2_2012),
+	       cmocka_unit_test(quam_a3_2012), cmocka_unit_test(khp),
+	       cmocka_unit_test(lots), cmocka_unit_test(dates),
+	       cmocka_unit_test(register_round_trip))

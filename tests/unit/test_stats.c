@@ -120,14 +120,8 @@ single(void **state)
 	assert_false(s.has_sd);
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(nist_numacc1),	  cmocka_unit_test(nist_numacc234),
-		cmocka_unit_test(nist_real_world), cmocka_unit_test(t_table),
-		cmocka_unit_test(interval),	  cmocka_unit_test(single),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(nist_numacc1),
+	       cmocka_unit_test(nist_numacc234),
+	       cmocka_unit_test(nist_real_world), cmocka_unit_test(t_table),
+	       cmocka_unit_test(interval), cmocka_unit_test(single))

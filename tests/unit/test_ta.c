@@ -167,15 +167,9 @@ unit_names(void **state)
 	}
 }
 
-int
-main(void)
-{
-	const struct CMUnitTest tests[] = {
-		cmocka_unit_test(usp_citric_worked), cmocka_unit_test(oiv_factors),
-		cmocka_unit_test(unit_relations),    cmocka_unit_test(lemon_density),
-		cmocka_unit_test(dilution),	     cmocka_unit_test(impossible),
-		cmocka_unit_test(unit_names),
-	};
-
-	return cmocka_run_group_tests(tests, NULL, NULL);
-}
+UNIT_TEST_MAIN(NULL, NULL,
+	       cmocka_unit_test(usp_citric_worked),
+	       cmocka_unit_test(oiv_factors),
+	       cmocka_unit_test(unit_relations),
+	       cmocka_unit_test(lemon_density), cmocka_unit_test(dilution),
+	       cmocka_unit_test(impossible), cmocka_unit_test(unit_names))

@@ -101,4 +101,13 @@ teardown(void **state)
 }
 #endif
 
+/* A test program's main: its cmocka tests, run as one group (setup and
+ * teardown may be NULL). */
+#define UNIT_TEST_MAIN(setup, teardown, ...)                                  \
+	int main(void)                                                         \
+	{                                                                      \
+		const struct CMUnitTest tests[] = {__VA_ARGS__};               \
+		return cmocka_run_group_tests(tests, setup, teardown);         \
+	}
+
 #endif
