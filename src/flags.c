@@ -6,42 +6,56 @@
 #include <stdio.h>
 #include <string.h>
 
+/* Each flag's name in the report and, for the flags that explain a
+ * status, the words a person reads ("" for the others). */
+static const struct {
+	unsigned bit;
+	const char *name, *words;
+} names[] = {
+	{AL_FLAG_SINGLE, "single-replicate", "a single replicate"},
+	{AL_FLAG_FEW, "too-few-replicates", "fewer replicates than specified"},
+	{AL_FLAG_RSD, "rsd-over-limit", "replicates' RSD over its limit"},
+	{AL_FLAG_BELOW_MIN, "below-min", "below the minimum"},
+	{AL_FLAG_ABOVE_MAX, "above-max", "above the maximum"},
+	{AL_FLAG_ENDPOINT_LOW, "endpoint-low", "an endpoint pH too low for the acid"},
+	{AL_FLAG_ACID_IGNORED, "row-acid-ignored", ""},
+	{AL_FLAG_DENSITY, "density-converted", ""},
+	{AL_FLAG_IMPLAUSIBLE, "implausible-value", "an implausible value"},
+	{AL_FLAG_REJECTED, "rows-rejected", "rows of it rejected"},
+	{AL_FLAG_OUTLIER, "grubbs-outlier", "a Grubbs outlier"},
+	{AL_FLAG_STRAGGLER, "grubbs-straggler", ""},
+	{AL_FLAG_DIXON, "dixon-outlier", "a Dixon outlier"},
+	{AL_FLAG_EXCLUDED, "outlier-excluded", ""},
+	{AL_FLAG_RANGE, "range-over-critical", "range over the critical range"},
+	{AL_FLAG_COCHRAN_OUTLIER, "cochran-outlier", "a variance outlier (Cochran)"},
+	{AL_FLAG_COCHRAN_STRAGGLER, "cochran-straggler", ""},
+	{AL_FLAG_NO_TITRANT_U, "u-without-titrant", ""},
+	{AL_FLAG_BRIX_LOW, "brix-below-min", "Brix below its minimum"},
+	{AL_FLAG_BRIX_HIGH, "brix-above-max", "Brix above its maximum"},
+	{AL_FLAG_RATIO_LOW, "ratio-below-min", "Brix/acid ratio below its minimum"},
+	{AL_FLAG_RATIO_HIGH, "ratio-above-max", "Brix/acid ratio above its maximum"},
+	{AL_FLAG_WATER_LOW, "water-below-min", "water below its minimum"},
+	{AL_FLAG_WATER_HIGH, "water-above-max", "water above its maximum"},
+	{AL_FLAG_NO_BRIX, "no-brix-or-water-values", "no Brix or water value"},
+	{AL_FLAG_DENSITY_BRIX, "density-from-brix", ""},
+	{AL_FLAG_BRIX_UNCORRECTED, "brix-not-acid-corrected", ""},
+	{AL_FLAG_MANY, "many-replicates", ""},
+};
+
+size_t
+al_flags_words(unsigned flags, char *buf, size_t cap, size_t len)
+{
+	for (size_t i = 0; i < sizeof names / sizeof names[0]; i++)
+		if ((flags & names[i].bit) && names[i].words[0] && len + 1 < cap)
+			len += (size_t)snprintf(buf + len, cap - len, "%s%s",
+						len ? "; " : "",
+						names[i].words);
+	return len < cap ? len : cap - 1;
+}
+
 void
 al_flags_format(unsigned flags, double endpoint_needed, char *buf, size_t cap)
 {
-	static const struct {
-		unsigned bit;
-		const char *name;
-	} names[] = {
-		{AL_FLAG_SINGLE, "single-replicate"},
-		{AL_FLAG_FEW, "too-few-replicates"},
-		{AL_FLAG_RSD, "rsd-over-limit"},
-		{AL_FLAG_BELOW_MIN, "below-min"},
-		{AL_FLAG_ABOVE_MAX, "above-max"},
-		{AL_FLAG_ENDPOINT_LOW, "endpoint-low"},
-		{AL_FLAG_ACID_IGNORED, "row-acid-ignored"},
-		{AL_FLAG_DENSITY, "density-converted"},
-		{AL_FLAG_IMPLAUSIBLE, "implausible-value"},
-		{AL_FLAG_REJECTED, "rows-rejected"},
-		{AL_FLAG_OUTLIER, "grubbs-outlier"},
-		{AL_FLAG_STRAGGLER, "grubbs-straggler"},
-		{AL_FLAG_DIXON, "dixon-outlier"},
-		{AL_FLAG_EXCLUDED, "outlier-excluded"},
-		{AL_FLAG_RANGE, "range-over-critical"},
-		{AL_FLAG_COCHRAN_OUTLIER, "cochran-outlier"},
-		{AL_FLAG_COCHRAN_STRAGGLER, "cochran-straggler"},
-		{AL_FLAG_NO_TITRANT_U, "u-without-titrant"},
-		{AL_FLAG_BRIX_LOW, "brix-below-min"},
-		{AL_FLAG_BRIX_HIGH, "brix-above-max"},
-		{AL_FLAG_RATIO_LOW, "ratio-below-min"},
-		{AL_FLAG_RATIO_HIGH, "ratio-above-max"},
-		{AL_FLAG_WATER_LOW, "water-below-min"},
-		{AL_FLAG_WATER_HIGH, "water-above-max"},
-		{AL_FLAG_NO_BRIX, "no-brix-or-water-values"},
-		{AL_FLAG_DENSITY_BRIX, "density-from-brix"},
-		{AL_FLAG_BRIX_UNCORRECTED, "brix-not-acid-corrected"},
-		{AL_FLAG_MANY, "many-replicates"},
-	};
 	size_t len = 0;
 
 	if (cap == 0)

@@ -15,6 +15,7 @@
 #include <math.h>
 #include <pthread.h>
 #include <stdint.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -289,4 +290,36 @@ al_numerr_phrase(al_numerr err)
 		return "is out of range";
 	}
 	return "is not a number";
+}
+
+int
+al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
+	      size_t ucap)
+{
+	char two[32];
+	double ur, step;
+	int e, decimals;
+
+	if (!(U > 0) || !isfinite(U) || !isfinite(y))
+		return -1;
+	/* U to two significant digits, correctly rounded from its binary
+	 * value by printf; its decade e from the exponent printf chose
+	 * (after any carry, 0.0996 -> 1.0e-01) */
+	snprintf(two, sizeof two, "%.1e", U);
+	e = atoi(strchr(two, 'e') + 1);
+	decimals = e < 1 ? 1 - e : 0;
+	if (decimals > 0) {
+		snprintf(val, vcap, "%.*f", decimals, y);
+		snprintf(unc, ucap, "%.*f", decimals, U);
+	} else {
+		/* tens or more: y to the place of U's second digit */
+		ur = strtod(two, NULL);
+		step = pow(10, e - 1);
+		snprintf(val, vcap, "%.0f", round(y / step) * step);
+		snprintf(unc, ucap, "%.0f", ur);
+	}
+	/* no "-0.000" for a value that rounds to zero */
+	if (val[0] == '-' && strspn(val + 1, "0.") == strlen(val + 1))
+		memmove(val, val + 1, strlen(val));
+	return decimals;
 }

@@ -17,6 +17,7 @@
 #include "acidlot/register.h"
 #include "acidlot/report.h"
 #include "acidlot/result.h"
+#include "acidlot/screen.h"
 #include "acidlot/screens.h"
 #include "acidlot/spec.h"
 #include "acidlot/standardize.h"

@@ -86,6 +86,10 @@ const al_spec *al_assay_spec_used(const al_assay *run, size_t i);
 const al_titrant *al_assay_titrant_used(const al_assay *run, size_t i);
 
 /* Writes the names of the flags set in `flags` as "a;b;c" into buf. */
+/* The words for the flags that explain a status ("below the minimum;
+ * replicates' RSD over its limit"), appended to buf[0..len) with "; "
+ * between; returns the new length. */
+size_t al_flags_words(unsigned flags, char *buf, size_t cap, size_t len);
 void al_flags_format(unsigned flags, double endpoint_needed, char *buf,
 		     size_t cap);
 

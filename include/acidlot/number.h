@@ -35,4 +35,13 @@ int al_number_computable(double x);
 /* A phrase for a parse error, e.g. "is not a number". */
 const char *al_numerr_phrase(al_numerr err);
 
+/* A result y and its expanded uncertainty U as a laboratory reports
+ * them (GUM, JCGM 100:2008, 7.2.6): U to two significant digits,
+ * rounded to the nearest, and y rounded to the same decimal place, both
+ * written in plain decimals (never an exponent) into val and unc.
+ * Returns the number of decimals (0 when U rounds to tens or more), or
+ * -1 when U is not a positive finite number (then nothing is written). */
+int al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
+		  size_t ucap);
+
 #endif

@@ -8,6 +8,8 @@
 
 #define MAX_COLUMN_OPTS 32
 
+enum { FORMAT_AUTO, FORMAT_CSV, FORMAT_TABLE };
+
 /* The command's options. */
 struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
@@ -16,6 +18,7 @@ struct args {
 	size_t n_column_opts;
 	double decimals;
 	int has_decimals;
+	int format; /* FORMAT_: table or CSV; 0 until the options are read */
 	al_assay_options aopt;
 	al_report_options ropt;
 };

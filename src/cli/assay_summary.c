@@ -6,6 +6,53 @@
 
 #include "assay_cli.h"
 
+/* Decimals enough for x[0..n) printed with %.*f to differ wherever the
+ * numbers do, so that a comparison the line states can be seen (at
+ * least 4, at most 12). */
+static int
+telling_decimals(const double *x, size_t n)
+{
+	char p[64], q[64];
+	int d = 4;
+
+	for (size_t i = 0; i < n; i++)
+		for (size_t j = 0; j < n; j++)
+			while (d < 12 && x[i] != x[j] &&
+			       strcmp((snprintf(p, sizeof p, "%.*f", d, x[i]), p),
+				      (snprintf(q, sizeof q, "%.*f", d, x[j]),
+				       q)) == 0)
+				d++;
+	return d;
+}
+
+/* The results with one verdict, named: "fail: P/L/S, ..." (the first
+ * ten, then how many more). */
+static void
+name_results(const al_assay *run, al_verdict v, unsigned long count)
+{
+	size_t shown = 0;
+
+	if (count == 0)
+		return;
+	fprintf(stderr, PROG ": %s:", al_verdict_name(v));
+	for (size_t i = 0; i < al_assay_group_count(run) && shown < 10; i++) {
+		const al_group_result *r;
+
+		if (al_assay_result_verdict(run, i) != v)
+			continue;
+		r = al_assay_result(run, i);
+		fputs(shown++ ? ", " : " ", stderr);
+		cli_put_escaped(stderr, r->product);
+		fputc('/', stderr);
+		cli_put_escaped(stderr, r->lot);
+		fputc('/', stderr);
+		cli_put_escaped(stderr, r->sample);
+	}
+	if (count > shown)
+		fprintf(stderr, " and %lu more", count - shown);
+	fputc('\n', stderr);
+}
+
 static void
 summary(const al_assay *run, const struct args *a, unsigned long rejected)
 {
@@ -16,10 +63,12 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 	for (size_t i = 0; i < n; i++) {
 		const al_cochran *t = &tests[i];
 		const al_group_result *r = al_assay_result(run, t->result);
+		double x[3] = {t->c, t->crit5, t->crit1};
+		int d = telling_decimals(x, 3);
 
-		cli_error("Cochran %s: C = %.4f over %zu results of n = %zu "
-			"(critical %.3g at 5 %%, %.3g at 1 %%)%s%s/%s",
-			t->product, t->c, t->l, t->n, t->crit5, t->crit1,
+		cli_error("Cochran %s: C = %.*f over %zu results of n = %zu "
+			"(critical %.*f at 5 %%, %.*f at 1 %%)%s%s/%s",
+			t->product, d, t->c, t->l, t->n, d, t->crit5, d, t->crit1,
 			t->c > t->crit1	  ? ": variance outlier "
 			: t->c > t->crit5 ? ": variance straggler "
 					  : ": largest variance ",
@@ -42,6 +91,12 @@ summary(const al_assay *run, const struct args *a, unsigned long rejected)
 		fprintf(stderr, "; %lu text cell%s guarded against formulas",
 			a->ropt.guarded, a->ropt.guarded == 1 ? "" : "s");
 	fputc('\n', stderr);
+	name_results(run, AL_VERDICT_FAIL, c.by_verdict[AL_VERDICT_FAIL]);
+	name_results(run, AL_VERDICT_COND_FAIL,
+		     c.by_verdict[AL_VERDICT_COND_FAIL]);
+	name_results(run, AL_VERDICT_RETEST, c.by_verdict[AL_VERDICT_RETEST]);
+	name_results(run, AL_VERDICT_COND_PASS,
+		     c.by_verdict[AL_VERDICT_COND_PASS]);
 	if (rejected)
 		cli_error("%lu row%s rejected: see %s", rejected,
 			rejected == 1 ? "" : "s", a->rejects);

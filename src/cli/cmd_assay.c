@@ -1,10 +1,13 @@
 /* acidlot command line: the assay command.
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _POSIX_C_SOURCE 200809L
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <unistd.h>
 
 #include "assay_cli.h"
 
@@ -17,7 +20,7 @@ usage(FILE *out)
 	      "specification. FILE '-' reads standard input.\n"
 	      "\n"
 	      "  -s, --spec FILE         specification limits per product (CSV)\n"
-	      "  -o, --output FILE       QC report (CSV); default standard output\n"
+	      "  -o, --output FILE       QC report; default standard output\n"
 	      "  -r, --replicates FILE   one row per titration used (CSV)\n"
 	      "      --rejects FILE      keep going past invalid rows: write each\n"
 	      "                          to FILE with its line and reason, and\n"
@@ -82,6 +85,10 @@ usage(FILE *out)
 	      "                          name,header\n"
 	      "\n"
 	      "Writing:\n"
+	      "      --format F          table (aligned, one line per result,\n"
+	      "                          each rounded to its U, GUM 7.2.6) or\n"
+	      "                          csv; default table on a terminal\n"
+	      "                          without -o, csv into a file or pipe\n"
 	      "      --decimals N        fixed decimals in the report (default:\n"
 	      "                          10 significant digits)\n"
 	      "      --sheet-style S     plain (default: UTF-8, ',', '.') or eu\n"
@@ -92,6 +99,14 @@ usage(FILE *out)
 	      "                          gets a leading ' so a spreadsheet does\n"
 	      "                          not run it as a formula\n"
 	      "  -h, --help              this help\n"
+	      "\n"
+	      "Input columns (the header names them; --column maps others):\n"
+	      "  required  sample, titrant_ml, mass_g or volume_ml, and\n"
+	      "            titrant_mol_l (or --titrant-mol-l, or titrant_lot\n"
+	      "            with --titrants)\n"
+	      "  optional  product, lot, replicate, blank_ml, made_up_ml with\n"
+	      "            aliquot_ml, acid, density_g_ml, endpoint_ph,\n"
+	      "            titrant_lot, date, brix, water_pct\n"
 	      "\n"
 	      "Exit status: 0 every result pass (or, without --spec, none\n"
 	      "judged); 1 at least one fail, retest, conditional or, with\n"
@@ -125,7 +140,7 @@ enum {
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
-	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U
+	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -135,9 +150,10 @@ static const char *const options[] = {
 	"column", "columns", "sheet-style", "bom!", "raw-text!", "titrants",
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
-	"resolution-ml", "water-u-pct", "spec=s", "output=o", "replicates=r",
+	"resolution-ml", "water-u-pct", "format", "spec=s", "output=o",
+	"replicates=r",
 };
-_Static_assert(sizeof options / sizeof options[0] == OPT_WATER_U - CLI_OPT + 4,
+_Static_assert(sizeof options / sizeof options[0] == OPT_FORMAT - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -288,6 +304,13 @@ word_option(struct args *a, int c, const char *text)
 		return 1;
 	case OPT_DECISION:
 		return decision_option(a, text);
+	case OPT_FORMAT:
+		if (strcmp(text, "table") != 0 && strcmp(text, "csv") != 0)
+			return cli_usage_error("assay", "--format takes table or "
+							"csv"),
+			       -1;
+		a->format = text[0] == 't' ? FORMAT_TABLE : FORMAT_CSV;
+		return 1;
 	case OPT_DECIMAL_COMMA:
 		a->aopt.csv.decimal_point = ',';
 		return 1;
@@ -332,6 +355,12 @@ parse_args(int argc, char **argv, struct args *a)
 		return got;
 	if (a->has_decimals)
 		a->ropt.decimals = (int)a->decimals;
+	/* a person at a terminal reads a table; a file or pipe gets CSV */
+	if (a->format == FORMAT_AUTO)
+		a->format = (a->output == NULL || strcmp(a->output, "-") == 0) &&
+				    isatty(STDOUT_FILENO)
+			    ? FORMAT_TABLE
+			    : FORMAT_CSV;
 	if (optind >= argc)
 		return cli_usage_error("assay", "no titration file given"), -1;
 	if (cli_distinct_inputs("assay", argv + optind, argc - optind))
@@ -589,6 +618,25 @@ finish_status(const struct job *j, al_status st)
 	return failed(NULL, st);
 }
 
+/* The results in the report's form: CSV, or the table a person reads
+ * (in colour on a terminal unless NO_COLOR is set: no-color.org). */
+static al_status
+write_results(struct job *j)
+{
+	const char *no_colour = getenv("NO_COLOR");
+	al_screen_options so = {
+		.colour = al_outfile_in_place(j->report) &&
+			  isatty(fileno(al_outfile_stream(j->report))) &&
+			  (no_colour == NULL || no_colour[0] == '\0'),
+		.decimals = j->a.has_decimals ? (int)j->a.decimals : -1,
+	};
+
+	if (j->a.format == FORMAT_TABLE)
+		return al_screen_write(al_outfile_stream(j->report), j->run, &so);
+	return al_report_write(al_outfile_stream(j->report), j->run,
+			       &j->a.ropt);
+}
+
 /* The report (each result evaluated once, as it is written) and the
  * budget. */
 static int
@@ -605,8 +653,7 @@ write_report(struct job *j)
 	j->report = open_output(a->output ? a->output : "-", NULL, &a->ropt);
 	if (j->report == NULL)
 		return -1;
-	if (al_report_write(al_outfile_stream(j->report), j->run, &a->ropt) !=
-	    AL_OK)
+	if (write_results(j) != AL_OK)
 		return failed(j->out_name, AL_OK);
 	if (finish_status(j, al_assay_settle(j->run)) != 0)
 		return -1;

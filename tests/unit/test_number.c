@@ -240,8 +240,46 @@ matches_strtod(void **state)
 	}
 }
 
+/* A result rounded to its uncertainty as GUM 7.2.6 (JCGM 100:2008)
+ * says: its own example, y = 10.05762 ohm with u = 27 mohm gives
+ * 10.058 ohm, and u = 28.05 kHz is given as 28 kHz (nearest, "common
+ * sense"); the rest are rounding edges worked by hand (two significant
+ * digits of U, the carry into the next decade, U of tens). */
+static void
+gum_rounding(void **state)
+{
+	static const struct {
+		double y, u;
+		const char *val, *unc;
+		int decimals;
+	} c[] = {
+		{10.05762, 0.027, "10.058", "0.027", 3},     /* GUM 7.2.6 */
+		{1000.4, 28.05, "1000", "28", 0},	     /* GUM 7.2.6 */
+		{4.9679271, 0.02252998289, "4.968", "0.023", 3}, /* issue 21 */
+		{0.9189, 0.0996, "0.92", "0.10", 2},	     /* carry */
+		{0.9189, 0.0994, "0.919", "0.099", 3},
+		{100.07, 0.545, "100.07", "0.55", 2}, /* 0.545000000000000040 */
+		{12345.6, 995, "12300", "1000", 0},	     /* carry, hundreds */
+		{-0.0004, 0.021, "0.000", "0.021", 3},	     /* no -0.000 */
+	};
+	char val[64], unc[64];
+
+	(void)state;
+	for (size_t i = 0; i < sizeof c / sizeof c[0]; i++) {
+		int d = al_round_to_u(c[i].y, c[i].u, val, sizeof val, unc,
+				      sizeof unc);
+
+		assert_int_equal(d, c[i].decimals);
+		assert_string_equal(val, c[i].val);
+		assert_string_equal(unc, c[i].unc);
+	}
+	assert_int_equal(al_round_to_u(1, 0, val, sizeof val, unc, sizeof unc),
+			 -1);
+}
+
 UNIT_TEST_MAIN(NULL, NULL,
 	       cmocka_unit_test(accepted), cmocka_unit_test(refused),
 	       cmocka_unit_test(decimal_comma),
 	       cmocka_unit_test(matches_strtod), cmocka_unit_test(edge_cases),
-	       cmocka_unit_test(formats_like_printf))
+	       cmocka_unit_test(formats_like_printf),
+	       cmocka_unit_test(gum_rounding))
