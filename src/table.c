@@ -45,38 +45,6 @@ header_column(const char *h, size_t len, const char *const *names,
 	return -1;
 }
 
-/* Levenshtein distance of two short ASCII-folded strings (at most 63
- * bytes each are compared), for "did you mean". */
-static size_t
-distance(const char *a, size_t la, const char *b, size_t lb)
-{
-	size_t row[64];
-
-	la = la > 63 ? 63 : la;
-	lb = lb > 63 ? 63 : lb;
-	for (size_t j = 0; j <= lb; j++)
-		row[j] = j;
-	for (size_t i = 1; i <= la; i++) {
-		size_t diag = row[0];
-
-		row[0] = i;
-		for (size_t j = 1; j <= lb; j++) {
-			size_t up = row[j];
-			size_t cost = tolower((unsigned char)a[i - 1]) !=
-				      tolower((unsigned char)b[j - 1]);
-			size_t best = diag + cost;
-
-			if (up + 1 < best)
-				best = up + 1;
-			if (row[j - 1] + 1 < best)
-				best = row[j - 1] + 1;
-			row[j] = best;
-			diag = up;
-		}
-	}
-	return row[lb];
-}
-
 /* Words of bench sheets that name our quantities (English, common
  * practice); a header's words are read through them. */
 static const char *const synonyms[][2] = {
@@ -182,25 +150,6 @@ al_column_aliases_check(const al_column_alias *aliases, size_t n,
 	return AL_ALIAS_OK;
 }
 
-/* The known name closest to an unknown header, within a third of its
- * length in edits; NULL when none is. */
-static const char *
-closest(const char *h, size_t len, const char *const *names, size_t n_names)
-{
-	const char *best = NULL;
-	size_t best_d = len / 3 + 1;
-
-	for (size_t k = 0; k < n_names; k++) {
-		size_t d = distance(h, len, names[k], strlen(names[k]));
-
-		if (d < best_d) {
-			best_d = d;
-			best = names[k];
-		}
-	}
-	return best;
-}
-
 al_status
 al_header_map(al_unknown_columns mode, const al_csv_row *header,
 	      const char *const *names,
@@ -238,7 +187,7 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 				     (int)len, h, names[k], names[k], (int)len, h);
 			st = AL_EINPUT;
 		} else if (mode == AL_UNKNOWN_ERROR) {
-			const char *near = closest(h, len, names, n_names);
+			const char *near = al_closest(h, len, names, n_names);
 
 			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
 				     NULL, "unknown column '%.*s'%s%s%s",
@@ -364,28 +313,6 @@ loose(const char *s, size_t len, char *out, size_t cap)
 	return n;
 }
 
-/* Levenshtein distance of two short strings (at most 63 bytes). */
-static size_t
-edit_distance(const char *a, size_t la, const char *b, size_t lb)
-{
-	size_t prev[64], cur[64];
-
-	for (size_t j = 0; j <= lb; j++)
-		prev[j] = j;
-	for (size_t i = 1; i <= la; i++) {
-		cur[0] = i;
-		for (size_t j = 1; j <= lb; j++) {
-			size_t sub = prev[j - 1] + (a[i - 1] != b[j - 1]);
-			size_t del = prev[j] + 1, ins = cur[j - 1] + 1;
-
-			cur[j] = sub < del ? (sub < ins ? sub : ins)
-					   : (del < ins ? del : ins);
-		}
-		memcpy(prev, cur, (lb + 1) * sizeof prev[0]);
-	}
-	return prev[lb];
-}
-
 al_status
 al_own_header(const al_csv_row *header, const char *const *names,
 	      size_t n_names, int *index, size_t *fields, const char *file,
@@ -411,7 +338,7 @@ al_header_closest(const al_csv_row *header, const char *name)
 
 		if (lc == 0)
 			continue;
-		d = edit_distance(want, lw, cand, lc);
+		d = al_edit_distance(want, lw, cand, lc);
 		/* a prefix such as "titrant" for "titrant_ml" counts as close */
 		if (lc >= 4 && (strncmp(want, cand, lc) == 0 ||
 				strncmp(cand, want, lw) == 0))

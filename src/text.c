@@ -2,6 +2,7 @@
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #include "acidlot/text.h"
 
+#include <ctype.h>
 #include <string.h>
 #include <utf8proc.h>
 
@@ -182,4 +183,52 @@ al_word_eq(const char *s, size_t len, const char *word)
 			return 0;
 	}
 	return word[len] == '\0';
+}
+
+size_t
+al_edit_distance(const char *a, size_t la, const char *b, size_t lb)
+{
+	size_t row[64];
+
+	la = la > 63 ? 63 : la;
+	lb = lb > 63 ? 63 : lb;
+	for (size_t j = 0; j <= lb; j++)
+		row[j] = j;
+	for (size_t i = 1; i <= la; i++) {
+		size_t diag = row[0];
+
+		row[0] = i;
+		for (size_t j = 1; j <= lb; j++) {
+			size_t up = row[j];
+			size_t cost = tolower((unsigned char)a[i - 1]) !=
+				      tolower((unsigned char)b[j - 1]);
+			size_t best = diag + cost;
+
+			if (up + 1 < best)
+				best = up + 1;
+			if (row[j - 1] + 1 < best)
+				best = row[j - 1] + 1;
+			row[j] = best;
+			diag = up;
+		}
+	}
+	return row[lb];
+}
+
+const char *
+al_closest(const char *word, size_t len, const char *const *cands, size_t n)
+{
+	const char *best = NULL;
+	size_t best_d = len / 3 + 1;
+
+	for (size_t k = 0; k < n; k++) {
+		size_t d = al_edit_distance(word, len, cands[k],
+					    strlen(cands[k]));
+
+		if (d < best_d) {
+			best_d = d;
+			best = cands[k];
+		}
+	}
+	return best;
 }

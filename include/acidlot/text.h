@@ -38,4 +38,13 @@ const char *al_trim(const char *s, size_t *len);
 /* Case-insensitive ASCII comparison of s[0..len) with the C string word. */
 int al_word_eq(const char *s, size_t len, const char *word);
 
+/* Levenshtein distance of two strings, ASCII letters compared without
+ * case (at most 63 bytes of each are compared), for "did you mean". */
+size_t al_edit_distance(const char *a, size_t la, const char *b, size_t lb);
+
+/* The candidate closest to word[0..len), within a third of its length
+ * in edits (the first on a tie); NULL when none is. */
+const char *al_closest(const char *word, size_t len,
+		       const char *const *cands, size_t n);
+
 #endif

@@ -97,8 +97,13 @@ cli_number(const char *cmd, const char *option, const char *text,
 				option, text, AL_MAGNITUDE_MIN, AL_MAGNITUDE_MAX);
 		return -1;
 	}
-	cli_usage_error(cmd, "%s: '%s' %s", option, text,
-			al_numerr_phrase(err));
+	if (err == AL_NUM_COMMA) /* options and operands take a point */
+		cli_usage_error(cmd, "%s: '%s' is not a number: write it with "
+				     "a decimal point",
+				option, text);
+	else
+		cli_usage_error(cmd, "%s: '%s' %s", option, text,
+				al_numerr_phrase(err));
 	return -1;
 }
 
@@ -140,6 +145,29 @@ cli_options_done(int got)
 	return got < 0 ? EXIT_TROUBLE : -1;
 }
 
+/* An unknown option, with the closest of the command's long options
+ * when one is close ("--specs": did you mean --spec?). */
+static void
+unknown_option(const char *cmd, const char *bad, char (*name)[32], size_t n)
+{
+	const char *names[CLI_MAX_OPTIONS + 1], *near;
+	size_t len;
+
+	for (size_t i = 0; i < n; i++)
+		names[i] = name[i];
+	names[n] = "help";
+	/* "--name=value" is compared by its name */
+	len = strcspn(bad + 2, "=");
+	near = strncmp(bad, "--", 2) == 0 ? al_closest(bad + 2, len, names,
+						       n + 1)
+					  : NULL;
+	if (near)
+		cli_usage_error(cmd, "unknown option '%s'; did you mean '--%s'?",
+				bad, near);
+	else
+		cli_usage_error(cmd, "unknown option '%s'", bad);
+}
+
 int
 cli_options(const char *cmd, int argc, char **argv,
 	    const char *const *names, size_t n, void (*usage)(FILE *),
@@ -165,8 +193,7 @@ cli_options(const char *cmd, int argc, char **argv,
 		if (got < 0)
 			return -1;
 		if (got == 0)
-			return cli_usage_error(cmd, "unknown option '%s'",
-					       cli_bad_option(argv)),
+			return unknown_option(cmd, cli_bad_option(argv), name, n),
 			       -1;
 	}
 	return 0;

@@ -123,5 +123,19 @@ dispatch(int argc, char **argv)
 		return cmd_verify(argc - 1, argv + 1);
 	if (strcmp(cmd, "recovery") == 0)
 		return cmd_recovery(argc - 1, argv + 1);
+	{
+		static const char *const commands[] = {
+			"assay",  "acids",  "convert",
+			"standardize", "verify", "recovery"};
+		const char *near = al_closest(cmd, strlen(cmd), commands,
+					      sizeof commands /
+						      sizeof commands[0]);
+
+		if (near)
+			return cli_usage_error(NULL,
+					       "unknown command '%s'; did you "
+					       "mean '%s'?",
+					       cmd, near);
+	}
 	return cli_usage_error(NULL, "unknown command '%s'", cmd);
 }
