@@ -323,6 +323,15 @@ al_own_header(const al_csv_row *header, const char *const *names,
 			     index, file, diags);
 }
 
+int
+al_header_has(const al_csv_row *header, const char *name)
+{
+	for (size_t i = 0; i < header->nfields; i++)
+		if (same_header(header->fields[i], name))
+			return 1;
+	return 0;
+}
+
 const char *
 al_header_closest(const al_csv_row *header, const char *name)
 {

@@ -44,6 +44,10 @@ al_status al_own_header(const al_csv_row *header, const char *const *names,
 			size_t n_names, int *index, size_t *fields,
 			const char *file, al_diags *diags);
 
+/* 1 when the header has a cell named name (blanks around either and
+ * ASCII case aside). */
+int al_header_has(const al_csv_row *header, const char *name);
+
 /* The header cell closest to `name` (edit distance, ignoring case, '_'
  * and blanks), or NULL when none is close. */
 const char *al_header_closest(const al_csv_row *header, const char *name);

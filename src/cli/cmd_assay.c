@@ -444,6 +444,7 @@ load_lookups(struct job *j)
 		return -1;
 	a->aopt.aliases = j->aliases;
 	a->aopt.n_aliases = j->n_aliases;
+	a->aopt.n_alias_opts = a->n_column_opts;
 	if (a->columns_file && hash_input(&j->rec, "column map", a->columns_file, -1))
 		return -1;
 	if (a->spec) {
