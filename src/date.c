@@ -6,6 +6,8 @@
  * usual civil-calendar arithmetic, e.g. in the C++ <chrono> proposals). */
 #include "acidlot/date.h"
 
+#include <string.h>
+
 
 static long
 days_from_civil(long y, unsigned m, unsigned d)
@@ -52,16 +54,14 @@ digits(const char *s, int n, unsigned *out)
 	return 0;
 }
 
-int
-al_date_parse(const char *s, size_t len, long *days)
+/* Days of a checked year, month and day; 0, or -1 when no such day. */
+static int
+civil_day(unsigned y, unsigned m, unsigned d, long *days)
 {
 	static const unsigned mdays[12] = {31, 28, 31, 30, 31, 30,
 					   31, 31, 30, 31, 30, 31};
-	unsigned y, m, d, max;
+	unsigned max;
 
-	if (len != 10 || s[4] != '-' || s[7] != '-' || digits(s, 4, &y) ||
-	    digits(s + 5, 2, &m) || digits(s + 8, 2, &d))
-		return -1;
 	if (y < 1900 || m < 1 || m > 12 || d < 1)
 		return -1;
 	max = mdays[m - 1];
@@ -71,6 +71,52 @@ al_date_parse(const char *s, size_t len, long *days)
 		return -1;
 	*days = days_from_civil((long)y, m, d);
 	return 0;
+}
+
+static const char *const order_names[] = {"YYYY-MM-DD", "DD.MM.YYYY",
+					  "DD/MM/YYYY", "MM/DD/YYYY"};
+
+const char *
+al_date_order_name(al_date_order o)
+{
+	return order_names[o];
+}
+
+int
+al_date_order_parse(const char *name, al_date_order *o)
+{
+	for (int i = 0; i < 4; i++)
+		if (strcmp(name, order_names[i]) == 0) {
+			*o = (al_date_order)i;
+			return 0;
+		}
+	return -1;
+}
+
+int
+al_date_parse_as(const char *s, size_t len, al_date_order o, long *days)
+{
+	/* where the year, month and day stand in the order's 10 bytes */
+	static const unsigned at[4][3] = {{0, 5, 8}, {6, 3, 0}, {6, 3, 0},
+					  {6, 0, 3}};
+	const char *f = order_names[o];
+	unsigned y, m, d;
+
+	if (len != 10)
+		return -1;
+	for (size_t i = 0; i < 10; i++)
+		if ((f[i] == '-' || f[i] == '.' || f[i] == '/') && s[i] != f[i])
+			return -1;
+	if (digits(s + at[o][0], 4, &y) || digits(s + at[o][1], 2, &m) ||
+	    digits(s + at[o][2], 2, &d))
+		return -1;
+	return civil_day(y, m, d, days);
+}
+
+int
+al_date_parse(const char *s, size_t len, long *days)
+{
+	return al_date_parse_as(s, len, AL_DATE_ISO, days);
 }
 
 long

@@ -285,10 +285,15 @@ row_date(al_rows *rs, const al_csv_row *row, unsigned long line,
 	const char *text = al_cell(row, rs->col[AL_C_DATE], &dl);
 
 	*date = rs->opt->today;
-	if (dl > 0 && al_date_parse(text, dl, date) != 0) {
+	if (dl > 0 && al_date_parse_as(text, dl, rs->opt->date_order, date) !=
+			      0) {
 		AL_ROW_ERR(rs, line, "date",
-			"'%.*s' is not a calendar date YYYY-MM-DD",
-			(int)(dl > 40 ? 40 : dl), text);
+			"'%.*s' is not a calendar date %s%s",
+			(int)(dl > 40 ? 40 : dl), text,
+			al_date_order_name(rs->opt->date_order),
+			rs->opt->date_order == AL_DATE_ISO
+				? " (another order: --date-format)"
+				: "");
 		return -1;
 	}
 	return 0;

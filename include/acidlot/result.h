@@ -11,6 +11,7 @@
 
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/date.h"
 #include "acidlot/gum.h"
 #include "acidlot/register.h"
 #include "acidlot/spec.h"
@@ -83,6 +84,7 @@ typedef struct al_assay_options {
 	 * `today` when the row has none). NULL: not used. */
 	const al_register *titrants;
 	long today; /* day number (al_date_parse) */
+	al_date_order date_order; /* how the date column is written */
 	al_qc_options qc;
 	int anhydrous; /* results on the anhydrous basis (needs water_pct)
 			  for groups whose specification names no basis */

@@ -83,6 +83,9 @@ usage(FILE *out)
 	      "                          --column titrant_ml=\"Vol (mL)\"\n"
 	      "      --columns FILE      such pairs from a CSV with the columns\n"
 	      "                          name,header\n"
+	      "      --date-format F     how the date column is written:\n"
+	      "                          YYYY-MM-DD (default), DD.MM.YYYY,\n"
+	      "                          DD/MM/YYYY or MM/DD/YYYY (never guessed)\n"
 	      "\n"
 	      "Writing:\n"
 	      "      --format F          table (aligned, one line per result,\n"
@@ -140,7 +143,7 @@ enum {
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
-	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT
+	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -150,10 +153,11 @@ static const char *const options[] = {
 	"column", "columns", "sheet-style", "bom!", "raw-text!", "titrants",
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
-	"resolution-ml", "water-u-pct", "format", "spec=s", "output=o",
-	"replicates=r",
+	"resolution-ml", "water-u-pct", "format", "date-format", "spec=s",
+	"output=o", "replicates=r",
 };
-_Static_assert(sizeof options / sizeof options[0] == OPT_FORMAT - CLI_OPT + 4,
+_Static_assert(sizeof options / sizeof options[0] ==
+		       OPT_DATE_FORMAT - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -304,6 +308,14 @@ word_option(struct args *a, int c, const char *text)
 		return 1;
 	case OPT_DECISION:
 		return decision_option(a, text);
+	case OPT_DATE_FORMAT:
+		if (al_date_order_parse(text, &a->aopt.date_order) != 0)
+			return cli_usage_error("assay",
+					       "--date-format takes YYYY-MM-DD, "
+					       "DD.MM.YYYY, DD/MM/YYYY or "
+					       "MM/DD/YYYY"),
+			       -1;
+		return 1;
 	case OPT_FORMAT:
 		if (strcmp(text, "table") != 0 && strcmp(text, "csv") != 0)
 			return cli_usage_error("assay", "--format takes table or "
