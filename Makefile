@@ -16,7 +16,7 @@ FUZZ_SECONDS ?= 60
 BENCH_ROWS ?= 100000 1000000 10000000
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
-                  libjansson-dev nettle-dev libutf8proc-dev time strace
+                  libjansson-dev nettle-dev libutf8proc-dev time strace bsdutils
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
 .PHONY: all deps build demo check test asan valgrind regen fuzz bench clean
@@ -52,7 +52,10 @@ demo: build
 	  --titrants $(BUILD)/demo-register.csv --decision guarded \
 	  --budget $(BUILD)/demo-budget-assay.csv --analyst "demo" \
 	  -o $(BUILD)/demo-report.csv -r $(BUILD)/demo-replicates.csv; \
-	rc=$$?; echo; cat $(BUILD)/demo-report.csv; echo; \
+	rc=$$?; echo; \
+	$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
+	  --titrants $(BUILD)/demo-register.csv --decision guarded \
+	  --format table 2>/dev/null; echo; \
 	echo "report: $(BUILD)/demo-report.csv  replicates: $(BUILD)/demo-replicates.csv"; \
 	echo "record: $(BUILD)/demo-report.csv.record.json"; \
 	echo "exit status $$rc (1: some lots fail or need a retest, as the demo intends)"; \
