@@ -323,3 +323,30 @@ al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 		memmove(val, val + 1, strlen(val));
 	return decimals;
 }
+
+void
+al_format_sig(double v, int sig, char *buf, size_t cap)
+{
+	double a = fabs(v);
+	char t[64];
+	int e;
+
+	snprintf(t, sizeof t, "%.*e", sig - 1, v);
+	e = atoi(strchr(t, 'e') + 1);
+	/* plain decimals need 2 + sig - 1 - e bytes and a sign and a NUL */
+	if (!(a >= 1e-100) || e >= -4 || !isfinite(v) ||
+	    (size_t)(sig - e + 3) > cap) {
+		snprintf(buf, cap, "%.*g", sig, v);
+		return;
+	}
+	/* the digits %e rounded to, placed: sig - 1 - e decimals */
+	snprintf(buf, cap, "%.*f", sig - 1 - e, v);
+	if (strchr(buf, '.')) {
+		size_t n = strlen(buf);
+
+		while (n > 0 && buf[n - 1] == '0')
+			buf[--n] = '\0';
+		if (n > 0 && buf[n - 1] == '.')
+			buf[n - 1] = '\0';
+	}
+}

@@ -290,18 +290,20 @@ al_register_write(FILE *out, const al_register *reg)
 	      out);
 	for (size_t i = 0; i < reg->count; i++) {
 		const al_titrant *t = &reg->items[i];
-		char num[64], on[11], until[11];
+		char num[128], on[11], until[11];
 
 		al_csv_put_field(out, t->lot, ',');
 		putc(',', out);
 		al_csv_put_field(out, t->standard, ',');
 		/* enough digits that the value read back is the value kept */
-		snprintf(num, sizeof num, "%.10g", t->concentration_mol_l);
+		al_format_sig(t->concentration_mol_l, 10, num, sizeof num);
 		fprintf(out, ",%s", num);
-		snprintf(num, sizeof num, "%.3g", t->u_mol_l);
+		al_format_sig(t->u_mol_l, 3, num, sizeof num);
 		fprintf(out, ",%s,%zu,", num, t->n);
-		if (t->has_rsd)
-			fprintf(out, "%.4g", t->rsd_pct);
+		if (t->has_rsd) {
+			al_format_sig(t->rsd_pct, 4, num, sizeof num);
+			fputs(num, out);
+		}
 		al_date_format(t->standardised_on, on);
 		al_date_format(t->valid_until, until);
 		fprintf(out, ",%s,%s,%s\n", on, until, t->valid ? "yes" : "no");

@@ -153,7 +153,7 @@ format_number(double v, int decimals, int decimal_comma, const char *point,
 	if (decimals >= 0)
 		snprintf(buf, cap, "%.*f", decimals, v);
 	else
-		snprintf(buf, cap, "%.10g", v);
+		al_format_sig(v, 10, buf, cap);
 	/* printf follows LC_NUMERIC; the report does not */
 	if (point == NULL)
 		point = localeconv()->decimal_point;
@@ -358,7 +358,7 @@ static void
 number(struct sink *k, char d, int defined, double v, int decimals,
        const al_report_options *opt)
 {
-	char buf[64];
+	char buf[128];
 	size_t n;
 
 	sink_char(k, d);
@@ -382,7 +382,7 @@ struct number_memo {
 	int valid, decimals;
 	uint64_t bits;
 	size_t len;
-	char text[64];
+	char text[128];
 };
 
 static void
@@ -520,19 +520,18 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 			field_memo(k, flags, d, &names[2], r->flags, ph_bits);
 		}
 		number(k, d, r->has_median, r->median, dec, opt);
-		/* screens are ratios: never rounded to the report's decimals */
-		number(k, d, r->has_grubbs, r->grubbs_g, -1, opt);
-		number(k, d, r->has_dixon, r->dixon_q, -1, opt);
+		number(k, d, r->has_grubbs, r->grubbs_g, dec, opt);
+		number(k, d, r->has_dixon, r->dixon_q, dec, opt);
 		number(k, d, r->stats.n > 1, r->range, dec, opt);
 		number(k, d, r->has_critical_range, r->critical_range, dec, opt);
-		number(k, d, r->has_horrat, r->horrat, -1, opt);
-		number(k, d, r->has_u, r->u, -1, opt);
-		number(k, d, r->has_u, r->U, -1, opt);
-		number_memo(k, d, r->has_u, r->k, -1, opt, &memo[2]);
-		number(k, d, r->has_brix, r->brix, -1, opt);
-		number(k, d, r->has_brix_corrected, r->brix_corrected, -1, opt);
-		number(k, d, r->has_ratio, r->ratio, dec < 0 ? -1 : 2, opt);
-		number(k, d, r->has_water, r->water_pct, -1, opt);
+		number(k, d, r->has_horrat, r->horrat, dec, opt);
+		number(k, d, r->has_u, r->u, dec, opt);
+		number(k, d, r->has_u, r->U, dec, opt);
+		number_memo(k, d, r->has_u, r->k, dec, opt, &memo[2]);
+		number(k, d, r->has_brix, r->brix, dec, opt);
+		number(k, d, r->has_brix_corrected, r->brix_corrected, dec, opt);
+		number(k, d, r->has_ratio, r->ratio, dec, opt);
+		number(k, d, r->has_water, r->water_pct, dec, opt);
 		sink_char(k, d);
 		sink_str(k, r->anhydrous ? "anhydrous" : "as-is");
 		if (opt->report_id) {
@@ -708,7 +707,7 @@ al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 	text(&k, rep->sample, opt);
 	text(&k, rep->replicate, opt);
 	/* meq keeps full digits: it is the raw amount titrated */
-	number(&k, d, 1, rep->meq, -1, opt);
+	number(&k, d, 1, rep->meq, opt->decimals, opt);
 	number(&k, d, 1, rep->value, opt->decimals, opt);
 	field(&k, al_unit_name(rep->unit), d);
 	al_flags_format(rep->flags, rep->endpoint_ph_needed, flags,
@@ -768,17 +767,17 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 			text(&k, r->lot, opt);
 			text(&k, r->sample, opt);
 			field(&k, t->name, d);
-			number(&k, d, 1, t->value, -1, opt);
+			number(&k, d, 1, t->value, opt->decimals, opt);
 			sink_char(&k, d);
 			sink_str(&k, t->unit);
-			number(&k, d, 1, t->u, -1, opt);
-			number(&k, d, 1, t->sensitivity, -1, opt);
-			number(&k, d, 1, t->contribution, -1, opt);
+			number(&k, d, 1, t->u, opt->decimals, opt);
+			number(&k, d, 1, t->sensitivity, opt->decimals, opt);
+			number(&k, d, 1, t->contribution, opt->decimals, opt);
 			number(&k, d, 1,
 			       r->u > 0 ? 100 * t->contribution * t->contribution /
 						  (r->u * r->u)
 					: 0,
-			       3, opt);
+			       opt->decimals >= 0 ? opt->decimals : 3, opt);
 			sink_char(&k, '\n');
 		}
 	}

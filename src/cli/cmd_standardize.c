@@ -224,9 +224,9 @@ outputs_safe(const struct args *a, int argc, char **argv)
 static void
 number(FILE *out, double v, int sig)
 {
-	char buf[64];
+	char buf[128];
 
-	snprintf(buf, sizeof buf, "%.*g", sig, v);
+	al_format_sig(v, sig, buf, sizeof buf);
 	fprintf(out, ",%s", buf);
 }
 

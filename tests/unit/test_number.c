@@ -156,7 +156,7 @@ edge_cases(void **state)
 static void
 formats_like_printf(void **state)
 {
-	char got[64], want[64];
+	char got[128], want[64];
 	long count = 0;
 
 	(void)state;
@@ -197,7 +197,12 @@ formats_like_printf(void **state)
 			v = -v;
 		al_format_number(v, -1, 0, got, sizeof got);
 		snprintf(want, sizeof want, "%.10g", v);
-		if (strcmp(got, want) != 0) {
+		/* printf's form, but where printf writes a negative exponent
+		 * (1e-100 <= |v| < 1e-4) plain decimals of the same value */
+		if (strcmp(got, want) != 0 &&
+		    (strstr(want, "e-") == NULL || fabs(v) < 1e-100 ||
+		     strchr(got, 'e') != NULL ||
+		     strtod(got, NULL) != strtod(want, NULL))) {
 			print_error("%a: '%s', printf '%s'\n", v, got, want);
 			fail();
 		}
