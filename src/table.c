@@ -45,28 +45,55 @@ header_column(const char *h, size_t len, const char *const *names,
 	return -1;
 }
 
-/* Words of bench sheets that name our quantities (English, common
- * practice); a header's words are read through them. */
-static const char *const synonyms[][2] = {
-	{"naoh", "titrant"},   {"base", "titrant"},   {"titre", "titrant"},
-	{"titer", "titrant"},  {"burette", "titrant"}, {"weight", "mass"},
-	{"m", "mol_l"},        {"mol/l", "mol_l"},    {"n", "mol_l"},
-	{"%", "pct"},          {"ep", "endpoint"},    {"water", "water"},
-};
+/* reference/header_words.csv, built in: words of bench sheets in
+ * English, German, French and Spanish, and what each stands for. */
+extern const unsigned char al_ref_header_words[];
+extern const size_t al_ref_header_words_len;
 
-/* A header's common form: lower case, words joined by '_' through the
- * synonyms, and a unit in brackets appended the same way, e.g.
- * "Blank (mL)" -> "blank_ml", "NaOH (mol/L)" -> "titrant_mol_l". */
+/* What a lower-case word of a header stands for in our column names
+ * ("einwaage" -> "mass"; "-" for a word dropped beside others), or the
+ * word itself. */
+static const char *
+word_means(const char *word, char *buf, size_t cap)
+{
+	const char *p = (const char *)al_ref_header_words,
+		   *end = p + al_ref_header_words_len;
+	size_t wl = strlen(word);
+
+	while (p < end) {
+		const char *nl = memchr(p, '\n', (size_t)(end - p));
+		const char *line_end = nl ? nl : end;
+
+		if ((size_t)(line_end - p) > wl && memcmp(p, word, wl) == 0 &&
+		    p[wl] == ',') {
+			const char *m = p + wl + 1;
+			size_t ml = strcspn(m, ",\n");
+
+			snprintf(buf, cap, "%.*s", (int)ml, m);
+			return buf;
+		}
+		p = line_end + 1;
+	}
+	return word;
+}
+
+/* A header's common form: lower case, words joined by '_' through
+ * header_words.csv (a word said again is said once), a unit in brackets
+ * appended the same way, e.g. "Blank (mL)" -> "blank_ml", "NaOH
+ * (mol/L)" -> "titrant_mol_l", "Einwaage (g)" -> "mass_g". Words that
+ * stand for "-" ("sample" in "Sample Mass") are left out, and so is
+ * "volume" beside the titrant ("Titrant Volume"), unless nothing else
+ * is left. */
 static void
 common_form(const char *h, size_t len, char *out, size_t cap)
 {
-	size_t n = 0, i = 0;
+	char words[8][32];
+	size_t nw = 0, n = 0, i = 0, kept = 0;
+	int titrant = 0;
 
-	out[0] = '\0';
-	while (i < len && n + 16 < cap) {
-		char word[32];
+	while (i < len && nw < 8) {
+		char word[32], means[32];
 		size_t w = 0;
-		const char *put = word;
 
 		while (i < len && !isalnum((unsigned char)h[i]) && h[i] != '%' &&
 		       h[i] != '/')
@@ -78,12 +105,26 @@ common_form(const char *h, size_t len, char *out, size_t cap)
 		word[w] = '\0';
 		if (w == 0)
 			break;
-		for (size_t s = 0; s < sizeof synonyms / sizeof synonyms[0];
-		     s++)
-			if (strcmp(word, synonyms[s][0]) == 0)
-				put = synonyms[s][1];
+		snprintf(words[nw], sizeof words[nw], "%s",
+			 word_means(word, means, sizeof means));
+		nw++;
+	}
+	for (size_t k = 0; k < nw; k++)
+		titrant |= strcmp(words[k], "titrant") == 0;
+	for (size_t k = 0; k < nw; k++)
+		kept += strcmp(words[k], "-") != 0 &&
+			!(titrant && strcmp(words[k], "volume") == 0);
+	out[0] = '\0';
+	for (size_t k = 0, last = nw; k < nw && n + 1 < cap; k++) {
+		int drop = strcmp(words[k], "-") == 0 ||
+			   (titrant && strcmp(words[k], "volume") == 0);
+
+		if ((drop && kept > 0) ||
+		    (last < nw && strcmp(words[k], words[last]) == 0))
+			continue;
 		n += (size_t)snprintf(out + n, cap - n, "%s%s", n ? "_" : "",
-				      put);
+				      words[k]);
+		last = k;
 	}
 }
 
@@ -183,7 +224,7 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
 				     NULL,
 				     "column '%.*s' looks like %s: map it with "
-				     "--column %s='%.*s'",
+				     "--column %s=\"%.*s\"",
 				     (int)len, h, names[k], names[k], (int)len, h);
 			st = AL_EINPUT;
 		} else if (mode == AL_UNKNOWN_ERROR) {

@@ -548,6 +548,95 @@ unclosed_quote(void **state)
 	free(text);
 }
 
+/* Every word of reference/header_words.csv (the bench-sheet words of
+ * English, German, French and Spanish) leads a header to the column it
+ * stands for, as the error that names the --column to map it. */
+extern const unsigned char al_ref_header_words[];
+extern const size_t al_ref_header_words_len;
+
+static const char *
+header_for(const char *word, const char *means, char *buf, size_t cap,
+	   const char **column)
+{
+	static const struct {
+		const char *means, *before, *after, *column;
+	} form[] = {
+		{"titrant", "", " (mL)", "titrant_ml"},
+		{"mass", "", " (g)", "mass_g"},
+		{"volume", "", " (mL)", "volume_ml"},
+		{"blank", "", " (mL)", "blank_ml"},
+		{"mol_l", "NaOH (", ")", "titrant_mol_l"},
+		{"pct", "Water (", ")", "water_pct"},
+		{"endpoint", "", " pH", "endpoint_ph"},
+		{"water", "", " (%)", "water_pct"},
+		{"-", "", " mass (g)", "mass_g"},
+		{"lot", "", "", "lot"},
+		{"sample", "", "", "sample"},
+		{"date", "", "", "date"},
+	};
+
+	for (size_t i = 0; i < sizeof form / sizeof form[0]; i++)
+		if (strcmp(means, form[i].means) == 0) {
+			snprintf(buf, cap, "%s%s%s", form[i].before, word,
+				 form[i].after);
+			*column = form[i].column;
+			return buf;
+		}
+	return NULL;
+}
+
+static void
+header_words_mapped(void **state)
+{
+	static const char *const names[] = {
+		"sample", "titrant_ml", "mass_g", "volume_ml", "blank_ml",
+		"titrant_mol_l", "endpoint_ph", "water_pct", "lot", "date"};
+	char text[4096], header[128], want[160];
+	const char *line, *column;
+	size_t checked = 0;
+
+	(void)state;
+	snprintf(text, sizeof text, "%.*s", (int)al_ref_header_words_len,
+		 (const char *)al_ref_header_words);
+	line = strchr(text, '\n') + 1; /* past the header line */
+	for (; *line; line = strchr(line, '\n') + 1) {
+		char word[64], means[64];
+		al_diags d = {0};
+		int index[10];
+		const char *cells[1];
+		size_t lens[1];
+		al_csv_row row = {0};
+
+		if (sscanf(line, "%63[^,],%63[^,]", word, means) != 2)
+			break;
+		if (header_for(word, means, header, sizeof header, &column) ==
+		    NULL)
+			continue;
+		cells[0] = header;
+		lens[0] = strlen(header);
+		row.nfields = 1;
+		row.fields = cells;
+		row.lens = lens;
+		row.line = 1;
+		snprintf(want, sizeof want, "looks like %s:", column);
+		/* our own word ("lot") is the column itself */
+		if (al_header_map(AL_UNKNOWN_WARN, &row, names, 10, NULL, 0,
+				  index, "t.csv", &d) == AL_OK &&
+		    strcmp(header, column) == 0) {
+			checked++;
+			continue;
+		}
+		if (d.count != 1 || strstr(d.items[0].message, want) == NULL) {
+			print_error("'%s': %s\n", header,
+				    d.count ? d.items[0].message : "no error");
+			fail();
+		}
+		al_diags_clear(&d);
+		checked++;
+	}
+	assert_true(checked >= 60); /* every row of the table */
+}
+
 UNIT_TEST_MAIN(NULL, NULL,
 	       cmocka_unit_test(line_ends), cmocka_unit_test(quoting),
 	       cmocka_unit_test(bom), cmocka_unit_test(malformed),
@@ -555,4 +644,5 @@ UNIT_TEST_MAIN(NULL, NULL,
 	       cmocka_unit_test(chunk_boundary),
 	       cmocka_unit_test(fast_path_matches_libcsv),
 	       cmocka_unit_test(rejects_keep_place),
-	       cmocka_unit_test(unclosed_quote))
+	       cmocka_unit_test(unclosed_quote),
+	       cmocka_unit_test(header_words_mapped))
