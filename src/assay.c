@@ -399,6 +399,8 @@ on_csv_row(void *ud, const al_csv_row *row)
 {
 	al_assay *run = ud;
 
+	if (!row->syntax_error && al_rows_comment(row))
+		return AL_OK;
 	if (!run->rows.header_done) {
 		al_status st = al_rows_header(&run->rows, row);
 

@@ -439,6 +439,15 @@ al_rows_begin_file(al_rows *rs, const char *file)
 	rs->header_done = rs->header_ok = 0;
 }
 
+int
+al_rows_comment(const al_csv_row *row)
+{
+	size_t len = row->nfields ? row->lens[0] : 0;
+	const char *c = len ? al_trim(row->fields[0], &len) : "";
+
+	return len > 0 && c[0] == '#' && (len == 1 || c[1] == ' ');
+}
+
 al_row_kind
 al_rows_kind(al_rows *rs, const al_csv_row *row)
 {

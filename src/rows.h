@@ -76,6 +76,11 @@ void al_rows_begin_file(al_rows *rs, const char *file);
  * twice; AL_EINPUT when the file's rows cannot be read. */
 al_status al_rows_header(al_rows *rs, const al_csv_row *row);
 
+/* 1 when a record is a comment: its first cell starts with "# " or is
+ * "#" (a bench sheet's line of units, a note), skipped like a blank
+ * line wherever it stands. */
+int al_rows_comment(const al_csv_row *row);
+
 /* What a record is: nothing to read (a blank or repeated header line:
  * AL_ROW_SKIP), a malformed one (AL_ROW_BAD, its error in row_diags) or
  * a data row. */

@@ -22,6 +22,7 @@ int cmd_convert(int argc, char **argv);
 int cmd_standardize(int argc, char **argv);
 int cmd_verify(int argc, char **argv);
 int cmd_recovery(int argc, char **argv);
+int cmd_template(int argc, char **argv);
 
 /* "acidlot: message" on stderr. */
 /* A message line on stderr, "acidlot: " first (errors and warnings

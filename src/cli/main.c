@@ -30,6 +30,8 @@ usage(FILE *out)
 	      "                  unchanged\n"
 	      "  recovery        acid present in a batch, percent recovery of a\n"
 	      "                  process step, base needed to neutralise it\n"
+	      "  template        a blank bench sheet (CSV) with every column\n"
+	      "                  the assay reads and a line of units\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -123,10 +125,12 @@ dispatch(int argc, char **argv)
 		return cmd_verify(argc - 1, argv + 1);
 	if (strcmp(cmd, "recovery") == 0)
 		return cmd_recovery(argc - 1, argv + 1);
+	if (strcmp(cmd, "template") == 0)
+		return cmd_template(argc - 1, argv + 1);
 	{
 		static const char *const commands[] = {
-			"assay",  "acids",  "convert",
-			"standardize", "verify", "recovery"};
+			"assay",  "acids",  "convert", "standardize",
+			"verify", "recovery", "template"};
 		const char *near = al_closest(cmd, strlen(cmd), commands,
 					      sizeof commands /
 						      sizeof commands[0]);
