@@ -19,7 +19,7 @@ DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev 
                   libjansson-dev nettle-dev libutf8proc-dev time strace bsdutils
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
-.PHONY: all deps build demo check test asan valgrind regen fuzz bench clean
+.PHONY: all deps build demo check test asan valgrind regen fuzz bench install clean
 
 all: build
 
@@ -103,6 +103,11 @@ bench: build
 	sh bench/memory.sh $(BUILD)/acidlot $(BUILD)/tests/bench_gen
 	sh bench/startup.sh $(BUILD)/acidlot samples
 	sh bench/tables.sh $(BUILD)/acidlot
+
+# the program, the static library, its headers and acidlot.pc under
+# PREFIX (default /usr/local); DESTDIR=... stages them elsewhere
+install: build
+	cmake --install $(BUILD) $(if $(PREFIX),--prefix $(PREFIX))
 
 clean:
 	rm -rf $(BUILD) $(ASAN_BUILD) $(FUZZ_BUILD)
