@@ -9,7 +9,9 @@ trap 'rm -rf "$dest"' EXIT
 DESTDIR=$dest cmake --install "$build" >/dev/null || { echo "install failed"; exit 1; }
 prefix=$(sed -n 's/^prefix=//p' "$build/acidlot.pc")
 root=$dest$prefix
-for f in bin/acidlot include/acidlot/acidlot.h lib/pkgconfig/acidlot.pc; do
+for f in bin/acidlot include/acidlot/acidlot.h lib/pkgconfig/acidlot.pc \
+	share/man/man1/acidlot.1 share/man/man1/acidlot-assay.1 \
+	share/bash-completion/completions/acidlot; do
 	[ -e "$root/$f" ] || { echo "missing $f"; exit 1; }
 done
 ls "$root"/lib*/libacidlot.a >/dev/null 2>&1 || { echo "missing libacidlot.a"; exit 1; }
