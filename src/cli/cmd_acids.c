@@ -33,6 +33,27 @@ pka_text(const al_acid *a, char *buf, size_t cap)
 	}
 }
 
+/* A source in short, for the table: its first part (up to ';'),
+ * without the notes in brackets on how it was checked, cut to the room
+ * a 100-column line leaves; --csv gives it whole. */
+static void
+short_source(const char *source, char *out, size_t cap)
+{
+	size_t n = 0, room = 100 - 75; /* the columns before it: 75 */
+	int depth = 0;
+
+	for (const char *s = source; *s && *s != ';' && n + 1 < cap; s++) {
+		depth += *s == '(';
+		if (depth == 0 && !(*s == ' ' && (s[1] == '(' || s[1] == ';' ||
+						  s[1] == '\0')))
+			out[n++] = *s;
+		depth -= *s == ')' && depth > 0;
+	}
+	out[n] = '\0';
+	if (n > room && room > 3)
+		snprintf(out + room - 3, cap - (room - 3), "...");
+}
+
 int
 cmd_acids(int argc, char **argv)
 {
@@ -89,10 +110,14 @@ cmd_acids(int argc, char **argv)
 			putchar(',');
 			al_csv_put_field(stdout, a->source, ',');
 			putchar('\n');
-		} else
+		} else {
+			char src[128];
+
+			short_source(a->source, src, sizeof src);
 			printf("%-19s %-12s %9.3f %3d %8.5f  %-16s %s\n",
 			       a->name, a->formula, a->molar_mass, a->protons,
-			       a->g_per_meq, pka, a->source);
+			       a->g_per_meq, pka, src);
+		}
 	}
 	al_catalogue_free(cat);
 	if (fflush(stdout) != 0 || ferror(stdout)) {
