@@ -39,8 +39,8 @@ required_columns(al_rows *rs, const al_csv_row *row)
 	for (int k = AL_C_SAMPLE; k <= AL_C_TITRANT; k++) {
 		const char *near;
 
-		if (rs->col[k] >= 0)
-			continue;
+		if (rs->col[k] >= 0 || rs->col[k] == AL_COLUMN_NAMED)
+			continue; /* there, or named already with its --column */
 		near = al_header_closest(row, cols[k]);
 		if (near)
 			AL_RUN_DIAG(rs, AL_SEV_ERROR, row->line, NULL,
@@ -55,7 +55,7 @@ required_columns(al_rows *rs, const al_csv_row *row)
 				 cols[k], have);
 		ok = 0;
 	}
-	if (rs->col[AL_C_MASS] < 0 && rs->col[AL_C_VOLUME] < 0) {
+	if (rs->col[AL_C_MASS] == -1 && rs->col[AL_C_VOLUME] == -1) {
 		const char *near = al_header_closest(row, "mass_g");
 		const char *which = "mass_g";
 
@@ -149,7 +149,7 @@ al_rows_header(al_rows *rs, const al_csv_row *row)
 			 "--decimal-comma");
 		ok = 0;
 	}
-	if (rs->col[AL_C_CONC] < 0 && !rs->opt->has_titrant &&
+	if (rs->col[AL_C_CONC] == -1 && !rs->opt->has_titrant &&
 	    !(rs->opt->titrants && rs->col[AL_C_TITRANT_LOT] >= 0)) {
 		AL_RUN_DIAG(rs, AL_SEV_ERROR, row->line, NULL,
 			"no titrant concentration: add a 'titrant_mol_l' "

@@ -197,11 +197,11 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 	      size_t n_names, const al_column_alias *aliases,
 	      size_t n_aliases, int *index, const char *file, al_diags *diags)
 {
-	char unknown[512];
-	size_t ulen = 0, n_unknown = 0;
+	char unknown[512], all[1024];
+	size_t ulen = 0, n_unknown = 0, alen = 0, n_named = 0;
 	al_status st = AL_OK;
 
-	unknown[0] = '\0';
+	unknown[0] = all[0] = '\0';
 	for (size_t k = 0; k < n_names; k++)
 		index[k] = -1;
 	for (size_t i = 0; i < header->nfields; i++) {
@@ -227,6 +227,14 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 				     "--column %s=\"%.*s\"",
 				     (int)len, h, names[k], names[k], (int)len, h);
 			st = AL_EINPUT;
+			if (index[k] == -1)
+				index[k] = AL_COLUMN_NAMED;
+			if (alen < sizeof all)
+				alen += (size_t)snprintf(all + alen,
+							 sizeof all - alen,
+							 " --column %s=\"%.*s\"",
+							 names[k], (int)len, h);
+			n_named++;
 		} else if (mode == AL_UNKNOWN_ERROR) {
 			const char *near = al_closest(h, len, names, n_names);
 
@@ -244,6 +252,9 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 			n_unknown++;
 		}
 	}
+	if (n_named > 1 && alen < sizeof all)
+		al_diags_add(diags, AL_SEV_WARNING, file, header->line, NULL,
+			     "to map them all, add:%s", all);
 	if (n_unknown > 0)
 		al_diags_add(diags, AL_SEV_WARNING, file, header->line, NULL,
 			     "ignoring %zu unknown column%s: %s", n_unknown,

@@ -27,6 +27,10 @@ typedef enum al_unknown_columns {
 	AL_UNKNOWN_ERROR = 1
 } al_unknown_columns;
 
+/* index[k] of a column that a header names in a common form (reported
+ * with the --column that maps it, not mapped). */
+#define AL_COLUMN_NAMED (-2)
+
 /* Maps a header row onto known column names (matched ignoring case and
  * surrounding blanks), and onto aliases (n_aliases may be 0). index[k]
  * gets the field number of names[k], or -1. A column given twice is an

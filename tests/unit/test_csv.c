@@ -573,6 +573,7 @@ header_for(const char *word, const char *means, char *buf, size_t cap,
 		{"lot", "", "", "lot"},
 		{"sample", "", "", "sample"},
 		{"date", "", "", "date"},
+		{"product", "", "", "product"},
 	};
 
 	for (size_t i = 0; i < sizeof form / sizeof form[0]; i++)
@@ -590,7 +591,8 @@ header_words_mapped(void **state)
 {
 	static const char *const names[] = {
 		"sample", "titrant_ml", "mass_g", "volume_ml", "blank_ml",
-		"titrant_mol_l", "endpoint_ph", "water_pct", "lot", "date"};
+		"titrant_mol_l", "endpoint_ph", "water_pct", "lot", "date",
+		"product"};
 	char text[4096], header[128], want[160];
 	const char *line, *column;
 	size_t checked = 0;
@@ -602,7 +604,7 @@ header_words_mapped(void **state)
 	for (; *line; line = strchr(line, '\n') + 1) {
 		char word[64], means[64];
 		al_diags d = {0};
-		int index[10];
+		int index[11];
 		const char *cells[1];
 		size_t lens[1];
 		al_csv_row row = {0};
@@ -620,7 +622,7 @@ header_words_mapped(void **state)
 		row.line = 1;
 		snprintf(want, sizeof want, "looks like %s:", column);
 		/* our own word ("lot") is the column itself */
-		if (al_header_map(AL_UNKNOWN_WARN, &row, names, 10, NULL, 0,
+		if (al_header_map(AL_UNKNOWN_WARN, &row, names, 11, NULL, 0,
 				  index, "t.csv", &d) == AL_OK &&
 		    strcmp(header, column) == 0) {
 			checked++;
