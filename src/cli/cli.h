@@ -91,6 +91,14 @@ int cli_options(const char *cmd, int argc, char **argv,
 		const char *const *names, size_t n, void (*usage)(FILE *),
 		cli_option_fn one, void *ctx);
 
+/* A CSV text (our own: quoted fields with "" inside) as aligned columns,
+ * two blanks apart, no blank at a line's end: the table a person reads
+ * at a terminal. */
+void cli_aligned(FILE *out, const char *csv, size_t len);
+/* 1 when a command's table goes to a person: standard output is a
+ * terminal (and no file was asked for). */
+int cli_is_terminal(void);
+
 /* Parses a unit name for an option ("--unit", or "UNIT" for an operand);
  * 0 on success, else a usage error saying why and -1. */
 int cli_unit(const char *cmd, const char *option, const char *text,

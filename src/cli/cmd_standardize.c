@@ -1,8 +1,10 @@
 /* acidlot command line: the standardize command (titrant register).
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _POSIX_C_SOURCE 200809L
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 
@@ -46,6 +48,8 @@ usage(FILE *out)
 	      "triangular; temperature, V x 2.1e-4 /K x range / 1.96, normal;\n"
 	      "repeatability, s / sqrt(n) or PCT / sqrt(n), normal.\n"
 	      "      --k K                coverage factor (default 2)\n"
+	      "      --format F          table (aligned columns) or csv; default\n"
+	      "                          table on a terminal, csv into a pipe\n"
 	      "      --delimiter D, --decimal-comma   as for assay\n"
 	      "  -h, --help               this help\n"
 	      "\n"
@@ -58,21 +62,23 @@ usage(FILE *out)
 enum {
 	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
-	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY
+	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
 static const char *const options[] = {
 	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
 	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
-	"delimiter", "decimal-comma!", "repeatability-rsd", "register=o",
+	"delimiter", "decimal-comma!", "repeatability-rsd", "format",
+	"register=o",
 };
-_Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_REPEATABILITY - CLI_OPT + 2,
+_Static_assert(sizeof options / sizeof options[0] == OPT_FORMAT - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 struct args {
 	const char *reg, *budget, *record, *analyst;
+	int table; /* the lots as aligned columns (a terminal), not CSV */
+	int format_given;
 	al_std_params p;
 	double min_n, valid_days; /* as given, then into p */
 	int has_min_n, has_valid_days;
@@ -125,6 +131,15 @@ other_option(struct args *a, int c)
 
 	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
 		return 1;
+	if (c == OPT_FORMAT) {
+		if (strcmp(optarg, "table") != 0 && strcmp(optarg, "csv") != 0)
+			return cli_usage_error("standardize", "--format takes "
+							      "table or csv"),
+			       -1;
+		a->table = optarg[0] == 't';
+		a->format_given = 1;
+		return 1;
+	}
 	if (c == OPT_DECIMAL_COMMA) {
 		a->csv.decimal_point = ',';
 		return 1;
@@ -160,6 +175,8 @@ parse_args(int argc, char **argv, struct args *a)
 
 	if (got != 0)
 		return got;
+	if (!a->format_given)
+		a->table = cli_is_terminal();
 	if (a->has_min_n)
 		a->p.min_n = (size_t)a->min_n;
 	if (a->has_valid_days)
@@ -435,13 +452,40 @@ open_register(struct job *j)
 	return 0;
 }
 
-/* Each lot into the register, and its line on standard output. */
+static int lots_csv(struct job *j, FILE *out);
+
+/* Each lot into the register, and its line on standard output: CSV,
+ * or at a terminal the same as aligned columns. */
 static int
 put_lots(struct job *j)
 {
+	char *text = NULL;
+	size_t len = 0;
+	FILE *out = j->a.table ? open_memstream(&text, &len) : stdout;
+
+	if (out == NULL)
+		return cli_error("%s", al_strerror(AL_ENOMEM)), -1;
+	if (lots_csv(j, out) != 0) {
+		if (out != stdout)
+			fclose(out);
+		free(text);
+		return -1;
+	}
+	if (out != stdout) {
+		fclose(out);
+		cli_aligned(stdout, text, len);
+		free(text);
+	}
+	return 0;
+}
+
+/* The lots as CSV into out, and into the register. */
+static int
+lots_csv(struct job *j, FILE *out)
+{
 	fputs("titrant_lot,standard,n,concentration_mol_l,sd_mol_l,rsd_pct,"
 	      "u_mol_l,U_mol_l,k,standardised_on,valid_until,status,reason\n",
-	      stdout);
+	      out);
 	for (size_t i = 0; i < al_std_lot_count(j->run); i++) {
 		const al_std_lot *l = al_std_lot_at(j->run, i);
 		al_titrant t;
@@ -463,7 +507,7 @@ put_lots(struct job *j)
 			cli_error("%s", al_strerror(AL_ENOMEM));
 			return -1;
 		}
-		summary_line(stdout, l, &t, j->a.p.k);
+		summary_line(out, l, &t, j->a.p.k);
 	}
 	return 0;
 }

@@ -11,6 +11,7 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <sys/types.h>
+#include <unistd.h>
 
 #include "cli.h"
 
@@ -499,4 +500,87 @@ cli_check_decimal_comma(const char *cmd, const al_csv_options *csv)
 				       "than ',': add --delimiter ';' (or tab, "
 				       "or auto)");
 	return 0;
+}
+
+/* The next field of a CSV line at *p (unquoted into out); 0 at the
+ * line's end. */
+static int
+next_field(const char **p, const char *end, char *out, size_t cap)
+{
+	const char *s = *p;
+	size_t n = 0;
+	int quoted = s < end && *s == '"';
+
+	if (s >= end || *s == '\n')
+		return 0;
+	s += quoted;
+	while (s < end && (quoted || (*s != ',' && *s != '\n'))) {
+		if (quoted && *s == '"') {
+			if (s + 1 < end && s[1] == '"')
+				s++;
+			else {
+				quoted = 0;
+				s++;
+				continue;
+			}
+		}
+		if (n + 1 < cap)
+			out[n++] = *s;
+		s++;
+	}
+	out[n] = '\0';
+	*p = s < end && *s == ',' ? s + 1 : s;
+	return 1;
+}
+
+/* Characters a terminal shows for s (UTF-8 lead bytes). */
+static size_t
+shown_width(const char *s)
+{
+	size_t n = 0;
+
+	for (; *s; s++)
+		n += ((unsigned char)*s & 0xC0) != 0x80;
+	return n;
+}
+
+void
+cli_aligned(FILE *out, const char *csv, size_t len)
+{
+	size_t width[32] = {0};
+	const char *end = csv + len;
+	char f[256];
+
+	for (int pass = 0; pass < 2; pass++)
+		for (const char *p = csv; p < end;) {
+			size_t k = 0, nf = 0;
+			const char *q = p;
+
+			/* the fields of this line that are not empty at its end */
+			while (next_field(&q, end, f, sizeof f))
+				if (f[0])
+					nf = ++k;
+				else
+					k++;
+			for (k = 0; next_field(&p, end, f, sizeof f); k++) {
+				size_t w = shown_width(f);
+
+				if (k < 32 && pass == 0 && w > width[k])
+					width[k] = w;
+				if (pass == 1 && k < nf)
+					fprintf(out, "%s%*s", f,
+						k + 1 < nf ? (int)(width[k < 32 ? k : 31] - w + 2)
+							   : 0,
+						"");
+			}
+			if (pass == 1)
+				fputc('\n', out);
+			p += p < end && *p == '\n';
+		}
+}
+
+int
+cli_is_terminal(void)
+{
+	return isatty(STDOUT_FILENO);
 }
