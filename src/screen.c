@@ -6,6 +6,7 @@
 
 #include "acidlot/number.h"
 #include "acidlot/report.h"
+#include "acidlot/text.h"
 
 void
 al_screen_reasons(const al_group_result *r, char *buf, size_t cap)
@@ -91,17 +92,6 @@ line_fields(const al_assay *run, size_t i, const al_screen_options *opt,
 	al_screen_reasons(r, f[F_REASONS], 512);
 }
 
-/* Characters a terminal shows for s (UTF-8: its lead bytes). */
-static size_t
-shown(const char *s)
-{
-	size_t n = 0;
-
-	for (; *s; s++)
-		n += ((unsigned char)*s & 0xC0) != 0x80;
-	return n;
-}
-
 static const char *
 colour_of(const char *status)
 {
@@ -125,7 +115,7 @@ put_line(FILE *out, char f[F_COUNT][512], const size_t *width, int colour)
 		last--;
 	for (int k = 0; k <= last; k++) {
 		const char *c = k == F_STATUS && colour ? colour_of(f[k]) : "";
-		size_t pad = k < last ? width[k] - shown(f[k]) + 2 : 0;
+		size_t pad = k < last ? width[k] - al_utf8_width(f[k]) + 2 : 0;
 
 		fprintf(out, "%s%s%s%*s", c, f[k], *c ? "\033[0m" : "",
 			(int)pad, "");
@@ -143,12 +133,12 @@ al_screen_write(FILE *out, const al_assay *run, const al_screen_options *opt)
 	size_t width[F_COUNT], n = al_assay_group_count(run);
 
 	for (int k = 0; k < F_COUNT; k++)
-		width[k] = shown(head[k]);
+		width[k] = al_utf8_width(head[k]);
 	for (size_t i = 0; i < n; i++) {
 		line_fields(run, i, opt, f);
 		for (int k = 0; k < F_COUNT; k++)
-			if (shown(f[k]) > width[k])
-				width[k] = shown(f[k]);
+			if (al_utf8_width(f[k]) > width[k])
+				width[k] = al_utf8_width(f[k]);
 	}
 	put_line(out, head, width, 0);
 	for (size_t i = 0; i < n; i++) {

@@ -232,3 +232,13 @@ al_closest(const char *word, size_t len, const char *const *cands, size_t n)
 	}
 	return best;
 }
+
+size_t
+al_utf8_width(const char *s)
+{
+	size_t n = 0;
+
+	for (; *s; s++)
+		n += ((unsigned char)*s & 0xC0) != 0x80;
+	return n;
+}

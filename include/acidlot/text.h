@@ -47,4 +47,8 @@ size_t al_edit_distance(const char *a, size_t la, const char *b, size_t lb);
 const char *al_closest(const char *word, size_t len,
 		       const char *const *cands, size_t n);
 
+/* The characters a terminal shows for the UTF-8 text s (its lead bytes;
+ * every character one column wide). */
+size_t al_utf8_width(const char *s);
+
 #endif

@@ -533,17 +533,6 @@ next_field(const char **p, const char *end, char *out, size_t cap)
 	return 1;
 }
 
-/* Characters a terminal shows for s (UTF-8 lead bytes). */
-static size_t
-shown_width(const char *s)
-{
-	size_t n = 0;
-
-	for (; *s; s++)
-		n += ((unsigned char)*s & 0xC0) != 0x80;
-	return n;
-}
-
 void
 cli_aligned(FILE *out, const char *csv, size_t len)
 {
@@ -563,7 +552,7 @@ cli_aligned(FILE *out, const char *csv, size_t len)
 				else
 					k++;
 			for (k = 0; next_field(&p, end, f, sizeof f); k++) {
-				size_t w = shown_width(f);
+				size_t w = al_utf8_width(f);
 
 				if (k < 32 && pass == 0 && w > width[k])
 					width[k] = w;
