@@ -333,6 +333,11 @@ al_format_sig(double v, int sig, char *buf, size_t cap)
 
 	snprintf(t, sizeof t, "%.*e", sig - 1, v);
 	e = atoi(strchr(t, 'e') + 1);
+	if (e >= sig && a < 1e15 && cap > 20) {
+		/* where %g would write e+NN: the same rounded number whole */
+		snprintf(buf, cap, "%.0f", strtod(t, NULL));
+		return;
+	}
 	/* plain decimals need 2 + sig - 1 - e bytes and a sign and a NUL */
 	if (!(a >= 1e-100) || e >= -4 || !isfinite(v) ||
 	    (size_t)(sig - e + 3) > cap) {

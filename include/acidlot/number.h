@@ -45,9 +45,10 @@ int al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 		  size_t ucap);
 
 /* v with sig significant digits as %g writes them, trailing zeros
- * dropped, but never with a negative exponent: from 1e-100 up to 1e-4
- * in plain decimals (8.27e-05 -> 0.0000827), which a spreadsheet and a
- * person read alike. cap of 128 holds any such number. */
+ * dropped, but never with an exponent below 1e15: from 1e-100 up to
+ * 1e-4 in plain decimals (8.27e-05 -> 0.0000827), and a whole number of
+ * more than sig digits written whole, which a spreadsheet and a person
+ * read alike. cap of 128 holds any such number. */
 void al_format_sig(double v, int sig, char *buf, size_t cap);
 
 #endif

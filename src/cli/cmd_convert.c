@@ -24,7 +24,7 @@ usage(FILE *out)
 	      "                         and a per-volume unit\n"
 	      "      --brix B           or the density of a sucrose solution of\n"
 	      "                         B Brix (NBS table, 0-40 Brix)\n"
-	      "      --decimals N       fixed decimals (default 10 significant\n"
+	      "      --decimals N       fixed decimals (default 6 significant\n"
 	      "                         digits)\n"
 	      "  -h, --help             this help\n"
 	      "Units: g/100g g/kg g/100mL g/L meq/100g meq/L\n",
@@ -169,7 +169,12 @@ cmd_convert(int argc, char **argv)
 		cli_error("convert: the result (%g) is out of range", out);
 		goto out;
 	}
-	al_format_number(out, (int)o.decimals, 0, num, sizeof num);
+	/* --decimals, else 6 significant digits (as recovery); never an
+	 * exponent */
+	if (o.decimals >= 0)
+		al_format_number(out, (int)o.decimals, 0, num, sizeof num);
+	else
+		al_format_sig(out, 6, num, sizeof num);
 	if (al_unit_is_meq(to_unit))
 		printf("%s %s\n", num, al_unit_name(to_unit));
 	else

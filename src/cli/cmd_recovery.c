@@ -31,18 +31,21 @@ usage(FILE *out)
 	      "      --recovered-kg R   mass of product recovered, kg\n"
 	      "      --assay PCT        its assay, % of the acid (w/w)\n"
 	      "      --base NAME        a base to neutralise with\n"
+	      "      --decimals N       fixed decimals (default 6 significant\n"
+	      "                         digits, as convert)\n"
 	      "  -h, --help             this help\n",
 	      out);
 }
 
 enum {
 	OPT_TA = CLI_OPT, OPT_UNIT, OPT_ACID, OPT_START_KG, OPT_START_L,
-	OPT_DENSITY, OPT_BRIX, OPT_RECOVERED, OPT_ASSAY, OPT_BASE
+	OPT_DENSITY, OPT_BRIX, OPT_RECOVERED, OPT_ASSAY, OPT_BASE, OPT_DECIMALS
 };
 
 /* What the options say; the amounts are -1 when not given. */
 struct rec_args {
 	double ta, start, density, recovered, assay;
+	double decimals; /* fixed decimals, or -1: 10 significant digits */
 	const char *unit, *acid, *base;
 	int by_volume;
 };
@@ -87,6 +90,9 @@ one_option(void *ctx, int c, char *text)
 		 "--density-g-ml: %s is not above 0", &a->density, NULL},
 		{OPT_RECOVERED, "--recovered-kg", 0, HUGE_VAL, CLI_ABOVE,
 		 "--recovered-kg: %s is not above 0", &a->recovered, NULL},
+		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
+		 "--decimals takes a whole number from 0 to 15", &a->decimals,
+		 NULL},
 		{OPT_ASSAY, "--assay", 0, 110, CLI_ABOVE,
 		 "--assay is a percentage above 0, at most 110", &a->assay,
 		 NULL},
@@ -104,8 +110,9 @@ one_option(void *ctx, int c, char *text)
 /* The long options, in the order of the OPT_ values (cli_options). */
 static const char *const options[] = {
 	"ta",	       "unit", "acid",		"start-kg", "start-l",
-	"density-g-ml", "brix", "recovered-kg", "assay",    "base"};
-_Static_assert(sizeof options / sizeof options[0] == OPT_BASE - CLI_OPT + 1,
+	"density-g-ml", "brix", "recovered-kg", "assay",    "base",
+	"decimals"};
+_Static_assert(sizeof options / sizeof options[0] == OPT_DECIMALS - CLI_OPT + 1,
 	       "one name for each OPT_ value");
 
 /* 0, 1 after --help, -1 after a usage error. */
@@ -115,11 +122,23 @@ parse_args(int argc, char **argv, struct rec_args *a)
 	int got;
 
 	memset(a, 0, sizeof *a);
-	a->ta = a->start = a->recovered = a->assay = -1;
+	a->ta = a->start = a->recovered = a->assay = a->decimals = -1;
 	got = cli_options("recovery", argc, argv, options,
 			  sizeof options / sizeof options[0], usage,
 			  one_option, a);
 	return got != 0 ? got : check_args(argc, argv, a);
+}
+
+/* A figure as the output writes it: --decimals, else 6 significant
+ * digits (as convert writes them); never an exponent. */
+static const char *
+fig(double v, const struct rec_args *o, char buf[128])
+{
+	if (o->decimals >= 0)
+		al_format_number(v, (int)o->decimals, 0, buf, 128);
+	else
+		al_format_sig(v, 6, buf, 128);
+	return buf;
 }
 
 /* The recovery (with --recovered-kg and --assay) and the base demand
@@ -131,13 +150,14 @@ print_outcomes(const struct rec_args *o, const al_base *base, double acid_kg,
 {
 	double recovered = o->recovered, assay = o->assay;
 	int not_pass = 0;
+	char a[128], b[128], c[128];
 
 	if (recovered >= 0) {
 		double got = recovered * assay / 100;
 
-		printf("acid recovered: %.6g kg (%.6g kg at %.6g %%)\n", got,
-		       recovered, assay);
-		printf("recovery: %.4g %%\n", 100 * got / acid_kg);
+		printf("acid recovered: %s kg (%s kg at %s %%)\n",
+		       fig(got, o, a), fig(recovered, o, b), fig(assay, o, c));
+		printf("recovery: %s %%\n", fig(100 * got / acid_kg, o, a));
 		if (got > acid_kg) {
 			/* more acid out than went in: a wrong input, or a
 			 * material balance to look at before any release */
@@ -150,11 +170,11 @@ print_outcomes(const struct rec_args *o, const al_base *base, double acid_kg,
 	if (base) {
 		double mol_base = meq_total / 1000 / base->equivalents;
 
-		printf("base demand: %.6g kg %s (%.6g mol H+ / %d H+ per %s = "
-		       "%.6g mol x %.3f g/mol)\n",
-		       mol_base * base->molar_mass / 1000, base->name,
-		       meq_total / 1000, base->equivalents, base->formula,
-		       mol_base, base->molar_mass);
+		printf("base demand: %s kg %s (%s mol H+ / %d H+ per %s = "
+		       "%s mol x %.3f g/mol)\n",
+		       fig(mol_base * base->molar_mass / 1000, o, a), base->name,
+		       fig(meq_total / 1000, o, b), base->equivalents,
+		       base->formula, fig(mol_base, o, c), base->molar_mass);
 	}
 	return not_pass;
 }
@@ -162,6 +182,7 @@ print_outcomes(const struct rec_args *o, const al_base *base, double acid_kg,
 int
 cmd_recovery(int argc, char **argv)
 {
+	char num_a[128], num_b[128];
 	int not_pass = 0, rc = EXIT_TROUBLE, done;
 	al_unit unit;
 	al_catalogue *cat = NULL;
@@ -216,8 +237,9 @@ cmd_recovery(int argc, char **argv)
 			  acid_kg);
 		goto out;
 	}
-	printf("acid present: %.6g kg as %s (%.6g mol H+ titratable)\n", acid_kg,
-	       acid->name, meq_total / 1000);
+	printf("acid present: %s kg as %s (%s mol H+ titratable)\n",
+	       fig(acid_kg, &o, num_a), acid->name,
+	       fig(meq_total / 1000, &o, num_b));
 	not_pass = print_outcomes(&o, base, acid_kg, meq_total);
 	rc = fflush(stdout) == 0 && !ferror(stdout) ? not_pass : EXIT_TROUBLE;
 	if (rc == EXIT_TROUBLE)
