@@ -106,6 +106,8 @@ struct lot {
 struct al_std_run {
 	const al_catalogue *cat;
 	al_std_params p;
+	const al_column_alias *aliases; /* --column: other headers */
+	size_t n_aliases;
 	long today;
 	al_diags diags;
 	struct lot *lots;
@@ -177,10 +179,20 @@ std_header(al_std_run *run, const al_csv_row *row)
 {
 	run->header_done = 1;
 	run->header_fields = row->nfields;
-	run->header_ok = al_header_map(AL_UNKNOWN_WARN, row, std_cols, 7, NULL, 0, run->col,
+	run->header_ok = al_header_map(AL_UNKNOWN_WARN, row, std_cols, 7,
+				       run->aliases, run->n_aliases, run->col,
 				       run->file, &run->diags) == AL_OK;
+	for (size_t i = 0; i < run->n_aliases; i++)
+		if (!al_header_has(row, run->aliases[i].header)) {
+			ERR(run, row->line, NULL,
+			    "--column %s=\"%s\": the file has no column '%s'",
+			    run->aliases[i].name, run->aliases[i].header,
+			    run->aliases[i].header);
+			run->header_ok = 0;
+		}
 	for (int k = S_LOT; k <= S_TITRANT; k++) {
-		if (k == S_STANDARD || k == S_PURITY || run->col[k] >= 0)
+		if (k == S_STANDARD || k == S_PURITY || run->col[k] >= 0 ||
+		    run->col[k] == AL_COLUMN_NAMED)
 			continue;
 		ERR(run, row->line, NULL, "missing required column '%s'",
 		    std_cols[k]);
@@ -389,6 +401,22 @@ al_std_read(al_std_run *run, FILE *in, const char *name,
 	    const al_csv_options *csv)
 {
 	return al_std_read_source(run, al_read_stdio, in, name, csv);
+}
+
+int
+al_std_is_column(const char *name)
+{
+	for (int k = 0; k < 7; k++)
+		if (strcmp(std_cols[k], name) == 0)
+			return 1;
+	return 0;
+}
+
+void
+al_std_set_columns(al_std_run *run, const al_column_alias *aliases, size_t n)
+{
+	run->aliases = aliases;
+	run->n_aliases = n;
 }
 
 al_status

@@ -10,6 +10,7 @@
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
 #include "acidlot/status.h"
+#include "acidlot/table.h"
 
 /* The uncertainty model's parameters; al_std_params_default fills them. */
 typedef struct al_std_params {
@@ -102,6 +103,12 @@ void al_std_free(al_std_run *run);
 al_status al_std_read(al_std_run *run, FILE *in, const char *name,
 		      const al_csv_options *csv);
 /* The same from any source (see al_csv_read). */
+/* 1 when name is a column of the standardisation file. */
+int al_std_is_column(const char *name);
+/* Other headers for its columns (--column); each must name a header of
+ * every file read. The aliases must outlive the run. */
+void al_std_set_columns(al_std_run *run, const al_column_alias *aliases,
+			size_t n);
 al_status al_std_read_source(al_std_run *run, al_read_fn read_fn, void *ctx,
 			     const char *name, const al_csv_options *csv);
 al_status al_std_finish(al_std_run *run);

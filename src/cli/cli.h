@@ -59,6 +59,11 @@ typedef struct cli_range {
 int cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 		     const char *text);
 
+/* --column NAME=HEADER into list[*n] (at most max): NAME must be one
+ * of the command's columns (known); 1, or -1 after a usage error. */
+int cli_column_option(const char *cmd, char *text, int (*known)(const char *),
+		      al_column_alias *list, size_t *n, size_t max);
+
 /* --brix: the density of a sucrose solution of that Brix (NBS), into
  * *density; 1, or -1 after a usage error. */
 int cli_brix_option(const char *cmd, const char *text, double *density);

@@ -219,33 +219,6 @@ text_option(struct args *a, int c)
 	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
 }
 
-/* --column NAME=HEADER: 1, or -1 after a usage error. */
-static int
-column_option(struct args *a, char *text)
-{
-	char *eq = strchr(text, '=');
-
-	if (eq == NULL || eq == text || eq[1] == '\0')
-		return cli_usage_error("assay",
-				       "--column takes NAME=HEADER, e.g. "
-				       "--column titrant_ml=\"Vol (mL)\""),
-		       -1;
-	*eq = '\0';
-	if (!al_assay_is_column(text))
-		return cli_usage_error("assay",
-				       "--column: '%s' is not one of our "
-				       "columns (see the README)",
-				       text),
-		       -1;
-	if (a->n_column_opts == MAX_COLUMN_OPTS)
-		return cli_usage_error("assay", "too many --column options"),
-		       -1;
-	a->column_opts[a->n_column_opts].name = text;
-	a->column_opts[a->n_column_opts].header = eq + 1;
-	a->n_column_opts++;
-	return 1;
-}
-
 /* --decision simple | guarded[:R]: 1, or -1 after a usage error. */
 static int
 decision_option(struct args *a, const char *text)
@@ -351,7 +324,9 @@ one_option(void *ctx, int c, char *text)
 	if (got == 0)
 		got = word_option(a, c, text);
 	if (got == 0 && c == OPT_COLUMN)
-		got = column_option(a, text);
+		got = cli_column_option("assay", text, al_assay_is_column,
+					a->column_opts, &a->n_column_opts,
+					MAX_COLUMN_OPTS);
 	return got;
 }
 

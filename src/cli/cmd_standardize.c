@@ -48,6 +48,8 @@ usage(FILE *out)
 	      "triangular; temperature, V x 2.1e-4 /K x range / 1.96, normal;\n"
 	      "repeatability, s / sqrt(n) or PCT / sqrt(n), normal.\n"
 	      "      --k K                coverage factor (default 2)\n"
+	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
+	      "                          column NAME (repeatable)\n"
 	      "      --format F          table (aligned columns) or csv; default\n"
 	      "                          table on a terminal, csv into a pipe\n"
 	      "      --delimiter D, --decimal-comma   as for assay\n"
@@ -62,7 +64,8 @@ usage(FILE *out)
 enum {
 	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
-	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT
+	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT,
+	OPT_COLUMN
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -70,13 +73,17 @@ static const char *const options[] = {
 	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
 	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
 	"delimiter", "decimal-comma!", "repeatability-rsd", "format",
-	"register=o",
+	"column", "register=o",
 };
-_Static_assert(sizeof options / sizeof options[0] == OPT_FORMAT - CLI_OPT + 2,
+_Static_assert(sizeof options / sizeof options[0] == OPT_COLUMN - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
+
+#define MAX_COLUMNS 16
 
 struct args {
 	const char *reg, *budget, *record, *analyst;
+	al_column_alias columns[MAX_COLUMNS]; /* --column NAME=HEADER */
+	size_t n_columns;
 	int table; /* the lots as aligned columns (a terminal), not CSV */
 	int format_given;
 	al_std_params p;
@@ -131,6 +138,10 @@ other_option(struct args *a, int c)
 
 	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
 		return 1;
+	if (c == OPT_COLUMN)
+		return cli_column_option("standardize", optarg, al_std_is_column,
+					 a->columns, &a->n_columns,
+					 MAX_COLUMNS);
 	if (c == OPT_FORMAT) {
 		if (strcmp(optarg, "table") != 0 && strcmp(optarg, "csv") != 0)
 			return cli_usage_error("standardize", "--format takes "
@@ -406,6 +417,7 @@ read_lots(struct job *j, int argc, char **argv)
 		cli_error("%s", al_strerror(st));
 		return -1;
 	}
+	al_std_set_columns(j->run, j->a.columns, j->a.n_columns);
 	bad = read_inputs(j->run, &j->rec, argc, argv, &j->a.csv);
 	if (bad < 0) /* out of memory, said */
 		return -1;

@@ -231,6 +231,30 @@ cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 }
 
 int
+cli_column_option(const char *cmd, char *text, int (*known)(const char *),
+		  al_column_alias *list, size_t *n, size_t max)
+{
+	char *eq = strchr(text, '=');
+
+	if (eq == NULL || eq == text || eq[1] == '\0')
+		return cli_usage_error(cmd,
+				       "--column takes NAME=HEADER, e.g. "
+				       "--column titrant_ml=\"Vol (mL)\""),
+		       -1;
+	*eq = '\0';
+	if (!known(text))
+		return cli_usage_error(cmd,
+				       "--column: '%s' is not one of our "
+				       "columns (see '" PROG " %s --help')",
+				       text, cmd),
+		       -1;
+	if (*n == max)
+		return cli_usage_error(cmd, "too many --column options"), -1;
+	list[(*n)++] = (al_column_alias){.name = text, .header = eq + 1};
+	return 1;
+}
+
+int
 cli_brix_option(const char *cmd, const char *text, double *density)
 {
 	double brix;
