@@ -48,6 +48,9 @@ usage(FILE *out)
 	      "triangular; temperature, V x 2.1e-4 /K x range / 1.96, normal;\n"
 	      "repeatability, s / sqrt(n) or PCT / sqrt(n), normal.\n"
 	      "      --k K                coverage factor (default 2)\n"
+	      "      --decimals N        fixed decimals on standard output and\n"
+	      "                          in the budget (the register keeps every\n"
+	      "                          digit)\n"
 	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
 	      "                          column NAME (repeatable)\n"
 	      "      --format F          table (aligned columns) or csv; default\n"
@@ -65,7 +68,7 @@ enum {
 	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
 	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT,
-	OPT_COLUMN
+	OPT_COLUMN, OPT_DECIMALS
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -73,9 +76,10 @@ static const char *const options[] = {
 	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
 	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
 	"delimiter", "decimal-comma!", "repeatability-rsd", "format",
-	"column", "register=o",
+	"column", "decimals", "register=o",
 };
-_Static_assert(sizeof options / sizeof options[0] == OPT_COLUMN - CLI_OPT + 2,
+_Static_assert(sizeof options / sizeof options[0] ==
+		       OPT_DECIMALS - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 #define MAX_COLUMNS 16
@@ -88,6 +92,8 @@ struct args {
 	int format_given;
 	al_std_params p;
 	double min_n, valid_days; /* as given, then into p */
+	double decimals; /* of standard output and the budget; -1: digits
+			    as each figure carries them */
 	int has_min_n, has_valid_days;
 	al_csv_options csv;
 };
@@ -118,6 +124,9 @@ number_option(struct args *a, int c)
 		 "--temp-range-c must be 0 or more", &p->temp_range_c, NULL},
 		{OPT_K, "--k", 0, HUGE_VAL, CLI_ABOVE, "--k must be above 0",
 		 &p->k, NULL},
+		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
+		 "--decimals takes a whole number from 0 to 15", &a->decimals,
+		 NULL},
 	};
 
 	return cli_range_option("standardize", t, sizeof t / sizeof t[0], c,
@@ -250,30 +259,34 @@ outputs_safe(const struct args *a, int argc, char **argv)
 }
 
 static void
-number(FILE *out, double v, int sig)
+number(FILE *out, double v, int sig, int decimals)
 {
 	char buf[128];
 
-	al_format_sig(v, sig, buf, sizeof buf);
+	if (decimals >= 0)
+		al_format_number(v, decimals, 0, buf, sizeof buf);
+	else
+		al_format_sig(v, sig, buf, sizeof buf);
 	fprintf(out, ",%s", buf);
 }
 
 static void
-summary_line(FILE *out, const al_std_lot *l, const al_titrant *t, double k)
+summary_line(FILE *out, const al_std_lot *l, const al_titrant *t, double k,
+	     int dec)
 {
 	char on[11], until[11];
 
 	al_csv_put_field(out, l->lot, ',');
 	fprintf(out, ",%s,%zu", l->standard->name, l->n);
-	number(out, l->mean, 10);
+	number(out, l->mean, 10, dec);
 	if (l->has_sd) {
-		number(out, l->sd, 4);
-		number(out, l->rsd_pct, 4);
+		number(out, l->sd, 4, dec);
+		number(out, l->rsd_pct, 4, dec);
 	} else
 		fputs(",,", out);
-	number(out, l->budget.u, 3);
-	number(out, l->U, 3);
-	number(out, k, 3);
+	number(out, l->budget.u, 3, dec);
+	number(out, l->U, 3, dec);
+	number(out, k, 3, dec);
 	al_date_format(t->standardised_on, on);
 	al_date_format(t->valid_until, until);
 	fprintf(out, ",%s,%s,%s,", on, until, l->valid ? "accepted" : "rejected");
@@ -282,7 +295,7 @@ summary_line(FILE *out, const al_std_lot *l, const al_titrant *t, double k)
 }
 
 static void
-budget_lines(FILE *out, const al_std_lot *l)
+budget_lines(FILE *out, const al_std_lot *l, int dec)
 {
 	double total = l->budget.u * l->budget.u;
 
@@ -294,14 +307,14 @@ budget_lines(FILE *out, const al_std_lot *l)
 		al_csv_put_field(out, l->lot, ',');
 		putc(',', out);
 		al_csv_put_field(out, it->name, ',');
-		number(out, it->value, 8);
+		number(out, it->value, 8, dec);
 		fprintf(out, ",%s", it->unit);
-		number(out, it->u, 4);
-		number(out, it->sensitivity * l->mean / l->budget.c, 6);
-		number(out, contribution, 4);
+		number(out, it->u, 4, dec);
+		number(out, it->sensitivity * l->mean / l->budget.c, 6, dec);
+		number(out, contribution, 4, dec);
 		number(out, total > 0 ? 100 * contribution * contribution / total
 				      : 0,
-		       3);
+		       3, dec);
 		putc('\n', out);
 	}
 }
@@ -519,7 +532,7 @@ lots_csv(struct job *j, FILE *out)
 			cli_error("%s", al_strerror(AL_ENOMEM));
 			return -1;
 		}
-		summary_line(out, l, &t, j->a.p.k);
+		summary_line(out, l, &t, j->a.p.k, j->a.decimals);
 	}
 	return 0;
 }
@@ -541,7 +554,7 @@ write_outputs(struct job *j)
 		      al_outfile_stream(j->budget_out));
 		for (size_t i = 0; i < al_std_lot_count(j->run); i++)
 			budget_lines(al_outfile_stream(j->budget_out),
-				     al_std_lot_at(j->run, i));
+				     al_std_lot_at(j->run, i), j->a.decimals);
 		if (al_outfile_prepare(j->budget_out) != AL_OK)
 			return cli_error("%s: %s", a->budget, cli_reason(AL_OK)),
 			       -1;
@@ -634,6 +647,7 @@ cmd_standardize(int argc, char **argv)
 	int rc = EXIT_TROUBLE, n, done;
 
 	memset(&j, 0, sizeof j);
+	j.a.decimals = -1;
 	al_std_params_default(&j.a.p);
 	if ((done = cli_options_done(parse_args(argc, argv, &j.a))) >= 0)
 		return done;
