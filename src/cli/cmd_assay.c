@@ -11,6 +11,8 @@
 
 #include "assay_cli.h"
 
+static void usage_rest(FILE *out);
+
 static void
 usage(FILE *out)
 {
@@ -46,8 +48,16 @@ usage(FILE *out)
 	      "      --record FILE       record of the run (default\n"
 	      "                          REPORT.record.json with -o)\n"
 	      "      --analyst NAME      who ran it, for the record\n"
-	      "\n"
-	      "Replicate QC and decision:\n"
+	      "\n",
+	      out);
+	usage_rest(out);
+}
+
+/* The options of the decision, reading and writing; columns; exits. */
+static void
+usage_rest(FILE *out)
+{
+	fputs("Replicate QC and decision:\n"
 	      "      --decision RULE     simple (default: the mean against the\n"
 	      "                          limits) or guarded[:R] (guard band\n"
 	      "                          w = R x U, R default 1; ILAC G8)\n"
