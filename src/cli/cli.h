@@ -64,6 +64,12 @@ int cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 int cli_column_option(const char *cmd, char *text, int (*known)(const char *),
 		      al_column_alias *list, size_t *n, size_t max);
 
+/* An option that takes one of two words (first, second): 0 or 1 for
+ * the one given, or -1 after a usage error "OPTION takes FIRST or
+ * SECOND". */
+int cli_choice(const char *cmd, const char *option, const char *text,
+	       const char *first, const char *second);
+
 /* --brix: the density of a sucrose solution of that Brix (NBS), into
  * *density; 1, or -1 after a usage error. */
 int cli_brix_option(const char *cmd, const char *text, double *density);

@@ -262,24 +262,22 @@ decision_option(struct args *a, const char *text)
 static int
 word_option(struct args *a, int c, const char *text)
 {
+	int pick;
 	al_report_options *r = &a->ropt;
 
 	switch (c) {
 	case OPT_SHEET:
-		if (strcmp(text, "eu") != 0 && strcmp(text, "plain") != 0)
-			return cli_usage_error("assay", "--sheet-style takes "
-							"plain or eu"),
-			       -1;
-		r->bom = text[0] == 'e';
-		r->delimiter = text[0] == 'e' ? ';' : ',';
-		r->decimal_comma = text[0] == 'e';
+		if ((pick = cli_choice("assay", "--sheet-style", text, "plain",
+				       "eu")) < 0)
+			return -1;
+		r->bom = r->decimal_comma = pick;
+		r->delimiter = pick ? ';' : ',';
 		return 1;
 	case OPT_BASIS:
-		if (strcmp(text, "anhydrous") != 0 && strcmp(text, "as-is") != 0)
-			return cli_usage_error("assay", "--basis takes as-is or "
-							"anhydrous"),
-			       -1;
-		a->aopt.anhydrous = text[0] == 'a' && text[1] == 'n';
+		if ((pick = cli_choice("assay", "--basis", text, "as-is",
+				       "anhydrous")) < 0)
+			return -1;
+		a->aopt.anhydrous = pick;
 		return 1;
 	case OPT_DELIMITER:
 		if (cli_delimiter(text, &a->aopt.csv.delimiter))
@@ -300,11 +298,10 @@ word_option(struct args *a, int c, const char *text)
 			       -1;
 		return 1;
 	case OPT_FORMAT:
-		if (strcmp(text, "table") != 0 && strcmp(text, "csv") != 0)
-			return cli_usage_error("assay", "--format takes table or "
-							"csv"),
-			       -1;
-		a->format = text[0] == 't' ? FORMAT_TABLE : FORMAT_CSV;
+		if ((pick = cli_choice("assay", "--format", text, "table",
+				       "csv")) < 0)
+			return -1;
+		a->format = pick ? FORMAT_CSV : FORMAT_TABLE;
 		return 1;
 	case OPT_DECIMAL_COMMA:
 		a->aopt.csv.decimal_point = ',';

@@ -152,13 +152,12 @@ other_option(struct args *a, int c)
 					 a->columns, &a->n_columns,
 					 MAX_COLUMNS);
 	if (c == OPT_FORMAT) {
-		if (strcmp(optarg, "table") != 0 && strcmp(optarg, "csv") != 0)
-			return cli_usage_error("standardize", "--format takes "
-							      "table or csv"),
-			       -1;
-		a->table = optarg[0] == 't';
+		int pick = cli_choice("standardize", "--format", optarg, "table",
+				      "csv");
+
+		a->table = pick == 0;
 		a->format_given = 1;
-		return 1;
+		return pick < 0 ? -1 : 1;
 	}
 	if (c == OPT_DECIMAL_COMMA) {
 		a->csv.decimal_point = ',';

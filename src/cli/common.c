@@ -231,6 +231,19 @@ cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 }
 
 int
+cli_choice(const char *cmd, const char *option, const char *text,
+	   const char *first, const char *second)
+{
+	if (strcmp(text, first) == 0)
+		return 0;
+	if (strcmp(text, second) == 0)
+		return 1;
+	return cli_usage_error(cmd, "%s takes %s or %s", option, first,
+			       second),
+	       -1;
+}
+
+int
 cli_column_option(const char *cmd, char *text, int (*known)(const char *),
 		  al_column_alias *list, size_t *n, size_t max)
 {

@@ -93,6 +93,19 @@ main(int argc, char **argv)
 static int
 dispatch(int argc, char **argv)
 {
+	static const struct {
+		const char *name, *other; /* other: a second spelling */
+		int (*run)(int argc, char **argv);
+	} commands[] = {
+		{"assay", NULL, cmd_assay},
+		{"acids", NULL, cmd_acids},
+		{"convert", NULL, cmd_convert},
+		{"standardize", "standardise", cmd_standardize},
+		{"verify", NULL, cmd_verify},
+		{"recovery", NULL, cmd_recovery},
+		{"template", NULL, cmd_template},
+	};
+	const char *names[sizeof commands / sizeof commands[0]], *near;
 	const char *cmd;
 
 	/* GSL's default handler aborts; every precondition is checked in
@@ -113,33 +126,18 @@ dispatch(int argc, char **argv)
 		printf(PROG " %s\n", ACIDLOT_VERSION);
 		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
 	}
-	if (strcmp(cmd, "assay") == 0)
-		return cmd_assay(argc - 1, argv + 1);
-	if (strcmp(cmd, "acids") == 0)
-		return cmd_acids(argc - 1, argv + 1);
-	if (strcmp(cmd, "convert") == 0)
-		return cmd_convert(argc - 1, argv + 1);
-	if (strcmp(cmd, "standardize") == 0 || strcmp(cmd, "standardise") == 0)
-		return cmd_standardize(argc - 1, argv + 1);
-	if (strcmp(cmd, "verify") == 0)
-		return cmd_verify(argc - 1, argv + 1);
-	if (strcmp(cmd, "recovery") == 0)
-		return cmd_recovery(argc - 1, argv + 1);
-	if (strcmp(cmd, "template") == 0)
-		return cmd_template(argc - 1, argv + 1);
-	{
-		static const char *const commands[] = {
-			"assay",  "acids",  "convert", "standardize",
-			"verify", "recovery", "template"};
-		const char *near = al_closest(cmd, strlen(cmd), commands,
-					      sizeof commands /
-						      sizeof commands[0]);
-
-		if (near)
-			return cli_usage_error(NULL,
-					       "unknown command '%s'; did you "
-					       "mean '%s'?",
-					       cmd, near);
-	}
+	for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
+		if (strcmp(cmd, commands[i].name) == 0 ||
+		    (commands[i].other && strcmp(cmd, commands[i].other) == 0))
+			return commands[i].run(argc - 1, argv + 1);
+	for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
+		names[i] = commands[i].name;
+	near = al_closest(cmd, strlen(cmd), names,
+			  sizeof commands / sizeof commands[0]);
+	if (near)
+		return cli_usage_error(NULL,
+				       "unknown command '%s'; did you mean "
+				       "'%s'?",
+				       cmd, near);
 	return cli_usage_error(NULL, "unknown command '%s'", cmd);
 }
