@@ -138,8 +138,8 @@ static al_status
 reg_header(struct reader *r, const al_csv_row *row)
 {
 	r->header_done = 1;
-	if (al_own_header(row, reg_cols, R_COUNT, r->col, &r->fields, r->file,
-			  r->diags) != AL_OK)
+	if (al_own_header(row, reg_cols, R_COUNT, NULL, 0, r->col, &r->fields,
+			  r->file, r->diags, NULL) != AL_OK)
 		r->bad = 1;
 	for (int k = 0; k < R_COUNT; k++)
 		if (r->col[k] < 0 && k != R_RSD) {

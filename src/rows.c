@@ -122,7 +122,7 @@ al_rows_header(al_rows *rs, const al_csv_row *row)
 	}
 	if (al_header_map(AL_UNKNOWN_WARN, row, cols, AL_C_COUNT, rs->opt->aliases,
 			  rs->opt->n_aliases, rs->col, rs->file,
-			  rs->diags) != AL_OK)
+			  rs->diags, "--column") != AL_OK)
 		ok = 0;
 	for (size_t i = 0; i < rs->opt->n_alias_opts; i++)
 		if (!al_header_has(row, rs->opt->aliases[i].header)) {
@@ -407,10 +407,7 @@ out_of_range(al_rows *rs, unsigned long line, const al_titration *t)
 int
 al_assay_is_column(const char *name)
 {
-	for (int k = 0; k < AL_C_COUNT; k++)
-		if (strcmp(cols[k], name) == 0)
-			return 1;
-	return 0;
+	return al_name_index(cols, AL_C_COUNT, name) >= 0;
 }
 
 void

@@ -48,6 +48,8 @@ struct spec_reader {
 	char point;
 	char *ident; /* the current row's product, in NFC */
 	size_t ident_cap;
+	const al_column_alias *aliases; /* other headers (--spec-column) */
+	size_t n_aliases;
 };
 
 static void
@@ -63,8 +65,9 @@ static al_status
 spec_header(struct spec_reader *r, const al_csv_row *row)
 {
 	r->header_done = 1;
-	if (al_own_header(row, spec_cols, C_COUNT, r->col, &r->header_fields,
-			  r->file, r->diags) != AL_OK)
+	if (al_own_header(row, spec_cols, C_COUNT, r->aliases, r->n_aliases,
+			  r->col, &r->header_fields, r->file,
+			  r->diags, "--spec-column") != AL_OK)
 		r->bad = 1;
 	/* the specification's delimiter is told from its header: a
 	 * comma-delimited one has '.' decimals, whatever the titration
@@ -322,11 +325,29 @@ al_spec_table_read(const al_catalogue *cat, const al_csv_options *csv,
 		   FILE *in, const char *name, al_status *status,
 		   al_diags *diags)
 {
+	return al_spec_table_read_as(cat, csv, NULL, 0, in, name, status,
+				     diags);
+}
+
+int
+al_spec_is_column(const char *name)
+{
+	return al_name_index(spec_cols, C_COUNT, name) >= 0;
+}
+
+al_spec_table *
+al_spec_table_read_as(const al_catalogue *cat, const al_csv_options *csv,
+		      const al_column_alias *aliases, size_t n_aliases,
+		      FILE *in, const char *name, al_status *status,
+		      al_diags *diags)
+{
 	struct spec_reader r = {
 		.cat = cat,
 		.file = name,
 		.diags = diags,
 		.point = csv && csv->decimal_point ? csv->decimal_point : '.',
+		.aliases = aliases,
+		.n_aliases = n_aliases,
 	};
 	al_status st;
 

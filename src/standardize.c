@@ -181,7 +181,7 @@ std_header(al_std_run *run, const al_csv_row *row)
 	run->header_fields = row->nfields;
 	run->header_ok = al_header_map(AL_UNKNOWN_WARN, row, std_cols, 7,
 				       run->aliases, run->n_aliases, run->col,
-				       run->file, &run->diags) == AL_OK;
+				       run->file, &run->diags, "--column") == AL_OK;
 	for (size_t i = 0; i < run->n_aliases; i++)
 		if (!al_header_has(row, run->aliases[i].header)) {
 			ERR(run, row->line, NULL,
@@ -406,10 +406,7 @@ al_std_read(al_std_run *run, FILE *in, const char *name,
 int
 al_std_is_column(const char *name)
 {
-	for (int k = 0; k < 7; k++)
-		if (strcmp(std_cols[k], name) == 0)
-			return 1;
-	return 0;
+	return al_name_index(std_cols, 7, name) >= 0;
 }
 
 void

@@ -195,7 +195,8 @@ al_status
 al_header_map(al_unknown_columns mode, const al_csv_row *header,
 	      const char *const *names,
 	      size_t n_names, const al_column_alias *aliases,
-	      size_t n_aliases, int *index, const char *file, al_diags *diags)
+	      size_t n_aliases, int *index, const char *file, al_diags *diags,
+	      const char *option)
 {
 	char unknown[512], all[1024];
 	size_t ulen = 0, n_unknown = 0, alen = 0, n_named = 0;
@@ -221,18 +222,27 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 			} else
 				index[k] = (int)i;
 		} else if ((k = known_quantity(h, len, names, n_names)) >= 0) {
-			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
-				     NULL,
-				     "column '%.*s' looks like %s: map it with "
-				     "--column %s=\"%.*s\"",
-				     (int)len, h, names[k], names[k], (int)len, h);
+			if (option)
+				al_diags_add(diags, AL_SEV_ERROR, file,
+					     header->line, NULL,
+					     "column '%.*s' looks like %s: map "
+					     "it with %s %s=\"%.*s\"",
+					     (int)len, h, names[k], option,
+					     names[k], (int)len, h);
+			else
+				al_diags_add(diags, AL_SEV_ERROR, file,
+					     header->line, NULL,
+					     "column '%.*s' looks like %s: name "
+					     "it '%s'",
+					     (int)len, h, names[k], names[k]);
 			st = AL_EINPUT;
 			if (index[k] == -1)
 				index[k] = AL_COLUMN_NAMED;
 			if (alen < sizeof all)
 				alen += (size_t)snprintf(all + alen,
 							 sizeof all - alen,
-							 " --column %s=\"%.*s\"",
+							 " %s %s=\"%.*s\"",
+							 option ? option : "",
 							 names[k], (int)len, h);
 			n_named++;
 		} else if (mode == AL_UNKNOWN_ERROR) {
@@ -252,7 +262,7 @@ al_header_map(al_unknown_columns mode, const al_csv_row *header,
 			n_unknown++;
 		}
 	}
-	if (n_named > 1 && alen < sizeof all)
+	if (n_named > 1 && option && alen < sizeof all)
 		al_diags_add(diags, AL_SEV_WARNING, file, header->line, NULL,
 			     "to map them all, add:%s", all);
 	if (n_unknown > 0)
@@ -367,12 +377,34 @@ loose(const char *s, size_t len, char *out, size_t cap)
 
 al_status
 al_own_header(const al_csv_row *header, const char *const *names,
-	      size_t n_names, int *index, size_t *fields, const char *file,
-	      al_diags *diags)
+	      size_t n_names, const al_column_alias *aliases, size_t n_aliases,
+	      int *index, size_t *fields, const char *file, al_diags *diags,
+	      const char *option)
 {
+	al_status st = al_header_map(AL_UNKNOWN_ERROR, header, names, n_names,
+				     aliases, n_aliases, index, file, diags,
+				     option);
+
 	*fields = header->nfields;
-	return al_header_map(AL_UNKNOWN_ERROR, header, names, n_names, NULL, 0,
-			     index, file, diags);
+	for (size_t i = 0; i < n_aliases; i++)
+		if (!al_header_has(header, aliases[i].header)) {
+			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
+				     NULL, "%s %s=\"%s\": the file has no "
+				     "column '%s'",
+				     option ? option : "", aliases[i].name,
+				     aliases[i].header, aliases[i].header);
+			st = AL_EINPUT;
+		}
+	return st;
+}
+
+int
+al_name_index(const char *const *names, size_t n, const char *name)
+{
+	for (size_t k = 0; k < n; k++)
+		if (strcmp(names[k], name) == 0)
+			return (int)k;
+	return -1;
 }
 
 int
@@ -433,7 +465,7 @@ alias_row(void *ud, const al_csv_row *row)
 	if (!r->header_done) {
 		r->header_done = 1;
 		if (al_header_map(AL_UNKNOWN_WARN, row, names, 2, NULL, 0, r->col, r->file,
-				  r->diags) != AL_OK ||
+				  r->diags, NULL) != AL_OK ||
 		    r->col[0] < 0 || r->col[1] < 0) {
 			al_diags_add(r->diags, AL_SEV_ERROR, r->file, row->line,
 				     NULL, "a column map needs the columns "

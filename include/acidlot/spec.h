@@ -8,6 +8,7 @@
 
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/table.h"
 #include "acidlot/stats.h"
 #include "acidlot/units.h"
 
@@ -49,6 +50,16 @@ al_spec_table *al_spec_table_read(const al_catalogue *cat,
 				  const al_csv_options *csv, FILE *in,
 				  const char *name, al_status *status,
 				  al_diags *diags);
+/* The same with other headers for its columns (--spec-column), each of
+ * which must be a header of the file. */
+al_spec_table *al_spec_table_read_as(const al_catalogue *cat,
+				     const al_csv_options *csv,
+				     const al_column_alias *aliases,
+				     size_t n_aliases, FILE *in,
+				     const char *name, al_status *status,
+				     al_diags *diags);
+/* 1 when name is a column of the specification file. */
+int al_spec_is_column(const char *name);
 void al_spec_table_free(al_spec_table *table);
 /* Its specifications in file order, *n of them (none in a NULL table). */
 const al_spec *al_spec_all(const al_spec_table *table, size_t *n);

@@ -34,19 +34,28 @@ typedef enum al_unknown_columns {
 /* Maps a header row onto known column names (matched ignoring case and
  * surrounding blanks), and onto aliases (n_aliases may be 0). index[k]
  * gets the field number of names[k], or -1. A column given twice is an
- * error; unknown headers as `unknown` says. Returns AL_EINPUT after
- * adding the errors to diags. */
-al_status al_header_map(al_unknown_columns unknown,const al_csv_row *header, const char *const *names,
+ * error; unknown headers as `unknown` says; a header that names one in
+ * a common form is an error naming the option (e.g. "--column") that
+ * maps it, or asking for the column's own name when option is NULL.
+ * Returns AL_EINPUT after adding the errors to diags. */
+al_status al_header_map(al_unknown_columns unknown,
+			const al_csv_row *header, const char *const *names,
 			size_t n_names, const al_column_alias *aliases,
 			size_t n_aliases, int *index, const char *file,
-			al_diags *diags);
+			al_diags *diags, const char *option);
 
 /* The header of one of our own tables (specification, register):
- * unknown columns are errors; *fields gets its field count. AL_OK, or
- * AL_EINPUT after the errors went to diags. */
+ * unknown columns are errors; aliases (--spec-column) name other
+ * headers for its columns, and each must be a header of the file;
+ * *fields gets its field count. AL_OK, or AL_EINPUT after the errors
+ * went to diags. */
 al_status al_own_header(const al_csv_row *header, const char *const *names,
-			size_t n_names, int *index, size_t *fields,
-			const char *file, al_diags *diags);
+			size_t n_names, const al_column_alias *aliases,
+			size_t n_aliases, int *index, size_t *fields,
+			const char *file, al_diags *diags, const char *option);
+
+/* The index of name in names[0..n), or -1. */
+int al_name_index(const char *const *names, size_t n, const char *name);
 
 /* 1 when the header has a cell named name (blanks around either and
  * ASCII case aside). */

@@ -16,6 +16,8 @@ struct args {
 	const char *columns_file, *titrants, *record, *analyst, *budget;
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
+	al_column_alias spec_columns[MAX_COLUMN_OPTS]; /* --spec-column */
+	size_t n_spec_columns;
 	double decimals;
 	int has_decimals;
 	int format; /* FORMAT_: table or CSV; 0 until the options are read */

@@ -23,7 +23,8 @@ load_spec(const struct args *a, const al_catalogue *cat, al_diags *d)
 	csv = a->aopt.csv;
 	csv.delimiter = AL_CSV_AUTO;
 	csv.recover = 0;
-	specs = al_spec_table_read(cat, &csv, in, a->spec, &st, d);
+	specs = al_spec_table_read_as(cat, &csv, a->spec_columns,
+				      a->n_spec_columns, in, a->spec, &st, d);
 	fclose(in);
 	cli_print_diags(d);
 	if (specs == NULL) {

@@ -59,10 +59,12 @@ typedef struct cli_range {
 int cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 		     const char *text);
 
-/* --column NAME=HEADER into list[*n] (at most max): NAME must be one
- * of the command's columns (known); 1, or -1 after a usage error. */
-int cli_column_option(const char *cmd, char *text, int (*known)(const char *),
-		      al_column_alias *list, size_t *n, size_t max);
+/* --column (or option) NAME=HEADER into list[*n] (at most max): NAME
+ * must be one of the table's columns (known); 1, or -1 after a usage
+ * error. */
+int cli_column_option(const char *cmd, const char *option, char *text,
+		      int (*known)(const char *), al_column_alias *list,
+		      size_t *n, size_t max);
 
 /* An option that takes one of two words (first, second): 0 or 1 for
  * the one given, or -1 after a usage error "OPTION takes FIRST or

@@ -93,6 +93,8 @@ usage_rest(FILE *out)
 	      "                          --column titrant_ml=\"Vol (mL)\"\n"
 	      "      --columns FILE      such pairs from a CSV with the columns\n"
 	      "                          name,header\n"
+	      "      --spec-column NAME=HEADER  the same for the specification\n"
+	      "                          file (repeatable)\n"
 	      "      --date-format F     how the date column is written:\n"
 	      "                          YYYY-MM-DD (default), DD.MM.YYYY,\n"
 	      "                          DD/MM/YYYY or MM/DD/YYYY (never guessed)\n"
@@ -153,7 +155,8 @@ enum {
 	OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_SHEET, OPT_BOM,
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
-	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT
+	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
+	OPT_SPEC_COLUMN
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -163,11 +166,11 @@ static const char *const options[] = {
 	"column", "columns", "sheet-style", "bom!", "raw-text!", "titrants",
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
-	"resolution-ml", "water-u-pct", "format", "date-format", "spec=s",
-	"output=o", "replicates=r",
+	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
+	"spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_DATE_FORMAT - CLI_OPT + 4,
+		       OPT_SPEC_COLUMN - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -331,9 +334,13 @@ one_option(void *ctx, int c, char *text)
 	if (got == 0)
 		got = word_option(a, c, text);
 	if (got == 0 && c == OPT_COLUMN)
-		got = cli_column_option("assay", text, al_assay_is_column,
-					a->column_opts, &a->n_column_opts,
-					MAX_COLUMN_OPTS);
+		got = cli_column_option("assay", "--column", text,
+					al_assay_is_column, a->column_opts,
+					&a->n_column_opts, MAX_COLUMN_OPTS);
+	if (got == 0 && c == OPT_SPEC_COLUMN)
+		got = cli_column_option("assay", "--spec-column", text,
+					al_spec_is_column, a->spec_columns,
+					&a->n_spec_columns, MAX_COLUMN_OPTS);
 	return got;
 }
 

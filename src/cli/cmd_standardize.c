@@ -148,7 +148,8 @@ other_option(struct args *a, int c)
 	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
 		return 1;
 	if (c == OPT_COLUMN)
-		return cli_column_option("standardize", optarg, al_std_is_column,
+		return cli_column_option("standardize", "--column", optarg,
+					 al_std_is_column,
 					 a->columns, &a->n_columns,
 					 MAX_COLUMNS);
 	if (c == OPT_FORMAT) {

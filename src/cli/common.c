@@ -244,25 +244,27 @@ cli_choice(const char *cmd, const char *option, const char *text,
 }
 
 int
-cli_column_option(const char *cmd, char *text, int (*known)(const char *),
-		  al_column_alias *list, size_t *n, size_t max)
+cli_column_option(const char *cmd, const char *option, char *text,
+		  int (*known)(const char *), al_column_alias *list, size_t *n,
+		  size_t max)
 {
 	char *eq = strchr(text, '=');
 
 	if (eq == NULL || eq == text || eq[1] == '\0')
 		return cli_usage_error(cmd,
-				       "--column takes NAME=HEADER, e.g. "
-				       "--column titrant_ml=\"Vol (mL)\""),
+				       "%s takes NAME=HEADER, e.g. "
+				       "--column titrant_ml=\"Vol (mL)\"",
+				       option),
 		       -1;
 	*eq = '\0';
 	if (!known(text))
 		return cli_usage_error(cmd,
-				       "--column: '%s' is not one of our "
+				       "%s: '%s' is not one of our "
 				       "columns (see '" PROG " %s --help')",
-				       text, cmd),
+				       option, text, cmd),
 		       -1;
 	if (*n == max)
-		return cli_usage_error(cmd, "too many --column options"), -1;
+		return cli_usage_error(cmd, "too many %s options", option), -1;
 	list[(*n)++] = (al_column_alias){.name = text, .header = eq + 1};
 	return 1;
 }

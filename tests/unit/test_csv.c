@@ -623,7 +623,7 @@ header_words_mapped(void **state)
 		snprintf(want, sizeof want, "looks like %s:", column);
 		/* our own word ("lot") is the column itself */
 		if (al_header_map(AL_UNKNOWN_WARN, &row, names, 11, NULL, 0,
-				  index, "t.csv", &d) == AL_OK &&
+				  index, "t.csv", &d, "--column") == AL_OK &&
 		    strcmp(header, column) == 0) {
 			checked++;
 			continue;
