@@ -124,16 +124,9 @@ al_rows_header(al_rows *rs, const al_csv_row *row)
 			  rs->opt->n_aliases, rs->col, rs->file,
 			  rs->diags, "--column") != AL_OK)
 		ok = 0;
-	for (size_t i = 0; i < rs->opt->n_alias_opts; i++)
-		if (!al_header_has(row, rs->opt->aliases[i].header)) {
-			AL_RUN_DIAG(rs, AL_SEV_ERROR, row->line, NULL,
-				    "--column %s=\"%s\": the file has no column "
-				    "'%s'",
-				    rs->opt->aliases[i].name,
-				    rs->opt->aliases[i].header,
-				    rs->opt->aliases[i].header);
-			ok = 0;
-		}
+	if (al_aliases_present(row, rs->opt->aliases, rs->opt->n_alias_opts,
+			       "--column", rs->file, rs->diags) != AL_OK)
+		ok = 0;
 	if (!required_columns(rs, row))
 		ok = 0;
 	if ((rs->col[AL_C_MADE_UP] < 0) != (rs->col[AL_C_ALIQUOT] < 0)) {

@@ -182,14 +182,9 @@ std_header(al_std_run *run, const al_csv_row *row)
 	run->header_ok = al_header_map(AL_UNKNOWN_WARN, row, std_cols, 7,
 				       run->aliases, run->n_aliases, run->col,
 				       run->file, &run->diags, "--column") == AL_OK;
-	for (size_t i = 0; i < run->n_aliases; i++)
-		if (!al_header_has(row, run->aliases[i].header)) {
-			ERR(run, row->line, NULL,
-			    "--column %s=\"%s\": the file has no column '%s'",
-			    run->aliases[i].name, run->aliases[i].header,
-			    run->aliases[i].header);
-			run->header_ok = 0;
-		}
+	if (al_aliases_present(row, run->aliases, run->n_aliases, "--column",
+			       run->file, &run->diags) != AL_OK)
+		run->header_ok = 0;
 	for (int k = S_LOT; k <= S_TITRANT; k++) {
 		if (k == S_STANDARD || k == S_PURITY || run->col[k] >= 0 ||
 		    run->col[k] == AL_COLUMN_NAMED)

@@ -386,15 +386,10 @@ al_own_header(const al_csv_row *header, const char *const *names,
 				     option);
 
 	*fields = header->nfields;
-	for (size_t i = 0; i < n_aliases; i++)
-		if (!al_header_has(header, aliases[i].header)) {
-			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
-				     NULL, "%s %s=\"%s\": the file has no "
-				     "column '%s'",
-				     option ? option : "", aliases[i].name,
-				     aliases[i].header, aliases[i].header);
-			st = AL_EINPUT;
-		}
+	if (n_aliases > 0 &&
+	    al_aliases_present(header, aliases, n_aliases, option, file,
+			       diags) != AL_OK)
+		st = AL_EINPUT;
 	return st;
 }
 
@@ -407,13 +402,34 @@ al_name_index(const char *const *names, size_t n, const char *name)
 	return -1;
 }
 
-int
-al_header_has(const al_csv_row *header, const char *name)
+/* 1 when the header has a cell named name (blanks around either and
+ * ASCII case aside). */
+static int
+header_has(const al_csv_row *header, const char *name)
 {
 	for (size_t i = 0; i < header->nfields; i++)
 		if (same_header(header->fields[i], name))
 			return 1;
 	return 0;
+}
+
+al_status
+al_aliases_present(const al_csv_row *header, const al_column_alias *aliases,
+		   size_t n, const char *option, const char *file,
+		   al_diags *diags)
+{
+	al_status st = AL_OK;
+
+	for (size_t i = 0; i < n; i++)
+		if (!header_has(header, aliases[i].header)) {
+			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
+				     NULL, "%s %s=\"%s\": the file has no "
+				     "column '%s'",
+				     option, aliases[i].name,
+				     aliases[i].header, aliases[i].header);
+			st = AL_EINPUT;
+		}
+	return st;
 }
 
 const char *

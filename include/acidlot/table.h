@@ -57,9 +57,13 @@ al_status al_own_header(const al_csv_row *header, const char *const *names,
 /* The index of name in names[0..n), or -1. */
 int al_name_index(const char *const *names, size_t n, const char *name);
 
-/* 1 when the header has a cell named name (blanks around either and
- * ASCII case aside). */
-int al_header_has(const al_csv_row *header, const char *name);
+/* Every alias given one by one (with option, e.g. "--column") names a
+ * header of the file (blanks around and ASCII case aside); each that
+ * does not is an error. AL_OK, or AL_EINPUT. */
+al_status al_aliases_present(const al_csv_row *header,
+			     const al_column_alias *aliases, size_t n,
+			     const char *option, const char *file,
+			     al_diags *diags);
 
 /* The header cell closest to `name` (edit distance, ignoring case, '_'
  * and blanks), or NULL when none is close. */

@@ -10,17 +10,23 @@
  * numbers do, so that a comparison the line states can be seen (at
  * least 4, at most 12). */
 static int
-telling_decimals(const double *x, size_t n)
+same_at(double a, double b, int d)
 {
 	char p[64], q[64];
+
+	snprintf(p, sizeof p, "%.*f", d, a);
+	snprintf(q, sizeof q, "%.*f", d, b);
+	return strcmp(p, q) == 0;
+}
+
+static int
+telling_decimals(const double *x, size_t n)
+{
 	int d = 4;
 
 	for (size_t i = 0; i < n; i++)
-		for (size_t j = 0; j < n; j++)
-			while (d < 12 && x[i] != x[j] &&
-			       strcmp((snprintf(p, sizeof p, "%.*f", d, x[i]), p),
-				      (snprintf(q, sizeof q, "%.*f", d, x[j]),
-				       q)) == 0)
+		for (size_t j = i + 1; j < n; j++)
+			while (d < 12 && x[i] != x[j] && same_at(x[i], x[j], d))
 				d++;
 	return d;
 }

@@ -359,7 +359,7 @@ parse_args(int argc, char **argv, struct args *a)
 	/* a person at a terminal reads a table; a file or pipe gets CSV */
 	if (a->format == FORMAT_AUTO)
 		a->format = (a->output == NULL || strcmp(a->output, "-") == 0) &&
-				    isatty(STDOUT_FILENO)
+				    cli_is_terminal()
 			    ? FORMAT_TABLE
 			    : FORMAT_CSV;
 	if (optind >= argc)
