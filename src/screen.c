@@ -17,7 +17,8 @@ al_screen_reasons(const al_group_result *r, char *buf, size_t cap)
 	if (r->verdict == AL_VERDICT_PASS)
 		return;
 	if (r->verdict == AL_VERDICT_NO_SPEC)
-		len += (size_t)snprintf(buf, cap, "no specification for %s",
+		len += (size_t)snprintf(buf, cap, "no specification%s%s",
+					r->product[0] ? " for " : "",
 					r->product);
 	if (r->verdict == AL_VERDICT_COND_PASS ||
 	    r->verdict == AL_VERDICT_COND_FAIL)
