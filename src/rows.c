@@ -124,7 +124,7 @@ al_rows_header(al_rows *rs, const al_csv_row *row)
 			  rs->opt->n_aliases, rs->col, rs->file,
 			  rs->diags, "--column") != AL_OK)
 		ok = 0;
-	if (al_aliases_present(row, rs->opt->aliases, rs->opt->n_alias_opts,
+	if (al_aliases_present(row, rs->opt->aliases, rs->opt->n_aliases,
 			       "--column", rs->file, rs->diags) != AL_OK)
 		ok = 0;
 	if (!required_columns(rs, row))

@@ -421,7 +421,8 @@ al_aliases_present(const al_csv_row *header, const al_column_alias *aliases,
 	al_status st = AL_OK;
 
 	for (size_t i = 0; i < n; i++)
-		if (!header_has(header, aliases[i].header)) {
+		if (!aliases[i].optional &&
+		    !header_has(header, aliases[i].header)) {
 			al_diags_add(diags, AL_SEV_ERROR, file, header->line,
 				     NULL, "%s %s=\"%s\": the file has no "
 				     "column '%s'",

@@ -24,7 +24,7 @@ check() { # expected, then the words
 check "acids assay " "$acidlot" a
 check "standardize " "$acidlot" sta
 check "template " "$acidlot" tem
-check "--spec --spec-column " "$acidlot" assay --sp
+check "--spec --spec-column --spec-columns " "$acidlot" assay --sp
 check "--decimal-comma --decimals --decision --delimiter --density-g-ml " "$acidlot" assay --de
 check "--date-format " "$acidlot" assay --da
 check "--record --register --repeatability-rsd " "$acidlot" standardize --re

@@ -69,9 +69,6 @@ typedef struct al_assay_options {
 	al_csv_options csv;            /* delimiter, decimal point */
 	const al_column_alias *aliases;/* other headers for our columns */
 	size_t n_aliases;
-	size_t n_alias_opts; /* the first of them, given one by one
-				(--column): each must name a header of
-				every file */
 	/* Keep going past invalid rows: each goes to on_reject instead of
 	 * being an error, and its result is computed from the valid rows and
 	 * flagged. NULL: strict, every invalid row is an error. */

@@ -105,8 +105,9 @@ al_status al_std_read(al_std_run *run, FILE *in, const char *name,
 /* The same from any source (see al_csv_read). */
 /* 1 when name is a column of the standardisation file. */
 int al_std_is_column(const char *name);
-/* Other headers for its columns (--column); each must name a header of
- * every file read. The aliases must outlive the run. */
+/* Other headers for its columns (--column, --columns); each not optional
+ * must name a header of every file read. The aliases must outlive the
+ * run. */
 void al_std_set_columns(al_std_run *run, const al_column_alias *aliases,
 			size_t n);
 al_status al_std_read_source(al_std_run *run, al_read_fn read_fn, void *ctx,

@@ -14,6 +14,8 @@
 typedef struct al_column_alias {
 	const char *name;   /* our column name */
 	const char *header; /* the file's header text */
+	int optional; /* 0: every file read must have the header (a pair
+			 given as an option); 1: from a lab-wide map */
 } al_column_alias;
 
 /* What an unknown header is: listed in one warning (a titration file
@@ -57,8 +59,8 @@ al_status al_own_header(const al_csv_row *header, const char *const *names,
 /* The index of name in names[0..n), or -1. */
 int al_name_index(const char *const *names, size_t n, const char *name);
 
-/* Every alias given one by one (with option, e.g. "--column") names a
- * header of the file (blanks around and ASCII case aside); each that
+/* Every alias not optional (given as an option, e.g. "--column") names
+ * a header of the file (blanks around and ASCII case aside); each that
  * does not is an error. AL_OK, or AL_EINPUT. */
 al_status al_aliases_present(const al_csv_row *header,
 			     const al_column_alias *aliases, size_t n,

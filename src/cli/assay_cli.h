@@ -13,7 +13,7 @@ enum { FORMAT_AUTO, FORMAT_CSV, FORMAT_TABLE };
 /* The command's options. */
 struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
-	const char *columns_file, *titrants, *record, *analyst, *budget;
+	const char *columns_file, *spec_columns_file, *titrants, *record, *analyst, *budget;
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
 	al_column_alias spec_columns[MAX_COLUMN_OPTS]; /* --spec-column */
@@ -39,8 +39,7 @@ struct job {
 	al_catalogue *cat;
 	al_spec_table *specs;
 	al_register *titrants;
-	al_column_alias *aliases;
-	size_t n_aliases;
+	cli_column_map columns, spec_columns; /* --column(s), --spec-column(s) */
 	al_diags spec_diags;
 	run_record rec;
 	al_assay *run;
@@ -60,16 +59,9 @@ struct job {
 };
 
 /* assay_inputs.c: each NULL or -1 after a message. */
-al_spec_table *load_spec(const struct args *a, const al_catalogue *cat,
-			 al_diags *d);
-/* Joins the --columns file and the --column options. */
-int load_columns(struct args *a, al_column_alias **all, size_t *n);
-void free_columns(const struct args *a, al_column_alias *all, size_t n);
+al_spec_table *load_spec(const struct args *a, const cli_column_map *map,
+			 const al_catalogue *cat, al_diags *d);
 al_register *load_titrants(const char *path);
-/* An input's SHA-256 and size, into the record. */
-int hash_input(run_record *rec, const char *role, const char *path,
-	       long rows);
-
 /* assay_record.c: the run's acids, specifications, lots, decision rule,
  * Cochran's tests, counts and results, into the record; 0, or -1 when
  * memory runs out. */

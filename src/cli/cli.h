@@ -66,6 +66,27 @@ int cli_column_option(const char *cmd, const char *option, char *text,
 		      int (*known)(const char *), al_column_alias *list,
 		      size_t *n, size_t max);
 
+/* A command's column map (column_map.c): its option pairs, then those of
+ * a --columns file, which are optional (al_aliases_present passes over
+ * them: a lab-wide map may name headers a file lacks). */
+typedef struct cli_column_map {
+	al_column_alias *all; /* the options' pairs first: the first match
+				 wins in al_header_map */
+	size_t n;
+	al_column_alias *file_items; /* owned; all[] points into them */
+	size_t n_file;
+} cli_column_map;
+
+/* Reads file (NULL for none: the options alone), each pair naming one
+ * of the table's columns (known), and joins it to opts; a column mapped
+ * twice or a header mapped to two columns is a usage error. 0, or -1
+ * after a message (free the map either way). */
+int cli_column_map_load(cli_column_map *m, const char *cmd,
+			const char *option, const char *file,
+			int (*known)(const char *),
+			const al_column_alias *opts, size_t n_opts);
+void cli_column_map_free(cli_column_map *m);
+
 /* An option that takes one of two words (first, second): 0 or 1 for
  * the one given, or -1 after a usage error "OPTION takes FIRST or
  * SECOND". */

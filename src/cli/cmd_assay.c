@@ -95,6 +95,8 @@ usage_rest(FILE *out)
 	      "                          name,header\n"
 	      "      --spec-column NAME=HEADER  the same for the specification\n"
 	      "                          file (repeatable)\n"
+	      "      --spec-columns FILE  --spec-column pairs from a CSV\n"
+	      "                          name,header\n"
 	      "      --date-format F     how the date column is written:\n"
 	      "                          YYYY-MM-DD (default), DD.MM.YYYY,\n"
 	      "                          DD/MM/YYYY or MM/DD/YYYY (never guessed)\n"
@@ -156,7 +158,7 @@ enum {
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
-	OPT_SPEC_COLUMN
+	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -167,10 +169,10 @@ static const char *const options[] = {
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
 	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
-	"spec=s", "output=o", "replicates=r",
+	"spec-columns", "spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_SPEC_COLUMN - CLI_OPT + 4,
+		       OPT_SPEC_COLUMNS - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -227,6 +229,7 @@ text_option(struct args *a, int c)
 		{OPT_COLUMNS, &a->columns_file}, {OPT_TITRANTS, &a->titrants},
 		{OPT_RECORD, &a->record},    {OPT_ANALYST, &a->analyst},
 		{OPT_BUDGET, &a->budget},
+		{OPT_SPEC_COLUMNS, &a->spec_columns_file},
 	};
 
 	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
@@ -373,7 +376,7 @@ parse_args(int argc, char **argv, struct args *a)
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((8 + (size_t)argc) * sizeof *f);
+	cli_file *f = al_malloc((9 + (size_t)argc) * sizeof *f);
 	size_t n = 0;
 	char record[4096];
 	int file_report = a->output && strcmp(a->output, "-") != 0, ok;
@@ -393,6 +396,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	}
 	f[n++] = (cli_file){"--spec", a->spec, 0};
 	f[n++] = (cli_file){"--columns", a->columns_file, 0};
+	f[n++] = (cli_file){"--spec-columns", a->spec_columns_file, 0};
 	f[n++] = (cli_file){"--titrants", a->titrants, 0};
 	for (int i = optind; i < argc; i++)
 		f[n++] = (cli_file){"input", argv[i], 0};
@@ -441,18 +445,28 @@ load_lookups(struct job *j)
 	struct args *a = &j->a;
 	size_t n;
 
-	if (load_columns(a, &j->aliases, &j->n_aliases) != 0)
+	if (cli_column_map_load(&j->columns, "assay", "--column",
+				a->columns_file, al_assay_is_column,
+				a->column_opts, a->n_column_opts) != 0 ||
+	    (a->columns_file &&
+	     record_hash_input(&j->rec, "column map", a->columns_file, -1)))
 		return -1;
-	a->aopt.aliases = j->aliases;
-	a->aopt.n_aliases = j->n_aliases;
-	a->aopt.n_alias_opts = a->n_column_opts;
-	if (a->columns_file && hash_input(&j->rec, "column map", a->columns_file, -1))
-		return -1;
+	a->aopt.aliases = j->columns.all;
+	a->aopt.n_aliases = j->columns.n;
 	if (a->spec) {
-		j->specs = load_spec(a, j->cat, &j->spec_diags);
+		if (cli_column_map_load(&j->spec_columns, "assay",
+					"--spec-column", a->spec_columns_file,
+					al_spec_is_column, a->spec_columns,
+					a->n_spec_columns) != 0 ||
+		    (a->spec_columns_file &&
+		     record_hash_input(&j->rec, "specification column map",
+				a->spec_columns_file, -1)))
+			return -1;
+		j->specs = load_spec(a, &j->spec_columns, j->cat,
+				     &j->spec_diags);
 		if (j->specs == NULL ||
 		    (al_spec_all(j->specs, &n),
-		     hash_input(&j->rec, "specification", a->spec, (long)n)))
+		     record_hash_input(&j->rec, "specification", a->spec, (long)n)))
 			return -1;
 		a->aopt.specs = j->specs;
 	}
@@ -460,7 +474,7 @@ load_lookups(struct job *j)
 		j->titrants = load_titrants(a->titrants);
 		if (j->titrants == NULL ||
 		    (al_register_all(j->titrants, &n),
-		     hash_input(&j->rec, "titrant register", a->titrants,
+		     record_hash_input(&j->rec, "titrant register", a->titrants,
 				(long)n)))
 			return -1;
 		a->aopt.titrants = j->titrants;
@@ -711,7 +725,8 @@ job_free(struct job *j)
 	al_assay_free(j->run);
 	al_spec_table_free(j->specs);
 	al_diags_clear(&j->spec_diags);
-	free_columns(&j->a, j->aliases, j->n_aliases);
+	cli_column_map_free(&j->columns);
+	cli_column_map_free(&j->spec_columns);
 	al_register_free(j->titrants);
 	al_catalogue_free(j->cat);
 	record_free(&j->rec);

@@ -53,6 +53,7 @@ usage(FILE *out)
 	      "                          digit)\n"
 	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
 	      "                          column NAME (repeatable)\n"
+	      "      --columns FILE      such pairs from a CSV name,header\n"
 	      "      --format F          table (aligned columns) or csv; default\n"
 	      "                          table on a terminal, csv into a pipe\n"
 	      "      --delimiter D, --decimal-comma   as for assay\n"
@@ -68,7 +69,7 @@ enum {
 	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
 	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT,
-	OPT_COLUMN, OPT_DECIMALS
+	OPT_COLUMN, OPT_DECIMALS, OPT_COLUMNS
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -76,16 +77,16 @@ static const char *const options[] = {
 	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
 	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
 	"delimiter", "decimal-comma!", "repeatability-rsd", "format",
-	"column", "decimals", "register=o",
+	"column", "decimals", "columns", "register=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_DECIMALS - CLI_OPT + 2,
+		       OPT_COLUMNS - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 #define MAX_COLUMNS 16
 
 struct args {
-	const char *reg, *budget, *record, *analyst;
+	const char *reg, *budget, *record, *analyst, *columns_file;
 	al_column_alias columns[MAX_COLUMNS]; /* --column NAME=HEADER */
 	size_t n_columns;
 	int table; /* the lots as aligned columns (a terminal), not CSV */
@@ -143,6 +144,7 @@ other_option(struct args *a, int c)
 		{OPT_BUDGET, &a->budget},
 		{OPT_RECORD, &a->record},
 		{OPT_ANALYST, &a->analyst},
+		{OPT_COLUMNS, &a->columns_file},
 	};
 
 	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
@@ -246,6 +248,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	}
 	f[n++] = (cli_file){"-o", a->reg, 1};
 	f[n++] = (cli_file){"--budget", a->budget, 1};
+	f[n++] = (cli_file){"--columns", a->columns_file, 0};
 	if (a->record || a->reg) {
 		snprintf(record, sizeof record, "%s.record.json", a->reg);
 		f[n++] = (cli_file){a->record ? "--record" : "the record",
@@ -402,6 +405,7 @@ struct job {
 	al_catalogue *cat;
 	al_std_run *run;
 	al_register *reg;
+	cli_column_map columns; /* --column, --columns */
 	al_outfile *reg_out, *budget_out, *rec_out;
 	int any_rejected;
 };
@@ -430,7 +434,13 @@ read_lots(struct job *j, int argc, char **argv)
 		cli_error("%s", al_strerror(st));
 		return -1;
 	}
-	al_std_set_columns(j->run, j->a.columns, j->a.n_columns);
+	if (cli_column_map_load(&j->columns, "standardize", "--column",
+				j->a.columns_file, al_std_is_column,
+				j->a.columns, j->a.n_columns) != 0 ||
+	    (j->a.columns_file && record_hash_input(&j->rec, "column map",
+						     j->a.columns_file, -1)))
+		return -1;
+	al_std_set_columns(j->run, j->columns.all, j->columns.n);
 	bad = read_inputs(j->run, &j->rec, argc, argv, &j->a.csv);
 	if (bad < 0) /* out of memory, said */
 		return -1;
@@ -665,6 +675,7 @@ cmd_standardize(int argc, char **argv)
 		al_outfile_abort(*all[i]);
 	al_register_free(j.reg);
 	al_std_free(j.run);
+	cli_column_map_free(&j.columns);
 	al_catalogue_free(j.cat);
 	record_free(&j.rec);
 	return rc;

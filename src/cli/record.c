@@ -478,3 +478,20 @@ record_free(run_record *r)
 	json_decref(r->root);
 	r->root = r->inputs = r->outputs = NULL;
 }
+
+int
+record_hash_input(run_record *rec, const char *role, const char *path, long rows)
+{
+	char hex[65];
+	unsigned long long bytes;
+
+	if (sha256_file(path, hex, &bytes) != 0) {
+		cli_error("%s: cannot read it again to hash it", path);
+		return -1;
+	}
+	if (record_input(rec, role, path, bytes, rows, hex) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	return 0;
+}

@@ -64,6 +64,10 @@ int record_start(run_record *r, const char *command, int argc, char **argv,
 		 const char *analyst);
 int record_input(run_record *r, const char *role, const char *path,
 		 unsigned long long bytes, long rows, const char *sha256);
+/* The same for a file read whole before: hashed again here; 0, or -1
+ * after a message. */
+int record_hash_input(run_record *r, const char *role, const char *path,
+		      long rows);
 /* Lists an output under its path, hashing the bytes now at written_path
  * (its temporary file before the rename). */
 int record_output(run_record *r, const char *role, const char *path,
