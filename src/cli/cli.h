@@ -129,6 +129,12 @@ int cli_options(const char *cmd, int argc, char **argv,
  * two blanks apart, no blank at a line's end: the table a person reads
  * at a terminal. */
 void cli_aligned(FILE *out, const char *csv, size_t len);
+/* A command's lines on standard output: write(ctx, out) writes them as
+ * CSV into memory; shown as they are, or for a table (table 1) aligned
+ * by cli_aligned, only when write returned 0: a failed command prints
+ * no partial lines. write's 0 or -1 (said), or -1 after a message when
+ * memory runs out. */
+int cli_put_table(int table, int (*write)(void *ctx, FILE *out), void *ctx);
 /* 1 when a command's table goes to a person: standard output is a
  * terminal (and no file was asked for). */
 int cli_is_terminal(void);

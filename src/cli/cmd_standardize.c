@@ -487,37 +487,12 @@ open_register(struct job *j)
 	return 0;
 }
 
-static int lots_csv(struct job *j, FILE *out);
-
-/* Each lot into the register, and its line on standard output: CSV,
- * or at a terminal the same as aligned columns. */
-static int
-put_lots(struct job *j)
-{
-	char *text = NULL;
-	size_t len = 0;
-	FILE *out = j->a.table ? open_memstream(&text, &len) : stdout;
-
-	if (out == NULL)
-		return cli_error("%s", al_strerror(AL_ENOMEM)), -1;
-	if (lots_csv(j, out) != 0) {
-		if (out != stdout)
-			fclose(out);
-		free(text);
-		return -1;
-	}
-	if (out != stdout) {
-		fclose(out);
-		cli_aligned(stdout, text, len);
-		free(text);
-	}
-	return 0;
-}
-
 /* The lots as CSV into out, and into the register. */
 static int
-lots_csv(struct job *j, FILE *out)
+lots_csv(void *ctx, FILE *out)
 {
+	struct job *j = ctx;
+
 	fputs("titrant_lot,standard,n,concentration_mol_l,sd_mol_l,rsd_pct,"
 	      "u_mol_l,U_mol_l,k,standardised_on,valid_until,status,reason\n",
 	      out);
@@ -662,7 +637,7 @@ cmd_standardize(int argc, char **argv)
 	if ((done = cli_options_done(parse_args(argc, argv, &j.a))) >= 0)
 		return done;
 	if (outputs_safe(&j.a, argc, argv) && read_lots(&j, argc, argv) == 0 &&
-	    open_register(&j) == 0 && put_lots(&j) == 0 &&
+	    open_register(&j) == 0 && cli_put_table(j.a.table, lots_csv, &j) == 0 &&
 	    write_outputs(&j) == 0 && write_record(&j) == 0 &&
 	    cli_commit_all(all, 3) == 0) {
 		n = (int)al_std_lot_count(j.run);

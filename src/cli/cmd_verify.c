@@ -1,7 +1,9 @@
 /* acidlot command line: the verify command (re-hash a run's files).
  * SPDX-License-Identifier: GPL-3.0-or-later */
+#define _XOPEN_SOURCE 700
 #include <errno.h>
 #include <getopt.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
@@ -10,25 +12,56 @@
 static void
 usage(FILE *out)
 {
-	fputs("Usage: " PROG " verify RECORD.json...\n"
+	fputs("Usage: " PROG " verify [--format F] RECORD.json...\n"
 	      "Re-hashes every input and output a run's record lists and says\n"
-	      "whether any changed since (SHA-256). Paths are taken as the run\n"
-	      "gave them, from the current directory.\n"
+	      "whether any changed since (SHA-256), and checks the report's\n"
+	      "rows against the record's results. A file's path is taken from\n"
+	      "the record's folder, else as the run gave it.\n"
+	      "\n"
+	      "  --format F   table (aligned columns) or csv; default table on\n"
+	      "               a terminal, csv into a file or pipe\n"
+	      "  -h, --help   this help\n"
+	      "\n"
+	      "One line per file: record, check (ok, changed, missing,\n"
+	      "not-a-file, skipped, contradicts), role, file, note.\n"
 	      "\n"
 	      "Exit status: 0 nothing changed; 1 a file changed or is missing;\n"
 	      "2 usage error or a record that cannot be read.\n",
 	      out);
 }
 
-/* Checks one list of files; returns how many changed or are missing, -1
- * when the record is malformed. */
-/* One file's line: what, its role, its name (escaped), a note. */
+/* One file's line, as CSV: the record, the check, the file's role, its
+ * name (escaped: no control character reaches a terminal) and a note.
+ * Nothing when out is NULL. */
 static void
-line(const char *what, const char *role, const char *path, const char *note)
+line(FILE *out, const char *record, const char *check, const char *role,
+     const char *path, const char *note)
 {
-	printf("%s %s ", what, role ? role : "");
-	cli_put_escaped(stdout, path);
-	printf("%s\n", note);
+	char *name = NULL;
+	size_t len = 0;
+	FILE *m;
+
+	if (out == NULL)
+		return;
+	m = open_memstream(&name, &len);
+	if (m != NULL) {
+		cli_put_escaped(m, path);
+		if (fclose(m) != 0) {
+			free(name);
+			name = NULL;
+		}
+	}
+	al_csv_put_field(out, record, ',');
+	fprintf(out, ",%s,", check);
+	al_csv_put_field(out, role ? role : "", ',');
+	fputc(',', out);
+	/* no memory for the escaped name: a placeholder, never raw bytes */
+	al_csv_put_field(out, name ? name : "(name not shown: no memory)",
+			 ',');
+	fputc(',', out);
+	al_csv_put_field(out, note, ',');
+	fputc('\n', out);
+	free(name);
 }
 
 /* A file's path from the record's own folder (from_record), so that
@@ -52,15 +85,18 @@ struct cross {
 	json_t *by_id;         /* report_id -> result */
 	int col[3];            /* report_id, status, n */
 	int header;
-	const char *path;
+	FILE *out;
+	const char *record, *path;
 	unsigned long rows, contradictions;
 };
 
 static void
 contradiction(struct cross *x, unsigned long at, const char *what)
 {
-	line("CONTRADICTS", "report", x->path, "");
-	printf("         line %lu: %s\n", at, what);
+	char note[256];
+
+	snprintf(note, sizeof note, "line %lu: %s", at, what);
+	line(x->out, x->record, "contradicts", "report", x->path, note);
 	x->contradictions++;
 }
 
@@ -119,7 +155,7 @@ cross_row(void *ud, const al_csv_row *row)
  * record's results; the count of contradictions, 0 when there is no
  * report file to read or no results to check it against. */
 static int
-cross_check(json_t *root, const char *record)
+cross_check(FILE *out, json_t *root, const char *record)
 {
 	json_t *results = json_object_get(root, "results"), *f, *r;
 	struct cross x;
@@ -145,6 +181,8 @@ cross_check(json_t *root, const char *record)
 	if (path == NULL || (in = fopen(path, "rb")) == NULL)
 		return 0; /* said by the hashes already */
 	memset(&x, 0, sizeof x);
+	x.out = out;
+	x.record = record;
 	x.path = path;
 	x.by_id = json_object();
 	json_array_foreach(results, i, r)
@@ -169,7 +207,7 @@ cross_check(json_t *root, const char *record)
 }
 
 static int
-check_files(json_t *list, const char *record, cli_hash_fn hash)
+check_files(FILE *out, json_t *list, const char *record, cli_hash_fn hash)
 {
 	size_t i;
 	json_t *f;
@@ -195,115 +233,144 @@ check_files(json_t *list, const char *record, cli_hash_fn hash)
 		if (path == NULL)
 			return -1;
 		if (want == NULL && json_is_null(json_object_get(f, "sha256"))) {
-			line("skipped ", role, path,
-			     " (written in place to a device or pipe: not "
-			     "hashed)");
+			line(out, record, "skipped", role, path,
+			     "written in place to a device or pipe: not "
+			     "hashed");
 			continue;
 		}
 		if (want == NULL)
 			return -1;
 		if (strcmp(path, "-") == 0) {
-			line("skipped ", role, path,
-			     " (standard input cannot be read again)");
+			line(out, record, "skipped", role, path,
+			     "standard input cannot be read again");
 			continue;
 		}
 		path = located(path, rel, record, where, sizeof where);
 		if (hash(path, hex, &bytes) != 0) {
-			line(errno == ENOENT ? "MISSING " : "NOT A FILE", role,
+			line(out, record,
+			     errno == ENOENT ? "missing" : "not-a-file", role,
 			     path, "");
 			changed++;
 		} else if (strcmp(hex, want) != 0) {
-			line("CHANGED ", role, path, " (SHA-256 differs from the record)");
+			line(out, record, "changed", role, path,
+			     "SHA-256 differs from the record");
 			changed++;
 		} else
-			line("ok      ", role, path, "");
+			line(out, record, "ok", role, path, "");
 	}
 	return changed;
 }
 
 int
-cli_verify_root(json_t *root, const char *record, cli_hash_fn hash)
+cli_verify_root(FILE *out, json_t *root, const char *record, cli_hash_fn hash)
 {
-	int a = check_files(json_object_get(root, "inputs"), record, hash);
+	int a = check_files(out, json_object_get(root, "inputs"), record, hash);
 	int b = a < 0 ? -1
-		      : check_files(json_object_get(root, "outputs"), record,
-				    hash);
+		      : check_files(out, json_object_get(root, "outputs"),
+				    record, hash);
 
 	return a < 0 || b < 0 ? -1 : a + b;
+}
+
+/* One record read and checked, its lines into out: the count of files
+ * changed or missing and of contradictions, or -1 after a message. */
+static int
+verify_one(FILE *out, const char *path)
+{
+	json_error_t err;
+	json_t *root;
+	FILE *in = cli_open_input(path);
+	int n;
+
+	if (in == NULL) {
+		cli_error("%s: %s", path, cli_reason(AL_OK));
+		return -1;
+	}
+	/* jansson does not fill every byte of err on every path */
+	memset(&err, 0, sizeof err);
+	errno = 0;
+	root = json_loadf(in, 0, &err);
+	fclose(in);
+	/* jansson reports some failed allocations as syntax errors; our
+	 * allocator leaves errno at ENOMEM */
+	if (root == NULL && (json_error_code(&err) == json_error_out_of_memory ||
+			     errno == ENOMEM))
+		cli_error("%s: %s", path, al_strerror(AL_ENOMEM));
+	else if (root == NULL && err.line < 1) /* no line: not read at all */
+		cli_error("%s: %s", path, errno ? cli_reason(AL_OK) : err.text);
+	else if (root == NULL)
+		cli_error("%s:%d: not a readable record: %s", path, err.line,
+			  err.text);
+	if (root == NULL)
+		return -1;
+	n = cli_verify_root(out, root, path, sha256_file);
+	if (n >= 0)
+		n += cross_check(out, root, path);
+	json_decref(root);
+	if (n < 0)
+		cli_error("%s: not an acidlot record (no inputs and outputs "
+			  "with path and sha256)",
+			  path);
+	return n;
+}
+
+struct verify_run {
+	int argc;
+	char **argv;
+	int changed;
+};
+
+/* Every record's lines into out under one header; -1 at the first that
+ * cannot be read. */
+static int
+verify_all(void *ctx, FILE *out)
+{
+	struct verify_run *v = ctx;
+
+	fputs("record,check,role,file,note\n", out);
+	for (int i = optind; i < v->argc; i++) {
+		int n = verify_one(out, v->argv[i]);
+
+		if (n < 0)
+			return -1;
+		v->changed += n;
+	}
+	return 0;
+}
+
+static int
+one_option(void *ctx, int c, char *text)
+{
+	int pick = cli_choice("verify", "--format", text, "table", "csv");
+
+	(void)c;
+	*(int *)ctx = pick == 0;
+	return pick < 0 ? -1 : 1;
 }
 
 int
 cmd_verify(int argc, char **argv)
 {
-	static const struct option options[] = {
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
-	int c, changed = 0;
+	static const char *const options[] = {"format"};
+	struct verify_run v = {argc, argv, 0};
+	int table = -1, done;
 
-	optind = 1;
-	opterr = 0;
-	while ((c = getopt_long(argc, argv, "h", options, NULL)) != -1) {
-		if (c == 'h') {
-			usage(stdout);
-			return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
-		}
-		return cli_usage_error("verify", "unknown option '%s'",
-				       cli_bad_option(argv));
-	}
+	done = cli_options_done(cli_options("verify", argc, argv, options, 1,
+					    usage, one_option, &table));
+	if (done >= 0)
+		return done;
 	if (optind >= argc)
 		return cli_usage_error("verify", "no record given");
-	for (int i = optind; i < argc; i++) {
-		json_error_t err;
-		json_t *root;
-		int n;
-
-		/* jansson does not fill every byte of err on every path */
-		memset(&err, 0, sizeof err);
-		errno = 0;
-		{
-			FILE *in = cli_open_input(argv[i]);
-
-			if (in == NULL) {
-				cli_error("%s: %s", argv[i], cli_reason(AL_OK));
-				return EXIT_TROUBLE;
-			}
-			root = json_loadf(in, 0, &err);
-			fclose(in);
-		}
-		/* jansson reports some failed allocations as syntax errors;
-		 * our allocator leaves errno at ENOMEM */
-		if (root == NULL &&
-		    (json_error_code(&err) == json_error_out_of_memory ||
-		     errno == ENOMEM)) {
-			cli_error("%s: %s", argv[i], al_strerror(AL_ENOMEM));
-			return EXIT_TROUBLE;
-		}
-		if (root == NULL && err.line < 1) /* no line: not read at all */
-			cli_error("%s: %s", argv[i],
-				  errno ? cli_reason(AL_OK) : err.text);
-		else if (root == NULL)
-			cli_error("%s:%d: not a readable record: %s", argv[i],
-				  err.line, err.text);
-		if (root == NULL)
-			return EXIT_TROUBLE;
-		n = cli_verify_root(root, argv[i], sha256_file);
-		if (n >= 0)
-			n += cross_check(root, argv[i]);
-		json_decref(root);
-		if (n < 0) {
-			cli_error("%s: not an acidlot record (no inputs and "
-				  "outputs with path and sha256)",
-				  argv[i]);
-			return EXIT_TROUBLE;
-		}
-		changed += n;
-	}
+	if (table < 0)
+		table = cli_is_terminal();
+	if (cli_put_table(table, verify_all, &v) != 0)
+		return EXIT_TROUBLE;
 	if (fflush(stdout) != 0 || ferror(stdout)) {
 		cli_error("standard output: %s", cli_reason(AL_OK));
 		return EXIT_TROUBLE;
 	}
 	fprintf(stderr, PROG ": %s\n",
-		changed ? "something changed since the run" : "nothing changed");
-	return changed ? EXIT_NOT_PASS : 0;
+		v.changed ? "something changed since the run"
+			  : "nothing changed");
+	return v.changed ? EXIT_NOT_PASS : 0;
 }

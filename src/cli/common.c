@@ -608,6 +608,29 @@ cli_aligned(FILE *out, const char *csv, size_t len)
 }
 
 int
+cli_put_table(int table, int (*write)(void *ctx, FILE *out), void *ctx)
+{
+	char *text = NULL;
+	size_t len = 0;
+	FILE *out = open_memstream(&text, &len);
+	int rc;
+
+	if (out == NULL)
+		return cli_error("%s", al_strerror(AL_ENOMEM)), -1;
+	rc = write(ctx, out);
+	if (fclose(out) != 0 && rc == 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		rc = -1;
+	}
+	if (rc == 0 && table)
+		cli_aligned(stdout, text, len);
+	else if (rc == 0)
+		fwrite(text, 1, len, stdout);
+	free(text);
+	return rc;
+}
+
+int
 cli_is_terminal(void)
 {
 	return isatty(STDOUT_FILENO);

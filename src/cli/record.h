@@ -98,8 +98,9 @@ const char *record_name(json_t *f, const char *key, char *out, size_t cap);
 typedef int (*cli_hash_fn)(const char *path, char hex[65],
 			   unsigned long long *bytes);
 /* Checks the files a record (its parsed JSON) names against their
- * hashes, printing a line for each: the count that changed or are
- * missing, or -1 when it is no record. */
-int cli_verify_root(json_t *root, const char *record, cli_hash_fn hash);
+ * hashes, writing a CSV line for each into out (none when out is NULL):
+ * the count that changed or are missing, or -1 when it is no record. */
+int cli_verify_root(FILE *out, json_t *root, const char *record,
+		    cli_hash_fn hash);
 
 #endif

@@ -32,7 +32,7 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 
 	if (root == NULL)
 		return 0;
-	n = cli_verify_root(root, "fuzz.json", stand_in);
+	n = cli_verify_root(NULL, root, "fuzz.json", stand_in);
 	if (n > 0 && (size_t)n > json_array_size(json_object_get(root, "inputs")) +
 				      json_array_size(json_object_get(root, "outputs")))
 		__builtin_trap();
