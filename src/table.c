@@ -82,12 +82,12 @@ word_means(const char *word, char *buf, size_t cap)
  * appended the same way, e.g. "Blank (mL)" -> "blank_ml", "NaOH
  * (mol/L)" -> "titrant_mol_l", "Einwaage (g)" -> "mass_g". Words that
  * stand for "-" ("sample" in "Sample Mass") are left out, and so is
- * "volume" beside the titrant ("Titrant Volume"), unless nothing else
- * is left. */
+ * "volume" beside the titrant ("Titrant Volume"); when nothing else is
+ * left, the first word stays as written ("Sample ID" -> "sample"). */
 static void
 common_form(const char *h, size_t len, char *out, size_t cap)
 {
-	char words[8][32];
+	char words[8][32], first[32] = "";
 	size_t nw = 0, n = 0, i = 0, kept = 0;
 	int titrant = 0;
 
@@ -105,6 +105,8 @@ common_form(const char *h, size_t len, char *out, size_t cap)
 		word[w] = '\0';
 		if (w == 0)
 			break;
+		if (nw == 0)
+			snprintf(first, sizeof first, "%s", word);
 		snprintf(words[nw], sizeof words[nw], "%s",
 			 word_means(word, means, sizeof means));
 		nw++;
@@ -115,6 +117,10 @@ common_form(const char *h, size_t len, char *out, size_t cap)
 		kept += strcmp(words[k], "-") != 0 &&
 			!(titrant && strcmp(words[k], "volume") == 0);
 	out[0] = '\0';
+	if (kept == 0 && nw > 0) {
+		snprintf(out, cap, "%s", first);
+		return;
+	}
 	for (size_t k = 0, last = nw; k < nw && n + 1 < cap; k++) {
 		int drop = strcmp(words[k], "-") == 0 ||
 			   (titrant && strcmp(words[k], "volume") == 0);
