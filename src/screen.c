@@ -52,11 +52,38 @@ result_text(const al_group_result *r, int decimals, char *buf, size_t cap)
 		snprintf(buf, cap, "%s", val);
 }
 
-/* The specification's limits: "0.7 to 1.0", ">= 0.7", "<= 1.0", "-". */
+/* The decimals a formatted number shows. */
+static size_t
+decimals_of(const char *s)
+{
+	const char *dot = strchr(s, '.');
+
+	return dot ? strlen(dot + 1) : 0;
+}
+
+/* s padded with zeros to show d decimals ("2" -> "2.0" beside "1.6"). */
+static void
+pad_decimals(char *s, size_t cap, size_t d)
+{
+	size_t have = decimals_of(s), len = strlen(s);
+
+	if (have >= d || len + 1 + d - have >= cap)
+		return;
+	if (have == 0)
+		s[len++] = '.';
+	while (have++ < d)
+		s[len++] = '0';
+	s[len] = '\0';
+}
+
+/* The specification's limits: "0.7 to 1.0", ">= 0.7", "<= 1.0", "-";
+ * both limits to the same decimals, as a specification writes them
+ * (its file may say 2.0, which reads back as 2). */
 static void
 limits_text(const al_spec *sp, char *buf, size_t cap)
 {
 	char lo[64], hi[64];
+	size_t d;
 
 	if (sp == NULL || (!sp->has_min && !sp->has_max)) {
 		snprintf(buf, cap, "-");
@@ -64,6 +91,9 @@ limits_text(const al_spec *sp, char *buf, size_t cap)
 	}
 	al_format_number(sp->min, -1, 0, lo, sizeof lo);
 	al_format_number(sp->max, -1, 0, hi, sizeof hi);
+	d = decimals_of(lo) > decimals_of(hi) ? decimals_of(lo) : decimals_of(hi);
+	pad_decimals(lo, sizeof lo, d);
+	pad_decimals(hi, sizeof hi, d);
 	if (sp->has_min && sp->has_max)
 		snprintf(buf, cap, "%s to %s", lo, hi);
 	else
