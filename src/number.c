@@ -293,30 +293,56 @@ al_numerr_phrase(al_numerr err)
 }
 
 int
-al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
-	      size_t ucap)
+al_u_place(double U, double *step)
 {
 	char two[32];
-	double ur, step;
-	int e, decimals;
+	int e;
 
-	if (!(U > 0) || !isfinite(U) || !isfinite(y))
+	*step = 0;
+	if (!(U > 0) || !isfinite(U))
 		return -1;
 	/* U to two significant digits, correctly rounded from its binary
 	 * value by printf; its decade e from the exponent printf chose
 	 * (after any carry, 0.0996 -> 1.0e-01) */
 	snprintf(two, sizeof two, "%.1e", U);
 	e = atoi(strchr(two, 'e') + 1);
-	decimals = e < 1 ? 1 - e : 0;
+	if (e < 1)
+		return 1 - e;
+	*step = pow(10, e - 1);
+	return 0;
+}
+
+double
+al_u_two_digits(double U)
+{
+	char two[32];
+
+	snprintf(two, sizeof two, "%.1e", U);
+	return strtod(two, NULL);
+}
+
+double
+al_round_to_step(double v, double step)
+{
+	return step > 0 ? round(v / step) * step : v;
+}
+
+int
+al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
+	      size_t ucap)
+{
+	double step;
+	int decimals;
+
+	if (!isfinite(y) || (decimals = al_u_place(U, &step)) < 0)
+		return -1;
 	if (decimals > 0) {
 		snprintf(val, vcap, "%.*f", decimals, y);
 		snprintf(unc, ucap, "%.*f", decimals, U);
 	} else {
 		/* tens or more: y to the place of U's second digit */
-		ur = strtod(two, NULL);
-		step = pow(10, e - 1);
-		snprintf(val, vcap, "%.0f", round(y / step) * step);
-		snprintf(unc, ucap, "%.0f", ur);
+		snprintf(val, vcap, "%.0f", al_round_to_step(y, step));
+		snprintf(unc, ucap, "%.0f", al_u_two_digits(U));
 	}
 	/* no "-0.000" for a value that rounds to zero */
 	if (val[0] == '-' && strspn(val + 1, "0.") == strlen(val + 1))

@@ -491,6 +491,14 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 					      : al_assay_result(run, i);
 		const al_spec *sp = r->spec;
 		char flags[512];
+		/* the decimals and step of the figures in the result's unit */
+		double step = 0, U = r->U;
+		int ud = dec;
+
+		if (opt->round_u && r->has_u && (ud = al_u_place(r->U, &step)) < 0)
+			ud = dec;
+		if (step > 0)
+			U = al_u_two_digits(r->U);
 
 		put_text(k, r->product, strlen(r->product), o);
 		text(k, r->lot, o);
@@ -501,11 +509,15 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 			   (uint64_t)r->unit, 0);
 		sink_char(k, d);
 		sink_ulong(k, (unsigned long)r->stats.n);
-		number(k, d, r->stats.n > 0, r->stats.mean, dec, opt);
-		number(k, d, r->stats.has_sd, r->stats.sd, dec, opt);
+		number(k, d, r->stats.n > 0, al_round_to_step(r->stats.mean, step),
+		       ud, opt);
+		number(k, d, r->stats.has_sd, al_round_to_step(r->stats.sd, step),
+		       ud, opt);
 		number(k, d, r->stats.has_rsd, r->stats.rsd_pct, dec, opt);
-		number(k, d, r->stats.has_sd, r->stats.ci_low, dec, opt);
-		number(k, d, r->stats.has_sd, r->stats.ci_high, dec, opt);
+		number(k, d, r->stats.has_sd,
+		       al_round_to_step(r->stats.ci_low, step), ud, opt);
+		number(k, d, r->stats.has_sd,
+		       al_round_to_step(r->stats.ci_high, step), ud, opt);
 		number_memo(k, d, sp && sp->has_min, sp ? sp->min : 0, dec, opt,
 			    &memo[0]);
 		number_memo(k, d, sp && sp->has_max, sp ? sp->max : 0, dec, opt,
@@ -519,14 +531,17 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 					sizeof flags);
 			field_memo(k, flags, d, &names[2], r->flags, ph_bits);
 		}
-		number(k, d, r->has_median, r->median, dec, opt);
+		number(k, d, r->has_median, al_round_to_step(r->median, step), ud,
+		       opt);
 		number(k, d, r->has_grubbs, r->grubbs_g, dec, opt);
 		number(k, d, r->has_dixon, r->dixon_q, dec, opt);
-		number(k, d, r->stats.n > 1, r->range, dec, opt);
-		number(k, d, r->has_critical_range, r->critical_range, dec, opt);
+		number(k, d, r->stats.n > 1, al_round_to_step(r->range, step), ud,
+		       opt);
+		number(k, d, r->has_critical_range,
+		       al_round_to_step(r->critical_range, step), ud, opt);
 		number(k, d, r->has_horrat, r->horrat, dec, opt);
-		number(k, d, r->has_u, r->u, dec, opt);
-		number(k, d, r->has_u, r->U, dec, opt);
+		number(k, d, r->has_u, al_round_to_step(r->u, step), ud, opt);
+		number(k, d, r->has_u, U, ud, opt);
 		number_memo(k, d, r->has_u, r->k, dec, opt, &memo[2]);
 		number(k, d, r->has_brix, r->brix, dec, opt);
 		number(k, d, r->has_brix_corrected, r->brix_corrected, dec, opt);

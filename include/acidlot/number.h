@@ -43,6 +43,15 @@ const char *al_numerr_phrase(al_numerr err);
  * -1 when U is not a positive finite number (then nothing is written). */
 int al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 		  size_t ucap);
+/* The decimal place al_round_to_u rounds to for U: the decimals (>= 1)
+ * with *step 0, or 0 decimals with *step the power of ten of U's second
+ * significant digit (10, 100, ... when U is 10 or more); -1 when U is
+ * not a positive finite number. */
+int al_u_place(double U, double *step);
+/* U to two significant digits (printf's rounding of its binary value). */
+double al_u_two_digits(double U);
+/* v rounded to a multiple of step (v itself when step is 0). */
+double al_round_to_step(double v, double step);
 
 /* v with sig significant digits as %g writes them, trailing zeros
  * dropped, but never with an exponent below 1e15: from 1e-100 up to

@@ -11,6 +11,11 @@
 typedef struct al_report_options {
 	int decimals;      /* fixed decimals when >= 0; -1: 10 significant
 			      digits */
+	int round_u;       /* the figures in a result's unit (mean, sd,
+			      interval, median, range, critical range, u)
+			      to the decimal place of U to two significant
+			      digits, U to two (GUM 7.2.6; al_u_place);
+			      decimals then applies to the other figures */
 	char delimiter;    /* ',' (default when 0) or ';' */
 	int decimal_comma; /* write numbers with ',' (then delimiter ';') */
 	int bom;           /* start each file with a UTF-8 byte-order mark */

@@ -106,8 +106,14 @@ usage_rest(FILE *out)
 	      "                          each rounded to its U, GUM 7.2.6) or\n"
 	      "                          csv; default table on a terminal\n"
 	      "                          without -o, csv into a file or pipe\n"
-	      "      --decimals N        fixed decimals in the report (default:\n"
-	      "                          10 significant digits)\n"
+	      "      --round u           in the report, U to two significant\n"
+	      "                          digits and the figures in the result's\n"
+	      "                          unit (mean, sd, interval, median,\n"
+	      "                          range, u) to the same decimal place\n"
+	      "                          (GUM 7.2.6); default none: every digit\n"
+	      "      --decimals N        fixed decimals in every output\n"
+	      "                          (default: 10 significant digits); with\n"
+	      "                          --round u, for the other figures\n"
 	      "      --sheet-style S     plain (default: UTF-8, ',', '.') or eu\n"
 	      "                          (byte-order mark, ';', decimal comma)\n"
 	      "      --bom               start each output with a UTF-8 BOM\n"
@@ -158,7 +164,7 @@ enum {
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
-	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS
+	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -169,10 +175,10 @@ static const char *const options[] = {
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
 	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
-	"spec-columns", "spec=s", "output=o", "replicates=r",
+	"spec-columns", "round", "spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_SPEC_COLUMNS - CLI_OPT + 4,
+		       OPT_ROUND - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -302,6 +308,11 @@ word_option(struct args *a, int c, const char *text)
 					       "DD.MM.YYYY, DD/MM/YYYY or "
 					       "MM/DD/YYYY"),
 			       -1;
+		return 1;
+	case OPT_ROUND:
+		if ((pick = cli_choice("assay", "--round", text, "u", "none")) < 0)
+			return -1;
+		r->round_u = pick == 0;
 		return 1;
 	case OPT_FORMAT:
 		if ((pick = cli_choice("assay", "--format", text, "table",
