@@ -293,12 +293,13 @@ al_numerr_phrase(al_numerr err)
 }
 
 int
-al_u_place(double U, double *step)
+al_u_place(double U, double *step, double *U2)
 {
 	char two[32];
 	int e;
 
 	*step = 0;
+	*U2 = U;
 	if (!(U > 0) || !isfinite(U))
 		return -1;
 	/* U to two significant digits, correctly rounded from its binary
@@ -309,16 +310,8 @@ al_u_place(double U, double *step)
 	if (e < 1)
 		return 1 - e;
 	*step = pow(10, e - 1);
+	*U2 = strtod(two, NULL);
 	return 0;
-}
-
-double
-al_u_two_digits(double U)
-{
-	char two[32];
-
-	snprintf(two, sizeof two, "%.1e", U);
-	return strtod(two, NULL);
 }
 
 double
@@ -331,10 +324,10 @@ int
 al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 	      size_t ucap)
 {
-	double step;
+	double step, U2;
 	int decimals;
 
-	if (!isfinite(y) || (decimals = al_u_place(U, &step)) < 0)
+	if (!isfinite(y) || (decimals = al_u_place(U, &step, &U2)) < 0)
 		return -1;
 	if (decimals > 0) {
 		snprintf(val, vcap, "%.*f", decimals, y);
@@ -342,7 +335,7 @@ al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 	} else {
 		/* tens or more: y to the place of U's second digit */
 		snprintf(val, vcap, "%.0f", al_round_to_step(y, step));
-		snprintf(unc, ucap, "%.0f", al_u_two_digits(U));
+		snprintf(unc, ucap, "%.0f", U2);
 	}
 	/* no "-0.000" for a value that rounds to zero */
 	if (val[0] == '-' && strspn(val + 1, "0.") == strlen(val + 1))

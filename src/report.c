@@ -468,6 +468,20 @@ done(struct sink *k, al_report_options *opt)
 	return ferror(k->out) ? AL_EIO : AL_OK;
 }
 
+/* The report_id cell: the run's id and the row number, as "%c%s-%04zu"
+ * would print them. */
+static void
+put_report_id(struct sink *k, char d, const char *id, size_t id_len,
+	      size_t row)
+{
+	sink_char(k, d);
+	sink_put(k, id, id_len);
+	sink_char(k, '-');
+	for (size_t w = 1000; w > row && w > 1; w /= 10)
+		sink_char(k, '0');
+	sink_ulong(k, (unsigned long)row);
+}
+
 /* The report's lines for results [begin, end), evaluated by rd (NULL:
  * the run's own, al_assay_result). */
 static void
@@ -493,12 +507,8 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		char flags[512];
 		/* the decimals and step of the figures in the result's unit */
 		double step = 0, U = r->U;
-		int ud = dec;
-
-		if (opt->round_u && r->has_u && (ud = al_u_place(r->U, &step)) < 0)
-			ud = dec;
-		if (step > 0)
-			U = al_u_two_digits(r->U);
+		int ud = opt->round_u && r->has_u ? al_u_place(r->U, &step, &U)
+						  : dec;
 
 		put_text(k, r->product, strlen(r->product), o);
 		text(k, r->lot, o);
@@ -549,20 +559,8 @@ put_results(struct sink *k, const al_assay *run, al_assay_reader *rd,
 		number(k, d, r->has_water, r->water_pct, dec, opt);
 		sink_char(k, d);
 		sink_str(k, r->anhydrous ? "anhydrous" : "as-is");
-		if (opt->report_id) {
-			/* as "%c%s-%04zu" would print it */
-			char num[24];
-			size_t at = sizeof num, v = i + 1;
-
-			do {
-				num[--at] = (char)('0' + v % 10);
-				v /= 10;
-			} while (v || at > sizeof num - 4);
-			sink_char(k, d);
-			sink_put(k, opt->report_id, id_len);
-			sink_char(k, '-');
-			sink_put(k, num + at, sizeof num - at);
-		}
+		if (opt->report_id)
+			put_report_id(k, d, opt->report_id, id_len, i + 1);
 		sink_char(k, '\n');
 	}
 }

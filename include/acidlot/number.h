@@ -45,11 +45,10 @@ int al_round_to_u(double y, double U, char *val, size_t vcap, char *unc,
 		  size_t ucap);
 /* The decimal place al_round_to_u rounds to for U: the decimals (>= 1)
  * with *step 0, or 0 decimals with *step the power of ten of U's second
- * significant digit (10, 100, ... when U is 10 or more); -1 when U is
- * not a positive finite number. */
-int al_u_place(double U, double *step);
-/* U to two significant digits (printf's rounding of its binary value). */
-double al_u_two_digits(double U);
+ * significant digit (10, 100, ... when U is 10 or more) and *U2 U to two
+ * significant digits (else *U2 is U: its decimals show two); -1 when U
+ * is not a positive finite number. */
+int al_u_place(double U, double *step, double *U2);
 /* v rounded to a multiple of step (v itself when step is 0). */
 double al_round_to_step(double v, double step);
 
