@@ -14,7 +14,9 @@ usage(FILE *out)
 	      "titrated, factor (g per meq), pKa values at 25 C, and source.\n"
 	      "\n"
 	      "      --csv    write CSV instead of a table\n"
-	      "  -h, --help   this help\n",
+	      "  -h, --help   this help\n"
+	      "\n"
+	      "Exit status: 0, or 2 on a usage or write error.\n",
 	      out);
 }
 

@@ -27,7 +27,9 @@ usage(FILE *out)
 	      "      --decimals N       fixed decimals (default 6 significant\n"
 	      "                         digits)\n"
 	      "  -h, --help             this help\n"
-	      "Units: g/100g g/kg g/100mL g/L meq/100g meq/L\n",
+	      "Units: g/100g g/kg g/100mL g/L meq/100g meq/L\n"
+	      "\n"
+	      "Exit status: 0, or 2 on a usage or write error.\n",
 	      out);
 }
 

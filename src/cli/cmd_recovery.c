@@ -33,7 +33,9 @@ usage(FILE *out)
 	      "      --base NAME        a base to neutralise with\n"
 	      "      --decimals N       fixed decimals (default 6 significant\n"
 	      "                         digits, as convert)\n"
-	      "  -h, --help             this help\n",
+	      "  -h, --help             this help\n"
+	      "\n"
+	      "Exit status: 0, or 2 on a usage or write error.\n",
 	      out);
 }
 

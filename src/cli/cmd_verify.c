@@ -25,8 +25,9 @@ usage(FILE *out)
 	      "One line per file: record, check (ok, changed, missing,\n"
 	      "not-a-file, skipped, contradicts), role, file, note.\n"
 	      "\n"
-	      "Exit status: 0 nothing changed; 1 a file changed or is missing;\n"
-	      "2 usage error or a record that cannot be read.\n",
+	      "Exit status: 0 nothing changed; 1 a file changed or is missing,\n"
+	      "or the report contradicts the record; 2 usage error or a\n"
+	      "record that cannot be read.\n",
 	      out);
 }
 

@@ -36,8 +36,12 @@ usage(FILE *out)
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
 	      "\n"
-	      "Exit status: 0 every result pass or no-spec; 1 at least one\n"
-	      "fail or retest; 2 usage, input or I/O error.\n",
+	      "Exit status (each command's --help gives its own): 0 all\n"
+	      "well (assay: every result pass); 1 something needs a look\n"
+	      "(assay: a fail, retest, conditional-pass, conditional-fail\n"
+	      "or, with --spec, no-spec result; standardize: a lot not\n"
+	      "accepted; verify: a file changed); 2 usage, input or I/O\n"
+	      "error, nothing written.\n",
 	      out);
 }
 
