@@ -26,6 +26,7 @@
  * or more. It assumes activity coefficients of 1, pKw 14.0 (25 C), and
  * that the acid's anion adds no hydroxide of its own there. */
 #include "acidlot/curve.h"
+#include "acidlot/table.h"
 
 #include <gsl/gsl_fit.h>
 #include <gsl/gsl_sort.h>
@@ -309,10 +310,9 @@ al_curve_mode_name(al_curve_mode mode)
 int
 al_curve_mode_parse(const char *name, al_curve_mode *mode)
 {
-	for (int k = 0; k < 3; k++)
-		if (strcmp(name, mode_names[k]) == 0) {
-			*mode = (al_curve_mode)k;
-			return 0;
-		}
-	return -1;
+	int k = al_name_index(mode_names, 3, name);
+
+	if (k >= 0)
+		*mode = (al_curve_mode)k;
+	return k < 0 ? -1 : 0;
 }

@@ -5,6 +5,7 @@
  * of the era starting in March so that the leap day falls last (the
  * usual civil-calendar arithmetic, e.g. in the C++ <chrono> proposals). */
 #include "acidlot/date.h"
+#include "acidlot/table.h"
 
 #include <string.h>
 
@@ -85,12 +86,11 @@ al_date_order_name(al_date_order o)
 int
 al_date_order_parse(const char *name, al_date_order *o)
 {
-	for (int i = 0; i < 4; i++)
-		if (strcmp(name, order_names[i]) == 0) {
-			*o = (al_date_order)i;
-			return 0;
-		}
-	return -1;
+	int i = al_name_index(order_names, 4, name);
+
+	if (i >= 0)
+		*o = (al_date_order)i;
+	return i < 0 ? -1 : 0;
 }
 
 int
