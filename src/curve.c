@@ -185,7 +185,9 @@ inflection(const al_curve *c, const double *slope, al_curve_endpoint *out)
 	for (size_t i = 1; i < c->n; i++)
 		if (slope[i] > slope[top])
 			top = i;
-	if (top == c->n - 1) { /* still rising at the last reading */
+	/* still rising at the last reading, or not yet past the jump: its
+	 * slope is still over half the steepest */
+	if (top == c->n - 1 || slope[c->n - 1] > slope[top] / 2) {
 		out->flags |= AL_CURVE_NOT_REACHED;
 		return;
 	}
@@ -275,7 +277,11 @@ al_curve_find(const al_curve *c, al_curve_mode mode, double *work,
 			: dv > 0 ? c->ph[j - 1] + (out->volume_ml - c->ml[j - 1]) *
 						  (c->ph[j] - c->ph[j - 1]) / dv
 				 : c->ph[j];
-		if (fabs(c->ph[j] - c->ph[j - 1]) > AL_CURVE_SPARSE_PH ||
+		/* the pH gap matters where the volume is interpolated
+		 * (fixed); at the steepest point of a sharp jump readings
+		 * are always far apart in pH, and Gran extrapolates */
+		if ((mode == AL_CURVE_FIXED &&
+		     fabs(c->ph[j] - c->ph[j - 1]) > AL_CURVE_SPARSE_PH) ||
 		    dv > AL_CURVE_SPARSE_ML)
 			out->flags |= AL_CURVE_SPARSE;
 	}

@@ -9,6 +9,8 @@
 #include "acidlot/columns.h"
 #include "acidlot/csvread.h"
 #include "acidlot/csvwrite.h"
+#include "acidlot/curve.h"
+#include "acidlot/curves.h"
 #include "acidlot/date.h"
 #include "acidlot/gum.h"
 #include "acidlot/juice.h"

@@ -18,7 +18,8 @@ typedef enum {
 enum {
 	AL_CURVE_SPARSE = 1u << 0,      /* sparse-near-endpoint: the readings
 					   around the endpoint more than
-					   0.2 pH or 0.5 mL apart */
+					   0.5 mL apart, or (fixed) more
+					   than 0.2 pH */
 	AL_CURVE_NOT_REACHED = 1u << 1, /* endpoint-not-reached: no volume */
 	AL_CURVE_PH_FALLS = 1u << 2,    /* ph-falls: a drop of over 0.1 pH
 					   in the second half */

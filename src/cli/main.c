@@ -32,6 +32,8 @@ usage(FILE *out)
 	      "                  process step, base needed to neutralise it\n"
 	      "  template        a blank bench sheet (CSV) with every column\n"
 	      "                  the assay reads and a line of units\n"
+	      "  endpoint FILE...  endpoint volumes from titration curves\n"
+	      "                  (pH readings), with SVG pictures\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -108,6 +110,7 @@ dispatch(int argc, char **argv)
 		{"verify", NULL, cmd_verify},
 		{"recovery", NULL, cmd_recovery},
 		{"template", NULL, cmd_template},
+		{"endpoint", NULL, cmd_endpoint},
 	};
 	const char *names[sizeof commands / sizeof commands[0]], *near;
 	const char *cmd;

@@ -98,6 +98,8 @@ scenario verify verify "$reg.record.json"
 scenario rejects assay "$messy" --rejects rej.csv -o out.csv --delimiter auto \
 	--column "titrant_ml=Vol (mL)"
 rm -f "$work/../keep-$$.csv"
+scenario endpoint endpoint "$samples/curves.csv" -o ep.csv --plots pics \
+	--mode gran
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
 scenario recovery recovery --ta 4.8 --unit g/100g --acid citric --start-kg 1000 \
