@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "acidlot/alloc.h"
+#include "acidlot/curves.h"
 #include "run.h"
 #include "titration.h"
 
@@ -129,7 +130,8 @@ twice(al_assay *run, const al_group *g, const al_row *r)
 static al_status
 keep_row(al_assay *run, const al_group *g, const al_row *r)
 {
-	size_t len = r->len[AL_T_REPLICATE] + 1;
+	/* the replicate, then the curve and the mode, each ending in NUL */
+	size_t len = r->len[AL_T_REPLICATE] + r->curve_len + r->mode_len + 3;
 	struct kept_row *k;
 	void *p;
 
@@ -143,8 +145,14 @@ keep_row(al_assay *run, const al_group *g, const al_row *r)
 	if (p == NULL)
 		return AL_ENOMEM;
 	run->kept_text = p;
-	memcpy(run->kept_text + run->kept_text_len, r->text[AL_T_REPLICATE],
-	       len);
+	p = run->kept_text + run->kept_text_len;
+	memcpy(p, r->text[AL_T_REPLICATE], r->len[AL_T_REPLICATE] + 1);
+	p = (char *)p + r->len[AL_T_REPLICATE] + 1;
+	memcpy(p, r->curve, r->curve_len);
+	((char *)p)[r->curve_len] = '\0';
+	p = (char *)p + r->curve_len + 1;
+	memcpy(p, r->mode, r->mode_len);
+	((char *)p)[r->mode_len] = '\0';
 	k = &run->kept[run->n_kept++];
 	k->group = (uint32_t)group_index(run, g);
 	k->pos = g->n - 1;
@@ -394,8 +402,9 @@ data_row(al_assay *run, const al_csv_row *row)
 	return run->diags.out_of_memory ? AL_ENOMEM : AL_OK;
 }
 
+/* A row of the table of titrations (a file's, or one curve's). */
 static al_status
-on_csv_row(void *ud, const al_csv_row *row)
+table_row(void *ud, const al_csv_row *row)
 {
 	al_assay *run = ud;
 
@@ -413,6 +422,37 @@ on_csv_row(void *ud, const al_csv_row *row)
 	if (!run->rows.header_ok)
 		return AL_OK;
 	return data_row(run, row);
+}
+
+/* A file's header that names curve and ph: its readings are read into
+ * one row per curve, as acidlot endpoint writes them (curves.c). */
+static al_status
+begin_curves(al_assay *run, const al_csv_row *header)
+{
+	al_curves_options o = {
+		.mode = run->opt.endpoint_mode,
+		.has_endpoint_ph = run->opt.has_endpoint,
+		.endpoint_ph = run->opt.endpoint_ph,
+		.decimal_point = run->opt.csv.decimal_point,
+		.on_row = table_row,
+		.ud = run,
+	};
+
+	run->curves = al_curves_new(&o, run->rows.file, &run->diags);
+	return run->curves ? al_curves_row(run->curves, header) : AL_ENOMEM;
+}
+
+static al_status
+on_csv_row(void *ud, const al_csv_row *row)
+{
+	al_assay *run = ud;
+
+	if (run->curves)
+		return al_curves_row(run->curves, row);
+	if (!run->rows.header_done && !row->syntax_error &&
+	    !al_rows_comment(row) && al_curves_is_header(row))
+		return begin_curves(run, row);
+	return table_row(ud, row);
 }
 
 al_status
@@ -469,6 +509,12 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 	run->ud = ud;
 	st = al_csv_read(&run->opt.csv, read_fn, ctx, run->rows.file,
 			 on_csv_row, run, &run->diags);
+	if (run->curves) {
+		if (st == AL_OK)
+			st = al_curves_finish(run->curves);
+		al_curves_free(run->curves);
+		run->curves = NULL;
+	}
 	return file_status(run, st, rows_before);
 }
 
@@ -481,13 +527,18 @@ al_run_replay(al_assay *run)
 		al_replicate rep;
 		al_status st;
 
+		const char *replicate = run->kept_text + k->replicate;
+		const char *curve = replicate + strlen(replicate) + 1;
+
 		rep = (al_replicate){
 			.file = run->files[k->file],
 			.line = k->line,
 			.product = r->product,
 			.lot = r->lot,
 			.sample = r->sample,
-			.replicate = run->kept_text + k->replicate,
+			.replicate = replicate,
+			.curve = curve,
+			.mode = curve + strlen(curve) + 1,
 			.meq = k->meq,
 			.value = k->value,
 			.unit = r->unit,

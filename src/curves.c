@@ -18,12 +18,13 @@
 #include "acidlot/text.h"
 #include "strindex.h"
 
-/* The columns the reader looks at; the others are only carried. */
-enum { K_CURVE, K_ML, K_PH, K_ENDPOINT, K_VOLUME, K_MASS, K_DENSITY,
-       K_START, K_COUNT };
+/* The columns the reader looks at: the first five are its own, the
+ * others (and every column it does not know) are carried. */
+enum { K_CURVE, K_ML, K_PH, K_ENDPOINT, K_START, K_VOLUME, K_MASS,
+       K_DENSITY, K_COUNT };
 static const char *const own[K_COUNT] = {
-	"curve", "titrant_ml", "ph", "endpoint_ph", "volume_ml", "mass_g",
-	"density_g_ml", "start_ml"};
+	"curve", "titrant_ml", "ph", "endpoint_ph", "start_ml", "volume_ml",
+	"mass_g", "density_g_ml"};
 /* The columns a curve's row adds after the carried ones. */
 static const char *const added[] = {"curve", "titrant_ml", "endpoint_ph",
 				    "mode", "readings", "curve_flags"};
@@ -196,7 +197,7 @@ header(al_curves *c, const al_csv_row *row)
 			k++;
 		if (k < K_COUNT && c->col[k] < 0)
 			c->col[k] = (int)i;
-		if (k <= K_ENDPOINT) /* not carried */
+		if (k <= K_START) /* not carried */
 			continue;
 		c->carried[c->n_carried] = (int)i;
 		if ((c->names[c->n_carried++] = cell_copy(row, (int)i)) == NULL)

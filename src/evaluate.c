@@ -230,7 +230,8 @@ other_limits(al_group_result *r)
 
 /* What cannot be a pass: a result made of a value no sample can give,
  * or one whose figures left the range of the arithmetic (the rows'
- * checks keep them in it; this is the last guard). It asks for a
+ * checks keep them in it; this is the last guard), or one titrated on a
+ * curve whose pH fell or scattered (electrode or mixing). It asks for a
  * retest unless it already fails. */
 static void
 never_pass(const al_eval_inputs *in, al_group_result *r)
@@ -238,11 +239,12 @@ never_pass(const al_eval_inputs *in, al_group_result *r)
 	int broken = r->stats.n > 0 &&
 		     !(isfinite(r->stats.mean) && isfinite(r->stats.sd) &&
 		       (!r->has_u || isfinite(r->U)));
+	int curve = (r->flags & (AL_FLAG_CURVE_FALLS | AL_FLAG_CURVE_NOISY)) != 0;
 
 	if (in->impossible || broken)
 		r->flags |= AL_FLAG_IMPLAUSIBLE;
-	if ((in->impossible || broken) && r->verdict != AL_VERDICT_FAIL &&
-	    r->verdict != AL_VERDICT_NO_SPEC)
+	if ((in->impossible || broken || curve) &&
+	    r->verdict != AL_VERDICT_FAIL && r->verdict != AL_VERDICT_NO_SPEC)
 		r->verdict = AL_VERDICT_RETEST;
 }
 

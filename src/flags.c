@@ -40,6 +40,9 @@ static const struct {
 	{AL_FLAG_DENSITY_BRIX, "density-from-brix", ""},
 	{AL_FLAG_BRIX_UNCORRECTED, "brix-not-acid-corrected", ""},
 	{AL_FLAG_MANY, "many-replicates", ""},
+	{AL_FLAG_CURVE_SPARSE, "sparse-near-endpoint", ""},
+	{AL_FLAG_CURVE_FALLS, "ph-falls", "the pH fell during a titration"},
+	{AL_FLAG_CURVE_NOISY, "noisy", "a noisy pH curve"},
 };
 
 size_t

@@ -699,9 +699,8 @@ header_only(FILE *out, const char *names, al_report_options *opt)
 al_status
 al_replicates_header(FILE *out, al_report_options *opt)
 {
-	return header_only(
-		out, "file,line,product,lot,sample,replicate,meq,value,unit,flags",
-		opt);
+	return header_only(out, "file,line,product,lot,sample,replicate,meq,"
+				"value,unit,flags,curve,endpoint_mode", opt);
 }
 
 al_status
@@ -726,6 +725,8 @@ al_replicates_row(FILE *out, const al_replicate *rep, al_report_options *opt)
 	al_flags_format(rep->flags, rep->endpoint_ph_needed, flags,
 			sizeof flags);
 	field(&k, flags, d);
+	text(&k, rep->curve ? rep->curve : "", opt);
+	text(&k, rep->mode ? rep->mode : "", opt);
 	sink_char(&k, '\n');
 	return done(&k, opt);
 }

@@ -17,7 +17,8 @@ static const char *const cols[AL_C_COUNT] = {
 	"sample",	 "titrant_ml", "mass_g",    "volume_ml",  "product",
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
-	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct"};
+	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct",
+	"curve",	 "mode",	"readings", "curve_flags"};
 
 /* The required columns: sample, titrant_ml, and mass_g or volume_ml;
  * each one missing is an error listing the file's header and the
@@ -552,6 +553,45 @@ read_titrant(al_rows *rs, const al_csv_row *row, al_row *r)
 	}
 }
 
+/* The curve that gave the volume (a row of acidlot endpoint): its id,
+ * mode and the flags of its curve that reach the result. */
+static void
+read_curve(al_rows *rs, const al_csv_row *row, al_row *r)
+{
+	static const struct {
+		const char *name;
+		unsigned flag; /* 0: the row has no volume, rejected for it */
+	} known[] = {
+		{"sparse-near-endpoint", AL_FLAG_CURVE_SPARSE},
+		{"ph-falls", AL_FLAG_CURVE_FALLS},
+		{"noisy", AL_FLAG_CURVE_NOISY},
+		{"endpoint-not-reached", 0}, {"starts-above-endpoint", 0},
+		{"too-few-readings", 0}, {"gran-too-few-readings", 0},
+		{"gran-needs-volume", 0},
+	};
+	size_t len;
+	const char *s = al_cell(row, rs->col[AL_C_CURVE_FLAGS], &len);
+
+	r->curve = al_cell(row, rs->col[AL_C_CURVE], &r->curve_len);
+	r->mode = al_cell(row, rs->col[AL_C_MODE], &r->mode_len);
+	while (len > 0) {
+		size_t n = 0, k = 0;
+
+		while (n < len && s[n] != ';')
+			n++;
+		while (k < sizeof known / sizeof known[0] &&
+		       !al_word_eq(s, n, known[k].name))
+			k++;
+		if (k < sizeof known / sizeof known[0])
+			r->flags |= known[k].flag;
+		else if (n > 0)
+			AL_ROW_ERR(rs, r->line, "curve_flags",
+				   "'%.*s' is not a curve flag", (int)n, s);
+		s += n + (n < len);
+		len -= n + (n < len);
+	}
+}
+
 /* The dilution, density, endpoint, Brix and water, where given. */
 static void
 read_extras(al_rows *rs, const al_csv_row *row, al_row *r)
@@ -674,6 +714,7 @@ al_rows_values(al_rows *rs, const al_csv_row *row, al_row *r)
 	read_amounts(rs, row, r);
 	read_titrant(rs, row, r);
 	read_extras(rs, row, r);
+	read_curve(rs, row, r);
 	if (rs->row_diags.errors == 0) {
 		al_ta_problem probs[8];
 		size_t np = al_ta_check(&r->t, probs, 8);

@@ -18,7 +18,8 @@ enum {
 	AL_C_SAMPLE, AL_C_TITRANT, AL_C_MASS, AL_C_VOLUME, AL_C_PRODUCT,
 	AL_C_LOT, AL_C_REPLICATE, AL_C_BLANK, AL_C_CONC, AL_C_MADE_UP,
 	AL_C_ALIQUOT, AL_C_ACID, AL_C_DENSITY, AL_C_ENDPOINT,
-	AL_C_TITRANT_LOT, AL_C_DATE, AL_C_BRIX, AL_C_WATER, AL_C_COUNT
+	AL_C_TITRANT_LOT, AL_C_DATE, AL_C_BRIX, AL_C_WATER, AL_C_CURVE,
+	AL_C_MODE, AL_C_READINGS, AL_C_CURVE_FLAGS, AL_C_COUNT
 };
 
 /* A row's text cells, in this order. */
@@ -63,6 +64,10 @@ typedef struct al_row {
 	al_unit unit;        /* the spec's, else the options', else by basis */
 	int anhydrous;       /* the spec's basis, else the options' */
 	unsigned flags;      /* AL_FLAG_ bits of the row */
+	const char *curve, *mode; /* from a curve file (acidlot endpoint):
+				     the curve and the mode that gave the
+				     volume; "" for a volume read off */
+	size_t curve_len, mode_len;
 	double value;        /* after al_titration_value: the result */
 	double needed;       /* the endpoint pH that would suffice, when low */
 	int impossible;      /* more acid than a sample can hold */

@@ -7,6 +7,7 @@
 
 #include "acidlot/result.h"
 #include "groups.h"
+#include "acidlot/curves.h"
 #include "rows.h"
 
 /* A row used, kept for the replicate output when one is asked for. */
@@ -37,6 +38,8 @@ struct al_assay {
 	char **files;
 	size_t n_files;
 	al_labels labels; /* replicate labels beyond the groups' slots */
+	al_curves *curves; /* the file being read is one of curves: its
+			      readings become one row per curve */
 	al_replicate_fn on_row;
 	void *ud;
 	struct kept_row *kept;

@@ -11,6 +11,7 @@
 
 #include "acidlot/chem.h"
 #include "acidlot/csvread.h"
+#include "acidlot/curve.h"
 #include "acidlot/date.h"
 #include "acidlot/gum.h"
 #include "acidlot/register.h"
@@ -65,6 +66,8 @@ typedef struct al_assay_options {
 	double density_g_ml;           /* when a row has no density_g_ml */
 	int has_endpoint;
 	double endpoint_ph;            /* when a row has no endpoint_ph */
+	al_curve_mode endpoint_mode;   /* a curve file's endpoints (fixed
+					  when 0) */
 	double confidence;             /* of the interval; 0.95 when 0 */
 	al_csv_options csv;            /* delimiter, decimal point */
 	const al_column_alias *aliases;/* other headers for our columns */
@@ -121,8 +124,12 @@ enum {
 	AL_FLAG_NO_BRIX = 1u << 24,      /* Brix or water limits, no values */
 	AL_FLAG_DENSITY_BRIX = 1u << 25, /* density from Brix (NBS sucrose) */
 	AL_FLAG_BRIX_UNCORRECTED = 1u << 26, /* acid correction not applicable */
-	AL_FLAG_MANY = 1u << 27          /* more than AL_VALUES_KEPT values:
+	AL_FLAG_MANY = 1u << 27,         /* more than AL_VALUES_KEPT values:
 					    running statistics, no median */
+	/* from the curve of a titration (acidlot endpoint) */
+	AL_FLAG_CURVE_SPARSE = 1u << 28, /* readings far apart at the end */
+	AL_FLAG_CURVE_FALLS = 1u << 29,  /* the pH fell: retest */
+	AL_FLAG_CURVE_NOISY = 1u << 30   /* a noisy curve: retest */
 };
 
 /* A result keeps its replicate values up to this many; past it, mean,
@@ -137,6 +144,8 @@ typedef struct al_replicate {
 	const char *file;
 	unsigned long line;
 	const char *product, *lot, *sample, *replicate;
+	const char *curve, *mode; /* the curve and mode that gave the volume
+				     (acidlot endpoint); "" for others */
 	double meq;     /* milliequivalents titrated in the portion */
 	double value;   /* titratable acidity in unit, as acid */
 	al_unit unit;

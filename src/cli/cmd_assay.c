@@ -42,6 +42,9 @@ usage(FILE *out)
 	      "      --density-g-ml D    sample density for rows without\n"
 	      "                          density_g_ml\n"
 	      "      --endpoint-ph PH    endpoint pH for rows without endpoint_ph\n"
+	      "      --endpoint-mode M   for a file of pH curves (columns curve,\n"
+	      "                          titrant_ml, ph: see '" PROG " endpoint'):\n"
+	      "                          fixed (default), inflection or gran\n"
 	      "      --titrants FILE     titrant register (from '" PROG " standardize'):\n"
 	      "                          a row's titrant_lot gives its titrant\n"
 	      "                          concentration, valid on the row's date\n"
@@ -164,7 +167,7 @@ enum {
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
-	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND
+	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND, OPT_ENDPOINT_MODE
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -175,10 +178,10 @@ static const char *const options[] = {
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
 	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
-	"spec-columns", "round", "spec=s", "output=o", "replicates=r",
+	"spec-columns", "round", "endpoint-mode", "spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_ROUND - CLI_OPT + 4,
+		       OPT_ENDPOINT_MODE - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -307,6 +310,13 @@ word_option(struct args *a, int c, const char *text)
 					       "--date-format takes YYYY-MM-DD, "
 					       "DD.MM.YYYY, DD/MM/YYYY or "
 					       "MM/DD/YYYY"),
+			       -1;
+		return 1;
+	case OPT_ENDPOINT_MODE:
+		if (al_curve_mode_parse(text, &a->aopt.endpoint_mode) != 0)
+			return cli_usage_error("assay", "--endpoint-mode takes "
+							"fixed, inflection or "
+							"gran"),
 			       -1;
 		return 1;
 	case OPT_ROUND:

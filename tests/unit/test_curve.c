@@ -11,12 +11,17 @@
  * organic acids in aqueous solution": citric 3.13, 4.76, 6.40; malic
  * 3.40, 5.20; tartaric 2.98, 4.34. Kw = 1e-14. The curves are made here
  * from the equation, not by the code under test. */
+#define _POSIX_C_SOURCE 200809L
+#define ACIDLOT_TEST_CATALOGUE
 #include "testutil.h"
 
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_rng.h>
 #include <math.h>
+#include <stdlib.h>
+#include <string.h>
 
+#include "acidlot/assay.h"
 #include "acidlot/curve.h"
 
 #define KW 1e-14
@@ -236,6 +241,79 @@ flags_provoked(void **state)
 	assert_string_equal(names, "sparse-near-endpoint;noisy");
 }
 
-UNIT_TEST_MAIN(NULL, NULL, cmocka_unit_test(model_endpoints),
+/* The mean and sd of the first result of an assay of text (the library,
+ * as acidlot assay runs it). */
+static void
+assay_text(const char *text, al_curve_mode mode, double out[2])
+{
+	al_assay_options opt;
+	al_status st;
+	al_assay *run;
+	FILE *f = fmemopen((void *)text, strlen(text), "r");
+	const al_group_result *r;
+
+	memset(&opt, 0, sizeof opt);
+	opt.catalogue = cat;
+	opt.endpoint_mode = mode;
+	run = al_assay_new(&opt, &st);
+	assert_non_null(run);
+	assert_non_null(f);
+	st = al_assay_read(run, f, "t.csv", NULL, NULL);
+	fclose(f);
+	assert_int_equal(st, AL_OK);
+	assert_int_equal(al_assay_finish(run), AL_OK);
+	r = al_assay_result(run, 0);
+	assert_int_equal(r->stats.n, 3);
+	out[0] = r->stats.mean;
+	out[1] = r->stats.sd;
+	al_assay_free(run);
+}
+
+/* An assay of three replicate curves equals the assay of the three
+ * endpoint volumes of those curves (to 1e-12), in each mode: the
+ * curves are read into the same rows a bench sheet gives. */
+static void
+curves_equal_volumes(void **state)
+{
+	const struct acid *a = &acids[0];
+	char *curves = NULL, *volumes = NULL;
+	size_t lc = 0, lv = 0;
+
+	(void)state;
+	for (int mode = AL_CURVE_FIXED; mode <= AL_CURVE_GRAN; mode++) {
+		FILE *c = open_memstream(&curves, &lc);
+		FILE *v = open_memstream(&volumes, &lv);
+		double from_curves[2], from_volumes[2];
+
+		fputs("sample,replicate,volume_ml,titrant_mol_l,curve,"
+		      "titrant_ml,ph\n", c);
+		fputs("sample,replicate,volume_ml,titrant_mol_l,titrant_ml\n", v);
+		for (int rep = 1; rep <= 3; rep++) {
+			double ml[MAX_READINGS], ph[MAX_READINGS];
+			size_t n = readings(a, 1, 0.05, VE + 8, 0.002 * rep, ml, ph);
+			al_curve_endpoint e = find(ml, ph, n, (al_curve_mode)mode);
+
+			for (size_t i = 0; i < n; i++)
+				fprintf(c, "J1,%d,%.17g,0.1,J1-%d,%.17g,%.17g\n",
+					rep, V0, rep, ml[i], ph[i]);
+			assert_true(e.has_volume);
+			fprintf(v, "J1,%d,%.17g,0.1,%.17g\n", rep, V0,
+				e.volume_ml);
+		}
+		fclose(c);
+		fclose(v);
+		assay_text(curves, (al_curve_mode)mode, from_curves);
+		assay_text(volumes, AL_CURVE_FIXED, from_volumes);
+		for (int k = 0; k < 2; k++)
+			assert_true(fabs(from_curves[k] - from_volumes[k]) <=
+				    1e-12 * fabs(from_volumes[k]));
+		free(curves);
+		free(volumes);
+		curves = volumes = NULL;
+	}
+}
+
+UNIT_TEST_MAIN(setup, teardown, cmocka_unit_test(model_endpoints),
 	       cmocka_unit_test(noisy_readings),
-	       cmocka_unit_test(flags_provoked))
+	       cmocka_unit_test(flags_provoked),
+	       cmocka_unit_test(curves_equal_volumes))
