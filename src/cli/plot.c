@@ -276,6 +276,12 @@ draw(FILE *out, const plot_set *p, const char *id, const al_curve *c,
 						      : NULL);
 	if (p->mode != AL_CURVE_FIXED)
 		second_axis(out, &f, c, p->mode, work, e);
+	else /* the endpoint pH the volume is read at */
+		fprintf(out, "<line x1='%d' y1='%.1f' x2='%d' y2='%.1f' "
+			     "stroke='#777' stroke-dasharray='2 3'/><text "
+			     "x='%d' y='%.1f' fill='#555'>pH %g</text>\n",
+			LEFT, py(&f, c->target_ph), W - RIGHT, py(&f, c->target_ph),
+			LEFT + 6, py(&f, c->target_ph) - 4, c->target_ph);
 	fputs("<polyline fill='none' stroke='#000' points='", out);
 	for (size_t i = 0; i < c->n; i++)
 		fprintf(out, "%.1f,%.1f ", px(&f, c->ml[i]),

@@ -236,6 +236,17 @@ flags_provoked(void **state)
 	e = find(ml, ph, n, AL_CURVE_GRAN);
 	assert_false(e.has_volume);
 	assert_true(e.flags & AL_CURVE_GRAN_FEW);
+	/* a sample already past the endpoint pH, and a curve of one
+	 * reading, give no volume */
+	n = readings(a, 1, 0.05, VE + 8, 0, ml, ph);
+	e = find(ml + n - 5, ph + n - 5, 5, AL_CURVE_FIXED);
+	assert_false(e.has_volume);
+	assert_true(e.flags & AL_CURVE_STARTS_ABOVE);
+	e = find(ml, ph, 1, AL_CURVE_FIXED);
+	assert_false(e.has_volume);
+	assert_true(e.flags & AL_CURVE_FEW_READINGS);
+	e = find(ml, ph, 4, AL_CURVE_INFLECTION);
+	assert_true(e.flags & AL_CURVE_FEW_READINGS);
 	al_curve_flags_format(AL_CURVE_SPARSE | AL_CURVE_NOISY, names,
 			      sizeof names);
 	assert_string_equal(names, "sparse-near-endpoint;noisy");
