@@ -434,11 +434,16 @@ begin_curves(al_assay *run, const al_csv_row *header)
 		.has_endpoint_ph = run->opt.has_endpoint,
 		.endpoint_ph = run->opt.endpoint_ph,
 		.decimal_point = run->opt.csv.decimal_point,
+		.aliases = run->opt.aliases,
+		.n_aliases = run->opt.n_aliases,
 		.on_row = table_row,
 		.ud = run,
 	};
 
 	run->curves = al_curves_new(&o, run->rows.file, &run->diags);
+	/* the rows made carry our names: no alias applies to them */
+	run->n_aliases = run->opt.n_aliases;
+	run->opt.n_aliases = 0;
 	return run->curves ? al_curves_row(run->curves, header) : AL_ENOMEM;
 }
 
@@ -450,7 +455,8 @@ on_csv_row(void *ud, const al_csv_row *row)
 	if (run->curves)
 		return al_curves_row(run->curves, row);
 	if (!run->rows.header_done && !row->syntax_error &&
-	    !al_rows_comment(row) && al_curves_is_header(row))
+	    !al_rows_comment(row) &&
+	    al_curves_is_header(row, run->opt.aliases, run->opt.n_aliases))
 		return begin_curves(run, row);
 	return table_row(ud, row);
 }
@@ -514,6 +520,7 @@ al_assay_read_source(al_assay *run, al_read_fn read_fn, void *ctx,
 			st = al_curves_finish(run->curves);
 		al_curves_free(run->curves);
 		run->curves = NULL;
+		run->opt.n_aliases = run->n_aliases;
 	}
 	return file_status(run, st, rows_before);
 }

@@ -67,14 +67,40 @@ struct al_curves {
 	size_t raw_cap;
 };
 
+/* The column header cell i stands for: an alias's (--column), else the
+ * cell itself, trimmed, into *len. */
+static const char *
+stands_for(const al_csv_row *header, size_t i, const al_column_alias *aliases,
+	   size_t n_aliases, size_t *len)
+{
+	const char *s = al_cell(header, (int)i, len);
+
+	for (size_t a = 0; a < n_aliases; a++)
+		if (al_word_eq(s, *len, aliases[a].header)) {
+			*len = strlen(aliases[a].name);
+			return aliases[a].name;
+		}
+	return s;
+}
+
 int
-al_curves_is_header(const al_csv_row *header)
+al_curves_is_column(const char *name)
+{
+	return al_name_index(own, K_COUNT, name) >= 0;
+}
+
+int
+al_curves_is_header(const al_csv_row *header, const al_column_alias *aliases,
+		    size_t n_aliases)
 {
 	int has[2] = {0, 0};
 
 	for (size_t i = 0; i < header->nfields; i++) {
-		has[0] |= al_word_eq(header->fields[i], header->lens[i], "curve");
-		has[1] |= al_word_eq(header->fields[i], header->lens[i], "ph");
+		size_t len;
+		const char *s = stands_for(header, i, aliases, n_aliases, &len);
+
+		has[0] |= al_word_eq(s, len, "curve");
+		has[1] |= al_word_eq(s, len, "ph");
 	}
 	return has[0] && has[1];
 }
@@ -190,25 +216,36 @@ header(al_curves *c, const al_csv_row *row)
 	if (!c->carried || !c->names || !c->out_fields || !c->out_lens)
 		return AL_ENOMEM;
 	for (size_t i = 0; i < row->nfields; i++) {
+		size_t len;
+		const char *s = stands_for(row, i, c->opt.aliases,
+					   c->opt.n_aliases, &len);
 		int k = 0;
 
-		while (k < K_COUNT &&
-		       !al_word_eq(row->fields[i], row->lens[i], own[k]))
+		while (k < K_COUNT && !al_word_eq(s, len, own[k]))
 			k++;
 		if (k < K_COUNT && c->col[k] < 0)
 			c->col[k] = (int)i;
 		if (k <= K_START) /* not carried */
 			continue;
 		c->carried[c->n_carried] = (int)i;
-		if ((c->names[c->n_carried++] = cell_copy(row, (int)i)) == NULL)
+		/* a header an alias maps is handed on as our column's name:
+		 * the rows made need no alias */
+		if ((c->names[c->n_carried++] = al_strndup(s, len)) == NULL)
 			return AL_ENOMEM;
 	}
-	if (c->col[K_ML] < 0) {
-		al_diags_add(c->diags, AL_SEV_ERROR, c->file, row->line, NULL,
-			     "missing required column 'titrant_ml' (the "
-			     "cumulative volume of each reading)");
-		c->bad_header = 1;
-	}
+	for (int k = K_CURVE; k <= K_PH; k++)
+		if (c->col[k] < 0) {
+			al_diags_add(c->diags, AL_SEV_ERROR, c->file, row->line,
+				     NULL,
+				     "missing required column '%s' (%s); map "
+				     "the file's own with --column %s=HEADER",
+				     own[k],
+				     k == K_CURVE ? "one titration's id"
+				     : k == K_ML  ? "the cumulative volume"
+						  : "the pH reading",
+				     own[k]);
+			c->bad_header = 1;
+		}
 	c->header_done = 1;
 	return hand_on(c, row, row->line, (const char *const *)c->names,
 		       added);

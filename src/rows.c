@@ -18,7 +18,10 @@ static const char *const cols[AL_C_COUNT] = {
 	"lot",		 "replicate",  "blank_ml",  "titrant_mol_l",
 	"made_up_ml",	 "aliquot_ml", "acid",	    "density_g_ml",
 	"endpoint_ph",	 "titrant_lot", "date",	    "brix",	  "water_pct",
-	"curve",	 "mode",	"readings", "curve_flags"};
+	"curve",	 "mode",	"readings", "curve_flags",
+	/* a curve file's (curves.c), named here for the messages that map
+	 * a header: such a file's readings never reach these rows */
+	"ph",		 "start_ml"};
 
 /* The required columns: sample, titrant_ml, and mass_g or volume_ml;
  * each one missing is an error listing the file's header and the
@@ -130,6 +133,15 @@ al_rows_header(al_rows *rs, const al_csv_row *row)
 		ok = 0;
 	if (!required_columns(rs, row))
 		ok = 0;
+	/* pH readings without a curve column: not a curve file, and the
+	 * readings would be lost in silence */
+	if (rs->col[AL_C_PH] >= 0 || rs->col[AL_C_START] >= 0)
+		AL_RUN_DIAG(rs, AL_SEV_WARNING, row->line, NULL,
+			    "ignoring column '%s': pH readings are read from "
+			    "a curve file, with a curve column (see '"
+			    "acidlot endpoint --help'); a titration's endpoint "
+			    "pH is endpoint_ph",
+			    rs->col[AL_C_PH] >= 0 ? "ph" : "start_ml");
 	if ((rs->col[AL_C_MADE_UP] < 0) != (rs->col[AL_C_ALIQUOT] < 0)) {
 		AL_RUN_DIAG(rs, AL_SEV_ERROR, row->line, NULL,
 			"'made_up_ml' and 'aliquot_ml' go together: the file "

@@ -39,7 +39,9 @@ struct al_assay {
 	size_t n_files;
 	al_labels labels; /* replicate labels beyond the groups' slots */
 	al_curves *curves; /* the file being read is one of curves: its
-			      readings become one row per curve */
+			      readings become one row per curve, under our
+			      column names (the aliases applied) */
+	size_t n_aliases;  /* the options' while a curve file is read */
 	al_replicate_fn on_row;
 	void *ud;
 	struct kept_row *kept;

@@ -7,6 +7,7 @@
 #include "acidlot/csvread.h"
 #include "acidlot/curve.h"
 #include "acidlot/status.h"
+#include "acidlot/table.h"
 
 /* The default endpoint pH (AOAC 942.15, IFU method 3). */
 #define AL_CURVES_DEFAULT_PH 8.1
@@ -27,6 +28,10 @@ typedef struct al_curves_options {
 	int has_endpoint_ph;
 	double endpoint_ph; /* for rows without endpoint_ph; else 8.1 */
 	char decimal_point; /* of the file's numbers: '.' when 0, or ',' */
+	const al_column_alias *aliases; /* other headers for our columns (and
+					   the assay's): a mapped header is
+					   handed on as our column's name */
+	size_t n_aliases;
 	al_curves_row_fn on_row;
 	al_curves_curve_fn on_curve; /* may be NULL */
 	void *ud;
@@ -34,8 +39,14 @@ typedef struct al_curves_options {
 
 typedef struct al_curves al_curves;
 
-/* The column names that make a header a curve file's: curve and ph. */
-int al_curves_is_header(const al_csv_row *header);
+/* 1 when name is a column the curve reader reads (curve, titrant_ml,
+ * ph, endpoint_ph, start_ml, volume_ml, mass_g, density_g_ml). */
+int al_curves_is_column(const char *name);
+
+/* The column names that make a header a curve file's: curve and ph,
+ * as named or through aliases. */
+int al_curves_is_header(const al_csv_row *header,
+			const al_column_alias *aliases, size_t n_aliases);
 
 /* A reader of one file's rows (diagnostics into diags, naming file);
  * NULL when memory runs out. */

@@ -30,6 +30,10 @@ usage(FILE *out)
 	      "      --endpoint-ph PH  for curves without endpoint_ph (default\n"
 	      "                       8.1; OIV wine and IFU on request: 7.0)\n"
 	      "      --plots DIR      one SVG picture per curve into DIR\n"
+	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
+	      "                       column NAME (repeatable); the rows\n"
+	      "                       written name it NAME\n"
+	      "      --columns FILE   such pairs from a CSV name,header\n"
 	      "      --delimiter D, --decimal-comma   as for assay; the rows\n"
 	      "                       written keep the file's delimiter and\n"
 	      "                       decimal sign\n"
@@ -55,18 +59,23 @@ usage(FILE *out)
 }
 
 enum { OPT_MODE = CLI_OPT, OPT_ENDPOINT, OPT_PLOTS, OPT_DELIMITER,
-       OPT_DECIMAL_COMMA };
+       OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS };
 
 static const char *const options[] = {
 	"mode", "endpoint-ph", "plots", "delimiter", "decimal-comma!",
-	"output=o",
+	"column", "columns", "output=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_DECIMAL_COMMA - CLI_OPT + 2,
+		       OPT_COLUMNS - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
+#define MAX_COLUMNS 32
+
 struct job {
-	const char *output, *plots;
+	const char *output, *plots, *columns_file;
+	al_column_alias column_opts[MAX_COLUMNS]; /* --column NAME=HEADER */
+	size_t n_column_opts;
+	cli_column_map columns;
 	al_curves_options copt;
 	al_csv_options csv;
 	int table, format_given;
@@ -81,11 +90,20 @@ struct job {
 	plot_set plots_made;
 };
 
+/* A column --column may name: the curve reader's or the assay's. */
+static int
+known_column(const char *name)
+{
+	return al_curves_is_column(name) || al_assay_is_column(name);
+}
+
 static int
 one_option(void *ctx, int c, char *text)
 {
 	struct job *j = ctx;
-	const cli_text t[] = {{'o', &j->output}, {OPT_PLOTS, &j->plots}};
+	const cli_text t[] = {{'o', &j->output},
+			      {OPT_PLOTS, &j->plots},
+			      {OPT_COLUMNS, &j->columns_file}};
 	const cli_range r[] = {
 		{OPT_ENDPOINT, "--endpoint-ph", 0, 14, 0,
 		 "--endpoint-ph takes a pH from 0 to 14", &j->copt.endpoint_ph,
@@ -112,7 +130,11 @@ one_option(void *ctx, int c, char *text)
 				       text),
 		       -1;
 	}
-	return cli_text_option(t, 2, c, text) ||
+	if (c == OPT_COLUMN)
+		return cli_column_option("endpoint", "--column", text,
+					 known_column, j->column_opts,
+					 &j->n_column_opts, MAX_COLUMNS);
+	return cli_text_option(t, 3, c, text) ||
 	       cli_range_option("endpoint", r, 1, c, text);
 }
 
@@ -287,8 +309,15 @@ cmd_endpoint(int argc, char **argv)
 		return cli_usage_error("endpoint", "no curve file given");
 	if (cli_check_decimal_comma("endpoint", &j.csv) != 0)
 		return EXIT_TROUBLE;
-	if (!files_safe(&j))
+	if (!files_safe(&j) ||
+	    cli_column_map_load(&j.columns, "endpoint", "--column",
+				j.columns_file, known_column,
+				j.column_opts, j.n_column_opts) != 0) {
+		cli_column_map_free(&j.columns);
 		return EXIT_TROUBLE;
+	}
+	j.copt.aliases = j.columns.all;
+	j.copt.n_aliases = j.columns.n;
 	if (j.plots) {
 		if (plot_begin(&j.plots_made, j.plots, j.copt.mode) != 0)
 			return EXIT_TROUBLE;
@@ -305,6 +334,7 @@ cmd_endpoint(int argc, char **argv)
 			j.curves - j.no_volume, j.flagged);
 	}
 	plot_abort(&j.plots_made);
+	cli_column_map_free(&j.columns);
 	free(j.header);
 	al_diags_clear(&j.diags);
 	return rc;
