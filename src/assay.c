@@ -434,6 +434,7 @@ begin_curves(al_assay *run, const al_csv_row *header)
 		.has_endpoint_ph = run->opt.has_endpoint,
 		.endpoint_ph = run->opt.endpoint_ph,
 		.decimal_point = run->opt.csv.decimal_point,
+		.decimals = -1,
 		.aliases = run->opt.aliases,
 		.n_aliases = run->opt.n_aliases,
 		.on_row = table_row,

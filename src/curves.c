@@ -173,9 +173,12 @@ al_curves_counts(const al_curves *c, unsigned long *curves,
 }
 
 void
-al_curves_number(double v, char decimal_point, char *buf, size_t cap)
+al_curves_number(double v, int decimals, char decimal_point, char *buf,
+		 size_t cap)
 {
-	for (int sig = 15; sig <= 17; sig++) {
+	if (decimals >= 0)
+		snprintf(buf, cap, "%.*f", decimals, v);
+	for (int sig = 15; decimals < 0 && sig <= 17; sig++) {
 		al_format_sig(v, sig, buf, cap);
 		if (strtod(buf, NULL) == v)
 			break;
@@ -321,8 +324,9 @@ finish_curve(al_curves *c)
 	}
 	al_curve_find(&curve, c->opt.mode, c->work, &e);
 	if (e.has_volume) {
-		al_curves_number(e.volume_ml, c->point, volume, sizeof volume);
-		al_curves_number(e.ph, c->point, ph, sizeof ph);
+		al_curves_number(e.volume_ml, c->opt.decimals, c->point, volume,
+				 sizeof volume);
+		al_curves_number(e.ph, c->opt.decimals, c->point, ph, sizeof ph);
 	} else
 		c->no_volume++;
 	c->curves++;

@@ -28,6 +28,8 @@ typedef struct al_curves_options {
 	int has_endpoint_ph;
 	double endpoint_ph; /* for rows without endpoint_ph; else 8.1 */
 	char decimal_point; /* of the file's numbers: '.' when 0, or ',' */
+	int decimals;       /* of the volume and pH written; -1: every digit
+			       (the assay's own reading uses -1) */
 	const al_column_alias *aliases; /* other headers for our columns (and
 					   the assay's): a mapped header is
 					   handed on as our column's name */
@@ -63,8 +65,10 @@ void al_curves_counts(const al_curves *c, unsigned long *curves,
 		      unsigned long *flagged, unsigned long *no_volume);
 void al_curves_free(al_curves *c);
 
-/* The shortest decimal text that reads back as v (at most 17
- * significant digits, never an exponent), with decimal_point. */
-void al_curves_number(double v, char decimal_point, char *buf, size_t cap);
+/* v with fixed decimals (when >= 0), or else the shortest decimal text
+ * that reads back as v (at most 17 significant digits, never an
+ * exponent), with decimal_point. */
+void al_curves_number(double v, int decimals, char decimal_point, char *buf,
+		      size_t cap);
 
 #endif

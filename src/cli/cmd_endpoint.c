@@ -30,6 +30,9 @@ usage(FILE *out)
 	      "      --endpoint-ph PH  for curves without endpoint_ph (default\n"
 	      "                       8.1; OIV wine and IFU on request: 7.0)\n"
 	      "      --plots DIR      one SVG picture per curve into DIR\n"
+	      "      --decimals N     fixed decimals of the volume and pH\n"
+	      "                       written (default: every digit, the\n"
+	      "                       shortest text that reads back exactly)\n"
 	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
 	      "                       column NAME (repeatable); the rows\n"
 	      "                       written name it NAME\n"
@@ -59,14 +62,14 @@ usage(FILE *out)
 }
 
 enum { OPT_MODE = CLI_OPT, OPT_ENDPOINT, OPT_PLOTS, OPT_DELIMITER,
-       OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS };
+       OPT_DECIMAL_COMMA, OPT_COLUMN, OPT_COLUMNS, OPT_DECIMALS };
 
 static const char *const options[] = {
 	"mode", "endpoint-ph", "plots", "delimiter", "decimal-comma!",
-	"column", "columns", "output=o",
+	"column", "columns", "decimals", "output=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_COLUMNS - CLI_OPT + 2,
+		       OPT_DECIMALS - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 #define MAX_COLUMNS 32
@@ -77,6 +80,7 @@ struct job {
 	size_t n_column_opts;
 	cli_column_map columns;
 	al_curves_options copt;
+	double decimals;
 	al_csv_options csv;
 	int table, format_given;
 	int argc;
@@ -108,6 +112,9 @@ one_option(void *ctx, int c, char *text)
 		{OPT_ENDPOINT, "--endpoint-ph", 0, 14, 0,
 		 "--endpoint-ph takes a pH from 0 to 14", &j->copt.endpoint_ph,
 		 &j->copt.has_endpoint_ph},
+		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
+		 "--decimals takes a whole number from 0 to 15", &j->decimals,
+		 NULL},
 	};
 
 	if (c == OPT_MODE) {
@@ -135,7 +142,7 @@ one_option(void *ctx, int c, char *text)
 					 known_column, j->column_opts,
 					 &j->n_column_opts, MAX_COLUMNS);
 	return cli_text_option(t, 3, c, text) ||
-	       cli_range_option("endpoint", r, 1, c, text);
+	       cli_range_option("endpoint", r, 2, c, text);
 }
 
 /* One row handed on by the reader: the header (once for every file: each
@@ -299,6 +306,7 @@ cmd_endpoint(int argc, char **argv)
 	j.argc = argc;
 	j.argv = argv;
 	j.copt.on_row = put_row;
+	j.decimals = -1;
 	j.copt.ud = &j;
 	done = cli_options_done(cli_options("endpoint", argc, argv, options,
 					    sizeof options / sizeof options[0],
@@ -307,6 +315,7 @@ cmd_endpoint(int argc, char **argv)
 		return done;
 	if (optind >= argc)
 		return cli_usage_error("endpoint", "no curve file given");
+	j.copt.decimals = (int)j.decimals;
 	if (cli_check_decimal_comma("endpoint", &j.csv) != 0)
 		return EXIT_TROUBLE;
 	if (!files_safe(&j) ||
