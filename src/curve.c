@@ -243,8 +243,13 @@ gran(const al_curve *c, double *scratch, al_curve_endpoint *out)
 		out->flags |= AL_CURVE_GRAN_FEW;
 		return;
 	}
-	out->has_volume = 1;
 	out->volume_ml = -out->gran_a / out->gran_b;
+	/* an extrapolation outside the curve is no endpoint of it */
+	if (!(out->volume_ml >= c->ml[0] && out->volume_ml <= c->ml[c->n - 1])) {
+		out->flags |= AL_CURVE_GRAN_OUTSIDE;
+		return;
+	}
+	out->has_volume = 1;
 }
 
 void
@@ -290,7 +295,7 @@ al_curve_find(const al_curve *c, al_curve_mode mode, double *work,
 static const char *const flag_names[] = {
 	"sparse-near-endpoint", "endpoint-not-reached", "ph-falls", "noisy",
 	"starts-above-endpoint", "too-few-readings", "gran-too-few-readings",
-	"gran-needs-volume",
+	"gran-needs-volume", "gran-outside-readings",
 };
 
 void

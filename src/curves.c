@@ -392,12 +392,13 @@ begin_curve(al_curves *c, const al_csv_row *row, const char *id, size_t len)
 		c->id_lines = lines;
 		c->ids_cap = cap;
 	}
-	if ((c->ids[c->n_ids] = al_strndup(id, len)) == NULL ||
-	    (c->id = al_strndup(id, len)) == NULL ||
-	    (c->cells = al_calloc(c->n_carried + 1, sizeof *c->cells)) == NULL)
+	if ((c->ids[c->n_ids] = al_strndup(id, len)) == NULL)
 		return AL_ENOMEM;
 	c->id_lines[c->n_ids++] = row->line;
 	*slot = (uint32_t)c->n_ids;
+	if ((c->id = al_strndup(id, len)) == NULL ||
+	    (c->cells = al_calloc(c->n_carried + 1, sizeof *c->cells)) == NULL)
+		return AL_ENOMEM;
 	for (size_t k = 0; k < c->n_carried; k++)
 		if ((c->cells[k] = cell_copy(row, c->carried[k])) == NULL)
 			return AL_ENOMEM;

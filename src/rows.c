@@ -579,7 +579,7 @@ read_curve(al_rows *rs, const al_csv_row *row, al_row *r)
 		{"noisy", AL_FLAG_CURVE_NOISY},
 		{"endpoint-not-reached", 0}, {"starts-above-endpoint", 0},
 		{"too-few-readings", 0}, {"gran-too-few-readings", 0},
-		{"gran-needs-volume", 0},
+		{"gran-needs-volume", 0}, {"gran-outside-readings", 0},
 	};
 	size_t len;
 	const char *s = al_cell(row, rs->col[AL_C_CURVE_FLAGS], &len);

@@ -32,6 +32,9 @@ enum {
 					   curve's end; no volume */
 	AL_CURVE_GRAN_NO_V0 = 1u << 7,  /* gran-needs-volume: the volume
 					   before titration is unknown */
+	AL_CURVE_GRAN_OUTSIDE = 1u << 8, /* gran-outside-readings: the line
+					    meets zero outside the curve's
+					    volumes; no volume */
 };
 
 /* The thresholds the flags use (the curve issue's own figures). */

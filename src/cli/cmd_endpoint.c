@@ -53,7 +53,7 @@ usage(FILE *out)
 	      "endpoint), endpoint_ph, mode, readings, curve_flags\n"
 	      "(sparse-near-endpoint, endpoint-not-reached, ph-falls, noisy,\n"
 	      "starts-above-endpoint, too-few-readings, gran-too-few-readings,\n"
-	      "gran-needs-volume).\n"
+	      "gran-needs-volume, gran-outside-readings).\n"
 	      "\n"
 	      "Exit status: 0 every curve has an endpoint and no flag; 1 a\n"
 	      "curve is flagged or has no endpoint; 2 usage, input or I/O\n"
@@ -296,6 +296,23 @@ to_file(struct job *j)
 	return 0;
 }
 
+/* The curves read and their rows written (with pictures when asked):
+ * 0, or -1 after a message. */
+static int
+run(struct job *j)
+{
+	j->copt.aliases = j->columns.all;
+	j->copt.n_aliases = j->columns.n;
+	if (j->plots)
+		j->copt.on_curve = on_curve;
+	if (j->output)
+		return to_file(j);
+	return cli_put_table(cli_is_terminal(), read_files, j) == 0 &&
+			       plot_commit(&j->plots_made) == 0
+		       ? 0
+		       : -1;
+}
+
 int
 cmd_endpoint(int argc, char **argv)
 {
@@ -318,23 +335,13 @@ cmd_endpoint(int argc, char **argv)
 	j.copt.decimals = (int)j.decimals;
 	if (cli_check_decimal_comma("endpoint", &j.csv) != 0)
 		return EXIT_TROUBLE;
-	if (!files_safe(&j) ||
+	if (files_safe(&j) &&
 	    cli_column_map_load(&j.columns, "endpoint", "--column",
-				j.columns_file, known_column,
-				j.column_opts, j.n_column_opts) != 0) {
-		cli_column_map_free(&j.columns);
-		return EXIT_TROUBLE;
-	}
-	j.copt.aliases = j.columns.all;
-	j.copt.n_aliases = j.columns.n;
-	if (j.plots) {
-		if (plot_begin(&j.plots_made, j.plots, j.copt.mode) != 0)
-			return EXIT_TROUBLE;
-		j.copt.on_curve = on_curve;
-	}
-	if (j.output ? to_file(&j) == 0
-		     : cli_put_table(cli_is_terminal(), read_files, &j) == 0 &&
-			       plot_commit(&j.plots_made) == 0) {
+				j.columns_file, known_column, j.column_opts,
+				j.n_column_opts) == 0 &&
+	    (j.plots == NULL ||
+	     plot_begin(&j.plots_made, j.plots, j.copt.mode) == 0) &&
+	    run(&j) == 0) {
 		rc = j.flagged || j.no_volume ? EXIT_NOT_PASS : 0;
 		fprintf(stderr,
 			PROG ": %lu curve%s: %lu with an endpoint, %lu "

@@ -91,7 +91,7 @@ plot_begin(plot_set *p, const char *dir, al_curve_mode mode)
 		rmdir(tmp);
 		al_free(p->dir);
 		al_free(p->tmp);
-		p->tmp = NULL;
+		p->dir = p->tmp = NULL;
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		return -1;
 	}

@@ -100,6 +100,8 @@ scenario rejects assay "$messy" --rejects rej.csv -o out.csv --delimiter auto \
 rm -f "$work/../keep-$$.csv"
 scenario endpoint endpoint "$samples/curves.csv" -o ep.csv --plots pics \
 	--mode gran
+scenario curves assay "$samples/curves.csv" --spec "$samples/specs.csv" \
+	--rejects rej.csv -o out.csv -r reps.csv --endpoint-mode inflection
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
 scenario recovery recovery --ta 4.8 --unit g/100g --acid citric --start-kg 1000 \
