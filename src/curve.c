@@ -26,7 +26,6 @@
  * or more. It assumes activity coefficients of 1, pKw 14.0 (25 C), and
  * that the acid's anion adds no hydroxide of its own there. */
 #include "acidlot/curve.h"
-#include "acidlot/table.h"
 
 #include <gsl/gsl_fit.h>
 #include <gsl/gsl_sort.h>
@@ -310,20 +309,4 @@ al_curve_flags_format(unsigned flags, char *buf, size_t cap)
 					      n ? ";" : "", flag_names[k]);
 }
 
-static const char *const mode_names[] = {"fixed", "inflection", "gran"};
-
-const char *
-al_curve_mode_name(al_curve_mode mode)
-{
-	return mode_names[mode];
-}
-
-int
-al_curve_mode_parse(const char *name, al_curve_mode *mode)
-{
-	int k = al_name_index(mode_names, 3, name);
-
-	if (k >= 0)
-		*mode = (al_curve_mode)k;
-	return k < 0 ? -1 : 0;
-}
+const char *const al_curve_mode_names[3] = {"fixed", "inflection", "gran"};

@@ -336,7 +336,7 @@ finish_curve(al_curves *c)
 	more[0] = c->id;
 	more[1] = volume;
 	more[2] = ph;
-	more[3] = al_curve_mode_name(c->opt.mode);
+	more[3] = al_curve_mode_names[c->opt.mode];
 	more[4] = readings;
 	more[5] = flags;
 	if (c->opt.on_curve)

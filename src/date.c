@@ -5,7 +5,6 @@
  * of the era starting in March so that the leap day falls last (the
  * usual civil-calendar arithmetic, e.g. in the C++ <chrono> proposals). */
 #include "acidlot/date.h"
-#include "acidlot/table.h"
 
 #include <string.h>
 
@@ -74,24 +73,8 @@ civil_day(unsigned y, unsigned m, unsigned d, long *days)
 	return 0;
 }
 
-static const char *const order_names[] = {"YYYY-MM-DD", "DD.MM.YYYY",
-					  "DD/MM/YYYY", "MM/DD/YYYY"};
-
-const char *
-al_date_order_name(al_date_order o)
-{
-	return order_names[o];
-}
-
-int
-al_date_order_parse(const char *name, al_date_order *o)
-{
-	int i = al_name_index(order_names, 4, name);
-
-	if (i >= 0)
-		*o = (al_date_order)i;
-	return i < 0 ? -1 : 0;
-}
+const char *const al_date_order_names[4] = {"YYYY-MM-DD", "DD.MM.YYYY",
+					   "DD/MM/YYYY", "MM/DD/YYYY"};
 
 int
 al_date_parse_as(const char *s, size_t len, al_date_order o, long *days)
@@ -99,7 +82,7 @@ al_date_parse_as(const char *s, size_t len, al_date_order o, long *days)
 	/* where the year, month and day stand in the order's 10 bytes */
 	static const unsigned at[4][3] = {{0, 5, 8}, {6, 3, 0}, {6, 3, 0},
 					  {6, 0, 3}};
-	const char *f = order_names[o];
+	const char *f = al_date_order_names[o];
 	unsigned y, m, d;
 
 	if (len != 10)

@@ -296,7 +296,7 @@ row_date(al_rows *rs, const al_csv_row *row, unsigned long line,
 		AL_ROW_ERR(rs, line, "date",
 			"'%.*s' is not a calendar date %s%s",
 			(int)(dl > 40 ? 40 : dl), text,
-			al_date_order_name(rs->opt->date_order),
+			al_date_order_names[rs->opt->date_order],
 			rs->opt->date_order == AL_DATE_ISO
 				? " (another order: --date-format)"
 				: "");

@@ -84,8 +84,7 @@ void al_curve_smooth(const al_curve *c, double *smooth, double *slope,
 
 /* The flags as ';'-separated names ("" when none). */
 void al_curve_flags_format(unsigned flags, char *buf, size_t cap);
-/* The mode's name, and a name back to a mode (0, or -1 when unknown). */
-const char *al_curve_mode_name(al_curve_mode mode);
-int al_curve_mode_parse(const char *name, al_curve_mode *mode);
+/* Each mode's name, in the enum's order. */
+extern const char *const al_curve_mode_names[3];
 
 #endif

@@ -17,10 +17,8 @@ typedef enum al_date_order {
 	AL_DATE_MDY_SLASH  /* MM/DD/YYYY */
 } al_date_order;
 
-/* The order's name, e.g. "DD.MM.YYYY"; al_date_order_parse reads one
- * back (0, or -1 for an unknown name). */
-const char *al_date_order_name(al_date_order o);
-int al_date_order_parse(const char *name, al_date_order *o);
+/* Each order's name, e.g. "DD.MM.YYYY", in the enum's order. */
+extern const char *const al_date_order_names[4];
 
 /* al_date_parse of a date written in order o. */
 int al_date_parse_as(const char *s, size_t len, al_date_order o, long *days);

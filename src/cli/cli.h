@@ -88,9 +88,11 @@ int cli_column_map_load(cli_column_map *m, const char *cmd,
 			const al_column_alias *opts, size_t n_opts);
 void cli_column_map_free(cli_column_map *m);
 
-/* An option that takes one of two words (first, second): 0 or 1 for
- * the one given, or -1 after a usage error "OPTION takes FIRST or
- * SECOND". */
+/* An option that takes one of n words: the index of the one given, or
+ * -1 after a usage error "OPTION takes A, B or C". */
+int cli_pick(const char *cmd, const char *option, const char *text,
+	     const char *const *names, size_t n);
+/* The same for two words (first, second): 0 or 1. */
 int cli_choice(const char *cmd, const char *option, const char *text,
 	       const char *first, const char *second);
 

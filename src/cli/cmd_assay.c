@@ -305,19 +305,16 @@ word_option(struct args *a, int c, const char *text)
 	case OPT_DECISION:
 		return decision_option(a, text);
 	case OPT_DATE_FORMAT:
-		if (al_date_order_parse(text, &a->aopt.date_order) != 0)
-			return cli_usage_error("assay",
-					       "--date-format takes YYYY-MM-DD, "
-					       "DD.MM.YYYY, DD/MM/YYYY or "
-					       "MM/DD/YYYY"),
-			       -1;
+		if ((pick = cli_pick("assay", "--date-format", text,
+				     al_date_order_names, 4)) < 0)
+			return -1;
+		a->aopt.date_order = (al_date_order)pick;
 		return 1;
 	case OPT_ENDPOINT_MODE:
-		if (al_curve_mode_parse(text, &a->aopt.endpoint_mode) != 0)
-			return cli_usage_error("assay", "--endpoint-mode takes "
-							"fixed, inflection or "
-							"gran"),
-			       -1;
+		if ((pick = cli_pick("assay", "--endpoint-mode", text,
+				     al_curve_mode_names, 3)) < 0)
+			return -1;
+		a->aopt.endpoint_mode = (al_curve_mode)pick;
 		return 1;
 	case OPT_ROUND:
 		if ((pick = cli_choice("assay", "--round", text, "u", "none")) < 0)

@@ -118,11 +118,11 @@ one_option(void *ctx, int c, char *text)
 	};
 
 	if (c == OPT_MODE) {
-		if (al_curve_mode_parse(text, &j->copt.mode) != 0)
-			return cli_usage_error("endpoint", "--mode takes fixed, "
-							   "inflection or gran"),
-			       -1;
-		return 1;
+		int pick = cli_pick("endpoint", "--mode", text,
+				    al_curve_mode_names, 3);
+
+		j->copt.mode = (al_curve_mode)(pick < 0 ? 0 : pick);
+		return pick < 0 ? -1 : 1;
 	}
 	if (c == OPT_DECIMAL_COMMA) {
 		j->csv.decimal_point = ',';

@@ -231,16 +231,30 @@ cli_range_option(const char *cmd, const cli_range *t, size_t n, int c,
 }
 
 int
+cli_pick(const char *cmd, const char *option, const char *text,
+	 const char *const *names, size_t n)
+{
+	char list[256];
+	size_t len = 0;
+	int k = al_name_index(names, n, text);
+
+	if (k >= 0)
+		return k;
+	list[0] = '\0';
+	for (size_t i = 0; i < n && len < sizeof list; i++)
+		len += (size_t)snprintf(list + len, sizeof list - len, "%s%s",
+					i == 0 ? "" : i + 1 < n ? ", " : " or ",
+					names[i]);
+	return cli_usage_error(cmd, "%s takes %s", option, list), -1;
+}
+
+int
 cli_choice(const char *cmd, const char *option, const char *text,
 	   const char *first, const char *second)
 {
-	if (strcmp(text, first) == 0)
-		return 0;
-	if (strcmp(text, second) == 0)
-		return 1;
-	return cli_usage_error(cmd, "%s takes %s or %s", option, first,
-			       second),
-	       -1;
+	const char *const names[2] = {first, second};
+
+	return cli_pick(cmd, option, text, names, 2);
 }
 
 int

@@ -270,7 +270,7 @@ draw(FILE *out, const plot_set *p, const char *id, const al_curve *c,
 		W, H, W, H, W, H);
 	fputs("<text x='64' y='28' font-size='15'>curve ", out);
 	put_xml(out, id);
-	fprintf(out, " (%s)</text>\n", al_curve_mode_name(p->mode));
+	fprintf(out, " (%s)</text>\n", al_curve_mode_names[p->mode]);
 	axes(out, &f, p->mode == AL_CURVE_INFLECTION ? "slope, pH/mL"
 		      : p->mode == AL_CURVE_GRAN      ? "Gran function"
 						      : NULL);
