@@ -62,7 +62,18 @@ demo: build
 	[ $$rc -le 1 ]
 	@echo
 	@echo "== 3. nothing changed since: acidlot verify $(BUILD)/demo-report.csv.record.json"
-	@$(BUILD)/acidlot verify $(BUILD)/demo-report.csv.record.json
+	@$(BUILD)/acidlot verify --format table $(BUILD)/demo-report.csv.record.json
+	@echo
+	@echo "== 4. endpoints from pH curves: acidlot endpoint samples/curves.csv -o $(BUILD)/demo-endpoints.csv --plots $(BUILD)/demo-curves"
+	@rm -rf $(BUILD)/demo-curves
+	@$(BUILD)/acidlot endpoint samples/curves.csv -o $(BUILD)/demo-endpoints.csv \
+	  --plots $(BUILD)/demo-curves; \
+	rc=$$?; echo "pictures: $(BUILD)/demo-curves/*.svg"; \
+	echo "exit status $$rc (1: curve AP-0952-1 stops before pH 8.1, as the demo intends)"; \
+	[ $$rc -le 1 ]
+	@$(BUILD)/acidlot assay samples/curves.csv --spec samples/specs.csv \
+	  --rejects $(BUILD)/demo-curves-rejected.csv --format table; \
+	rc=$$?; echo "exit status $$rc (1: lot AP-0952 needs a retest)"; [ $$rc -le 1 ]
 
 test: build
 	cd $(BUILD) && ctest --output-on-failure -j$(JOBS)
