@@ -11,142 +11,16 @@
 
 #include "assay_cli.h"
 
-static void usage_rest(FILE *out);
-
-static void
-usage(FILE *out)
-{
-	fputs("Usage: " PROG " assay [OPTION]... FILE...\n"
-	      "Titratable acidity of every titration row, replicate statistics\n"
-	      "per product + lot + sample, and the verdict against the\n"
-	      "specification. FILE '-' reads standard input.\n"
-	      "\n"
-	      "  -s, --spec FILE         specification limits per product (CSV)\n"
-	      "  -o, --output FILE       QC report; default standard output\n"
-	      "  -r, --replicates FILE   one row per titration used (CSV)\n"
-	      "      --rejects FILE      keep going past invalid rows: write each\n"
-	      "                          to FILE with its line and reason, and\n"
-	      "                          judge the rest (default: any invalid row\n"
-	      "                          stops the run, no report)\n"
-	      "      --acid NAME         acid to express results as when neither\n"
-	      "                          the specification nor the row names one\n"
-	      "                          (default citric; see '" PROG " acids')\n"
-	      "      --unit UNIT         unit when the specification names none:\n"
-	      "                          g/100g g/kg g/100mL g/L meq/100g meq/L\n"
-	      "                          (default g/100g for samples by mass,\n"
-	      "                          g/100mL for samples by volume)\n"
-	      "      --blank-ml V        blank, mL, for rows without blank_ml\n"
-	      "                          (default 0)\n"
-	      "      --titrant-mol-l C   titrant concentration for rows without\n"
-	      "                          titrant_mol_l\n"
-	      "      --density-g-ml D    sample density for rows without\n"
-	      "                          density_g_ml\n"
-	      "      --endpoint-ph PH    endpoint pH for rows without endpoint_ph\n"
-	      "      --endpoint-mode M   for a file of pH curves (columns curve,\n"
-	      "                          titrant_ml, ph: see '" PROG " endpoint'):\n"
-	      "                          fixed (default), inflection or gran\n"
-	      "      --titrants FILE     titrant register (from '" PROG " standardize'):\n"
-	      "                          a row's titrant_lot gives its titrant\n"
-	      "                          concentration, valid on the row's date\n"
-	      "      --record FILE       record of the run (default\n"
-	      "                          REPORT.record.json with -o)\n"
-	      "      --analyst NAME      who ran it, for the record\n"
-	      "\n",
-	      out);
-	usage_rest(out);
-}
-
-/* The options of the decision, reading and writing; columns; exits. */
-static void
-usage_rest(FILE *out)
-{
-	fputs("Replicate QC and decision:\n"
-	      "      --decision RULE     simple (default: the mean against the\n"
-	      "                          limits) or guarded[:R] (guard band\n"
-	      "                          w = R x U, R default 1; ILAC G8)\n"
-	      "      --exclude-outliers  leave a 1 % Grubbs outlier out of the\n"
-	      "                          result (flagged, kept in --replicates);\n"
-	      "                          never at n = 3\n"
-	      "      --resolution-ml X   burette reading resolution (default\n"
-	      "                          0.05; spec column resolution_ml): a\n"
-	      "                          replicate within it of another is\n"
-	      "                          never an outlier\n"
-	      "      --budget FILE       uncertainty budget of every result (CSV)\n"
-	      "      --titrant-u U       standard uncertainty of the titrant\n"
-	      "                          concentration, mol/L, for rows whose lot\n"
-	      "                          is not in --titrants\n"
-	      "      --burette-tol-ml X  burette tolerance, +/- mL (default 0.05)\n"
-	      "      --balance-linearity-g X  balance linearity, +/- g (default\n"
-	      "                          0.00015)\n"
-	      "      --k K               coverage factor (default 2)\n"
-	      "      --basis B           as-is (default) or anhydrous (needs\n"
-	      "                          water_pct) when the specification names\n"
-	      "                          no basis\n"
-	      "      --water-u-pct U     standard uncertainty of water_pct, %\n"
-	      "                          w/w, in an anhydrous result's u\n"
-	      "                          (default 0.1)\n"
-	      "\n"
-	      "Reading:\n"
-	      "      --delimiter D       ',' (default), ';', tab, or auto (told\n"
-	      "                          from the header; ambiguous is an error)\n"
-	      "      --decimal-comma     numbers are written 12,5 (needs a\n"
-	      "                          delimiter other than ',')\n"
-	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
-	      "                          column NAME (repeatable), e.g.\n"
-	      "                          --column titrant_ml=\"Vol (mL)\"\n"
-	      "      --columns FILE      such pairs from a CSV with the columns\n"
-	      "                          name,header\n"
-	      "      --spec-column NAME=HEADER  the same for the specification\n"
-	      "                          file (repeatable)\n"
-	      "      --spec-columns FILE  --spec-column pairs from a CSV\n"
-	      "                          name,header\n"
-	      "      --date-format F     how the date column is written:\n"
-	      "                          YYYY-MM-DD (default), DD.MM.YYYY,\n"
-	      "                          DD/MM/YYYY or MM/DD/YYYY (never guessed)\n"
-	      "\n"
-	      "Writing:\n"
-	      "      --format F          table (aligned, one line per result,\n"
-	      "                          each rounded to its U, GUM 7.2.6) or\n"
-	      "                          csv; default table on a terminal\n"
-	      "                          without -o, csv into a file or pipe\n"
-	      "      --round u           in the report, U to two significant\n"
-	      "                          digits and the figures in the result's\n"
-	      "                          unit (mean, sd, interval, median,\n"
-	      "                          range, u) to the same decimal place\n"
-	      "                          (GUM 7.2.6); default none: every digit\n"
-	      "      --decimals N        fixed decimals in every output\n"
-	      "                          (default: 10 significant digits); with\n"
-	      "                          --round u, for the other figures\n"
-	      "      --sheet-style S     plain (default: UTF-8, ',', '.') or eu\n"
-	      "                          (byte-order mark, ';', decimal comma)\n"
-	      "      --bom               start each output with a UTF-8 BOM\n"
-	      "      --raw-text          copy text cells exactly; by default a\n"
-	      "                          cell starting with = + - @ tab or CR\n"
-	      "                          gets a leading ' so a spreadsheet does\n"
-	      "                          not run it as a formula\n"
-	      "  -h, --help              this help\n"
-	      "\n"
-	      "Input columns (the header names them; --column maps others):\n"
-	      "  required  sample, titrant_ml, mass_g or volume_ml, and\n"
-	      "            titrant_mol_l (or --titrant-mol-l, or titrant_lot\n"
-	      "            with --titrants)\n"
-	      "  optional  product, lot, replicate, blank_ml, made_up_ml with\n"
-	      "            aliquot_ml, acid, density_g_ml, endpoint_ph,\n"
-	      "            titrant_lot, date, brix, water_pct\n"
-	      "\n"
-	      "Exit status: 0 every result pass (or, without --spec, none\n"
-	      "judged); 1 at least one fail, retest, conditional or, with\n"
-	      "--spec, no-spec or without replicates; 2 usage, input or I/O\n"
-	      "error (no report written).\n",
-	      out);
-}
-
+/* A replicate into the replicates file and the store, as asked. */
 static al_status
-write_replicate(void *ud, const al_replicate *rep)
+take_replicate(void *ud, const al_replicate *rep)
 {
-	struct sink *sink = ud;
+	struct job *j = ud;
 
-	return al_replicates_row(sink->out, rep, sink->ropt);
+	if (j->rep_out &&
+	    al_replicates_row(j->reps.out, rep, j->reps.ropt) != AL_OK)
+		return AL_EIO;
+	return j->store ? assay_store_replicate(j, rep) : AL_OK;
 }
 
 static al_status
@@ -167,7 +41,8 @@ enum {
 	OPT_RAW_TEXT, OPT_TITRANTS, OPT_RECORD, OPT_ANALYST, OPT_DECISION,
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
-	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND, OPT_ENDPOINT_MODE
+	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND, OPT_ENDPOINT_MODE,
+	OPT_STORE, OPT_RERUN
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -178,10 +53,10 @@ static const char *const options[] = {
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
 	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
-	"spec-columns", "round", "endpoint-mode", "spec=s", "output=o", "replicates=r",
+	"spec-columns", "round", "endpoint-mode", "store", "rerun", "spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_ENDPOINT_MODE - CLI_OPT + 4,
+		       OPT_RERUN - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -239,6 +114,7 @@ text_option(struct args *a, int c)
 		{OPT_RECORD, &a->record},    {OPT_ANALYST, &a->analyst},
 		{OPT_BUDGET, &a->budget},
 		{OPT_SPEC_COLUMNS, &a->spec_columns_file},
+		{OPT_STORE, &a->store},		{OPT_RERUN, &a->rerun},
 	};
 
 	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
@@ -370,7 +246,7 @@ static int
 parse_args(int argc, char **argv, struct args *a)
 {
 	int got = cli_options("assay", argc, argv, options,
-			      sizeof options / sizeof options[0], usage,
+			      sizeof options / sizeof options[0], assay_usage,
 			      one_option, a);
 
 	if (got != 0)
@@ -394,7 +270,7 @@ parse_args(int argc, char **argv, struct args *a)
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((9 + (size_t)argc) * sizeof *f);
+	cli_file *f = al_malloc((10 + (size_t)argc) * sizeof *f);
 	size_t n = 0;
 	char record[4096];
 	int file_report = a->output && strcmp(a->output, "-") != 0, ok;
@@ -415,6 +291,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	f[n++] = (cli_file){"--spec", a->spec, 0};
 	f[n++] = (cli_file){"--columns", a->columns_file, 0};
 	f[n++] = (cli_file){"--spec-columns", a->spec_columns_file, 0};
+	f[n++] = (cli_file){"--store", a->store, 1};
 	f[n++] = (cli_file){"--titrants", a->titrants, 0};
 	for (int i = optind; i < argc; i++)
 		f[n++] = (cli_file){"input", argv[i], 0};
@@ -582,14 +459,17 @@ read_one(struct job *j, const char *name)
 	hashing_reader_init(&h, in);
 	st = al_assay_read_source(j->run, hashing_read, &h,
 				  is_stdin ? "<stdin>" : name,
-				  j->rep_out ? write_replicate : NULL, &j->reps);
+				  j->rep_out || j->a.store ? take_replicate
+							   : NULL,
+				  j);
 	if (!is_stdin)
 		fclose(in);
 	hashing_reader_hex(&h, hex);
 	j->in_bytes += h.bytes;
 	rows = al_assay_get_counts(j->run).rows_read - before;
 	if (record_input(&j->rec, "titrations", name, h.bytes, (long)rows,
-			 hex) != 0)
+			 hex) != 0 ||
+	    assay_store_input(j, name, hex) != 0)
 		return failed(NULL, AL_ENOMEM);
 	if (st == AL_EIO) {
 		cli_error("%s: read or write error", name);
@@ -678,11 +558,13 @@ write_report(struct job *j)
 {
 	struct args *a = &j->a;
 
-	if (finish_status(j, al_assay_finish_lazy(j->run)) != 0)
-		return -1;
-	/* the run's id, in every report row and in the record */
+	/* the run's id, in every report row, the record and the store */
 	if (record_seal(&j->rec) != 0)
 		return failed(NULL, AL_ENOMEM);
+	/* the store's transaction before the replicates go into it */
+	if (assay_store_begin(j) != 0 ||
+	    finish_status(j, al_assay_finish_lazy(j->run)) != 0)
+		return -1;
 	a->ropt.report_id = j->rec.id;
 	j->report = open_output(a->output ? a->output : "-", NULL, &a->ropt);
 	if (j->report == NULL)
@@ -706,7 +588,7 @@ write_report(struct job *j)
 /* Every output checked, then all of them put in place at once: a
  * failure leaves none. */
 static int
-commit_outputs(struct job *j)
+commit_outputs(struct job *j, int argc, char **argv)
 {
 	const struct args *a = &j->a;
 	int want_record = a->record || (a->output && strcmp(a->output, "-"));
@@ -727,6 +609,9 @@ commit_outputs(struct job *j)
 		return failed(a->rejects, AL_OK);
 	if (want_record && assay_write_record(j) != 0)
 		return -1;
+	/* the store first: if it fails, no output is replaced */
+	if (assay_store_finish(j, argc, argv) != 0)
+		return -1;
 	return cli_commit_all(all, 5);
 }
 
@@ -740,6 +625,7 @@ job_free(struct job *j)
 		(void)file_hashes_finish(&j->hashes);
 	for (size_t i = 0; i < sizeof outs / sizeof outs[0]; i++)
 		al_outfile_abort(outs[i]);
+	assay_store_close(j);
 	al_assay_free(j->run);
 	al_spec_table_free(j->specs);
 	al_diags_clear(&j->spec_diags);
@@ -768,7 +654,7 @@ cmd_assay(int argc, char **argv)
 		if (outputs_safe(&j->a, argc, argv) &&
 		    set_up(j, argc, argv) == 0 && open_row_outputs(j) == 0 &&
 		    read_titrations(j, argc, argv) == 0 &&
-		    write_report(j) == 0 && commit_outputs(j) == 0)
+		    write_report(j) == 0 && commit_outputs(j, argc, argv) == 0)
 			rc = assay_conclude(j);
 		break;
 	}

@@ -8,11 +8,13 @@
 
 #include "cli.h"
 #include "record.h"
+#include "store.h"
 
 static void
 usage(FILE *out)
 {
 	fputs("Usage: " PROG " verify [--format F] RECORD.json...\n"
+	      "       " PROG " verify --store DB\n"
 	      "Re-hashes every input and output a run's record lists and says\n"
 	      "whether any changed since (SHA-256), and checks the report's\n"
 	      "rows against the record's results. A file's path is taken from\n"
@@ -20,6 +22,9 @@ usage(FILE *out)
 	      "\n"
 	      "  --format F   table (aligned columns) or csv; default table on\n"
 	      "               a terminal, csv into a file or pipe\n"
+	      "  --store DB   recompute the results store's hash chain:\n"
+	      "               \"N runs, M results, chain intact\", or the\n"
+	      "               first run whose data or hash no longer match\n"
 	      "  -h, --help   this help\n"
 	      "\n"
 	      "One line per file: record, check (ok, changed, missing,\n"
@@ -319,6 +324,8 @@ struct verify_run {
 	int argc;
 	char **argv;
 	int changed;
+	int table;	   /* -1 until --format or the terminal says */
+	const char *store; /* --store DB */
 };
 
 /* Every record's lines into out under one header; -1 at the first that
@@ -342,29 +349,69 @@ verify_all(void *ctx, FILE *out)
 static int
 one_option(void *ctx, int c, char *text)
 {
-	int pick = cli_choice("verify", "--format", text, "table", "csv");
+	struct verify_run *v = ctx;
+	int pick;
 
-	(void)c;
-	*(int *)ctx = pick == 0;
+	if (c == CLI_OPT + 1) {
+		v->store = text;
+		return 1;
+	}
+	pick = cli_choice("verify", "--format", text, "table", "csv");
+	v->table = pick == 0;
 	return pick < 0 ? -1 : 1;
+}
+
+/* The store's hash chain recomputed: 0 intact, 1 broken, 2 when it
+ * cannot be read (each said). */
+static int
+verify_store(const char *path)
+{
+	store *s = store_open(path, 0);
+	unsigned long runs = 0, results = 0;
+	char bad[128], why[256];
+	int rc;
+
+	if (s == NULL)
+		return EXIT_TROUBLE;
+	rc = store_verify(s, &runs, &results, bad, why, sizeof why);
+	store_close(s);
+	if (rc < 0)
+		return EXIT_TROUBLE;
+	if (rc > 0 && strcmp(bad, "the store") == 0)
+		printf("%s (the %lu runs' chain itself holds)\n", why, runs);
+	else if (rc > 0)
+		printf("run %s: %s (the %lu run%s before it check%s out)\n",
+		       bad, why, runs, runs == 1 ? "" : "s",
+		       runs == 1 ? "s" : "");
+	if (rc > 0) {
+		fprintf(stderr, PROG ": %s: the chain is broken\n", path);
+		return EXIT_NOT_PASS;
+	}
+	printf("%lu run%s, %lu result%s, chain intact\n", runs,
+	       runs == 1 ? "" : "s", results, results == 1 ? "" : "s");
+	return 0;
 }
 
 int
 cmd_verify(int argc, char **argv)
 {
-	static const char *const options[] = {"format"};
-	struct verify_run v = {argc, argv, 0};
-	int table = -1, done;
+	static const char *const options[] = {"format", "store"};
+	struct verify_run v = {argc, argv, 0, -1, NULL};
+	int done, rc = 0;
 
-	done = cli_options_done(cli_options("verify", argc, argv, options, 1,
-					    usage, one_option, &table));
+	done = cli_options_done(cli_options("verify", argc, argv, options, 2,
+					    usage, one_option, &v));
 	if (done >= 0)
 		return done;
+	if (optind >= argc && v.store == NULL)
+		return cli_usage_error("verify", "no record or --store given");
+	if (v.store && (rc = verify_store(v.store)) != 0)
+		return rc;
 	if (optind >= argc)
-		return cli_usage_error("verify", "no record given");
-	if (table < 0)
-		table = cli_is_terminal();
-	if (cli_put_table(table, verify_all, &v) != 0)
+		return fflush(stdout) == 0 ? 0 : EXIT_TROUBLE;
+	if (v.table < 0)
+		v.table = cli_is_terminal();
+	if (cli_put_table(v.table, verify_all, &v) != 0)
 		return EXIT_TROUBLE;
 	if (fflush(stdout) != 0 || ferror(stdout)) {
 		cli_error("standard output: %s", cli_reason(AL_OK));

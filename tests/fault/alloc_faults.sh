@@ -102,6 +102,20 @@ scenario endpoint endpoint "$samples/curves.csv" -o ep.csv --plots pics \
 	--mode gran
 scenario curves assay "$samples/curves.csv" --spec "$samples/specs.csv" \
 	--rejects rej.csv -o out.csv -r reps.csv --endpoint-mode inflection
+# a store outside the run folders, with one run in it (and the one of
+# the scenario's counting run): a failed run must leave it as it was
+db=$work/../store-$$.db
+"$bin" assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
+	--titrants "$reg" --store "$db" >/dev/null 2>&1
+scenario store assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
+	--titrants "$reg" --store "$db" --rerun "fault test" -o out.csv \
+	-r reps.csv
+if [ "$("$bin" verify --store "$db" 2>/dev/null)" != "2 runs, 32 results, chain intact" ]; then
+	echo "store: a failed run changed the store"
+	"$bin" verify --store "$db"
+	fails=$((fails + 1))
+fi
+rm -f "$db" "$db-wal" "$db-shm"
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
 scenario recovery recovery --ta 4.8 --unit g/100g --acid citric --start-kg 1000 \

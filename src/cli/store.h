@@ -1,0 +1,51 @@
+/* acidlot command line: the lab's results store, an append-only SQLite
+ * database whose runs are chained by SHA-256 (docs/store.md).
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_CLI_STORE_H
+#define ACIDLOT_CLI_STORE_H
+
+#include "acidlot/acidlot.h"
+
+typedef struct store store;
+
+/* The schema's version (PRAGMA user_version). */
+#define STORE_VERSION 1
+
+/* Opens the store at path (creating it on first use when create is 1);
+ * NULL after a message. Parallel runs wait for each other (busy
+ * timeout). */
+store *store_open(const char *path, int create);
+void store_close(store *s);
+
+/* A run's own fields (the runs table). */
+typedef struct store_run {
+	const char *run_id, *started_utc, *analyst, *os_user, *command;
+	const char *version, *reason; /* reason NULL unless a re-run */
+	const char *const *input_names, *const *input_sha256;
+	size_t n_inputs;
+} store_run;
+
+/* Begins a run's transaction (holding the store's write lock until
+ * store_commit or store_rollback); 0, or -1 after a message. */
+int store_begin(store *s);
+/* With the transaction begun: the earlier run that stored an input of
+ * this SHA-256, into run_id (cap bytes); 1 found, 0 none, -1 after a
+ * message. */
+int store_input_seen(store *s, const char *sha256, char *run_id, size_t cap);
+/* One replicate, then (after all of them) the results, then the run:
+ * each 0, or -1 after a message. */
+int store_add_replicate(store *s, const char *run_id, const al_replicate *rep);
+int store_add_results(store *s, const char *run_id, const al_assay *run,
+		      const char *report_id_prefix);
+int store_add_run(store *s, const store_run *r);
+/* The transaction committed (0) or, after any failure, rolled back. */
+int store_commit(store *s);
+void store_rollback(store *s);
+
+/* Recomputes the chain: 0 intact (with the counts), 1 broken (the run
+ * named in *first_bad, cap bytes, and why in *why), -1 after a
+ * message. */
+int store_verify(store *s, unsigned long *runs, unsigned long *results,
+		 char *first_bad, char *why, size_t cap);
+
+#endif
