@@ -9,6 +9,7 @@
 #define _XOPEN_SOURCE 700
 #include <nettle/sha2.h>
 #include <sqlite3.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -135,12 +136,14 @@ store_open(const char *path, int create)
 	}
 	s->path = path;
 	if (sqlite3_open_v2(path, &s->db,
-			    SQLITE_OPEN_READWRITE |
+			    SQLITE_OPEN_READWRITE | SQLITE_OPEN_NOMUTEX |
 				    (create ? SQLITE_OPEN_CREATE : 0),
 			    NULL) != SQLITE_OK ||
 	    sqlite3_busy_timeout(s->db, 600000) != SQLITE_OK ||
 	    exec(s, "PRAGMA journal_mode = WAL") != 0 ||
-	    exec(s, "PRAGMA synchronous = FULL") != 0 || create_schema(s) != 0) {
+	    exec(s, "PRAGMA synchronous = FULL") != 0 ||
+	    exec(s, "PRAGMA cache_size = -65536") != 0 ||
+	    create_schema(s) != 0) {
 		if (s->db && sqlite3_errcode(s->db) != SQLITE_OK)
 			fail(s, "open");
 		store_close(s);
@@ -311,8 +314,8 @@ store_add_results(store *s, const char *run_id, const al_assay *run,
 }
 
 /* Every row a query yields into the hash, each value tagged with its
- * type: N; I<integer>; R<%.17g>; T<bytes>:<text>; a row ends in '\n'.
- * 0, or -1 on a database error. */
+ * type: N; I<integer>; R<16 hex digits of the IEEE 754 bits>;
+ * T<bytes>:<text>; a row ends in '\n'. 0, or -1 on a database error. */
 static int
 hash_rows(struct sha256_ctx *h, sqlite3_stmt *st)
 {
@@ -332,10 +335,15 @@ hash_rows(struct sha256_ctx *h, sqlite3_stmt *st)
 				snprintf(v, sizeof v, "I%lld;",
 					 (long long)sqlite3_column_int64(st, c));
 				break;
-			case SQLITE_FLOAT:
-				snprintf(v, sizeof v, "R%.17g;",
-					 sqlite3_column_double(st, c));
+			case SQLITE_FLOAT: {
+				double d = sqlite3_column_double(st, c);
+				uint64_t bits;
+
+				memcpy(&bits, &d, sizeof bits);
+				snprintf(v, sizeof v, "R%016llx;",
+					 (unsigned long long)bits);
 				break;
+			}
 			default:
 				t = sqlite3_column_text(st, c);
 				len = sqlite3_column_bytes(st, c);
