@@ -27,6 +27,6 @@ check "template " "$acidlot" tem
 check "--spec --spec-column --spec-columns " "$acidlot" assay --sp
 check "--decimal-comma --decimals --decision --delimiter --density-g-ml " "$acidlot" assay --de
 check "--date-format " "$acidlot" assay --da
-check "--record --register --repeatability-rsd " "$acidlot" standardize --re
+check "--record --register --repeatability-rsd --rerun " "$acidlot" standardize --re
 [ $fail = 0 ] && echo "completion: commands and options as --help lists them"
 exit $fail

@@ -5,7 +5,7 @@
 
 #include "cli.h"
 #include "record.h"
-#include "store.h"
+#include "stored_run.h"
 
 #define MAX_COLUMN_OPTS 32
 
@@ -14,7 +14,7 @@ enum { FORMAT_AUTO, FORMAT_CSV, FORMAT_TABLE };
 /* The command's options. */
 struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
-	const char *store, *rerun; /* --store PATH, --rerun REASON */
+	const char *stored_path, *rerun; /* --store PATH, --rerun REASON */
 	const char *columns_file, *spec_columns_file, *titrants, *record, *analyst, *budget;
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
@@ -58,26 +58,8 @@ struct job {
 	const char *in_place_role[FILE_HASHES_MAX];
 	const char *in_place_path[FILE_HASHES_MAX];
 	size_t n_in_place;
-	/* --store: the titration inputs and their SHA-256, the store and
-	 * its open transaction */
-	struct stored_input {
-		const char *name;
-		char sha256[65];
-	} *inputs;
-	size_t n_inputs;
-	store *store;
-	int in_transaction;
+	stored_run stored; /* --store */
 };
-
-/* assay_store.c: --store. An input noted (0, or -1 when memory runs
- * out); the transaction begun, refusing an input stored before unless
- * --rerun; a replicate; the results and the run committed; each 0 or -1
- * after a message. */
-int assay_store_input(struct job *j, const char *name, const char *hex);
-int assay_store_begin(struct job *j);
-al_status assay_store_replicate(struct job *j, const al_replicate *rep);
-int assay_store_finish(struct job *j, int argc, char **argv);
-void assay_store_close(struct job *j);
 
 /* assay_help.c: the command's --help. */
 void assay_usage(FILE *out);

@@ -20,7 +20,10 @@ take_replicate(void *ud, const al_replicate *rep)
 	if (j->rep_out &&
 	    al_replicates_row(j->reps.out, rep, j->reps.ropt) != AL_OK)
 		return AL_EIO;
-	return j->store ? assay_store_replicate(j, rep) : AL_OK;
+	if (j->stored.store &&
+	    store_add_replicate(j->stored.store, j->rec.id, rep) != 0)
+		return AL_EIO;
+	return AL_OK;
 }
 
 static al_status
@@ -114,7 +117,7 @@ text_option(struct args *a, int c)
 		{OPT_RECORD, &a->record},    {OPT_ANALYST, &a->analyst},
 		{OPT_BUDGET, &a->budget},
 		{OPT_SPEC_COLUMNS, &a->spec_columns_file},
-		{OPT_STORE, &a->store},		{OPT_RERUN, &a->rerun},
+		{OPT_STORE, &a->stored_path},	{OPT_RERUN, &a->rerun},
 	};
 
 	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
@@ -291,7 +294,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	f[n++] = (cli_file){"--spec", a->spec, 0};
 	f[n++] = (cli_file){"--columns", a->columns_file, 0};
 	f[n++] = (cli_file){"--spec-columns", a->spec_columns_file, 0};
-	f[n++] = (cli_file){"--store", a->store, 1};
+	f[n++] = (cli_file){"--store", a->stored_path, 1};
 	f[n++] = (cli_file){"--titrants", a->titrants, 0};
 	for (int i = optind; i < argc; i++)
 		f[n++] = (cli_file){"input", argv[i], 0};
@@ -459,7 +462,7 @@ read_one(struct job *j, const char *name)
 	hashing_reader_init(&h, in);
 	st = al_assay_read_source(j->run, hashing_read, &h,
 				  is_stdin ? "<stdin>" : name,
-				  j->rep_out || j->a.store ? take_replicate
+				  j->rep_out || j->stored.path ? take_replicate
 							   : NULL,
 				  j);
 	if (!is_stdin)
@@ -469,7 +472,7 @@ read_one(struct job *j, const char *name)
 	rows = al_assay_get_counts(j->run).rows_read - before;
 	if (record_input(&j->rec, "titrations", name, h.bytes, (long)rows,
 			 hex) != 0 ||
-	    assay_store_input(j, name, hex) != 0)
+	    stored_run_input(&j->stored, name, hex) != 0)
 		return failed(NULL, AL_ENOMEM);
 	if (st == AL_EIO) {
 		cli_error("%s: read or write error", name);
@@ -562,7 +565,7 @@ write_report(struct job *j)
 	if (record_seal(&j->rec) != 0)
 		return failed(NULL, AL_ENOMEM);
 	/* the store's transaction before the replicates go into it */
-	if (assay_store_begin(j) != 0 ||
+	if (stored_run_begin(&j->stored) != 0 ||
 	    finish_status(j, al_assay_finish_lazy(j->run)) != 0)
 		return -1;
 	a->ropt.report_id = j->rec.id;
@@ -610,7 +613,11 @@ commit_outputs(struct job *j, int argc, char **argv)
 	if (want_record && assay_write_record(j) != 0)
 		return -1;
 	/* the store first: if it fails, no output is replaced */
-	if (assay_store_finish(j, argc, argv) != 0)
+	if (j->stored.store &&
+	    (store_add_results(j->stored.store, j->rec.id, j->run,
+			       j->rec.id) != 0 ||
+	     stored_run_commit(&j->stored, &j->rec, a->analyst, argc, argv) !=
+		     0))
 		return -1;
 	return cli_commit_all(all, 5);
 }
@@ -625,7 +632,7 @@ job_free(struct job *j)
 		(void)file_hashes_finish(&j->hashes);
 	for (size_t i = 0; i < sizeof outs / sizeof outs[0]; i++)
 		al_outfile_abort(outs[i]);
-	assay_store_close(j);
+	stored_run_close(&j->stored);
 	al_assay_free(j->run);
 	al_spec_table_free(j->specs);
 	al_diags_clear(&j->spec_diags);
@@ -651,6 +658,8 @@ cmd_assay(int argc, char **argv)
 		break;
 	case 0:
 		j->out_name = j->a.output ? j->a.output : "standard output";
+		j->stored.path = j->a.stored_path;
+		j->stored.rerun = j->a.rerun;
 		if (outputs_safe(&j->a, argc, argv) &&
 		    set_up(j, argc, argv) == 0 && open_row_outputs(j) == 0 &&
 		    read_titrations(j, argc, argv) == 0 &&

@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "record.h"
+#include "stored_run.h"
 
 static void
 usage(FILE *out)
@@ -56,6 +57,9 @@ usage(FILE *out)
 	      "      --column NAME=HEADER  read the file's column HEADER as our\n"
 	      "                          column NAME (repeatable)\n"
 	      "      --columns FILE      such pairs from a CSV name,header\n"
+	      "      --store DB          append the lots to the lab's results\n"
+	      "                          store (as assay --store)\n"
+	      "      --rerun REASON      store a file stored before, saying why\n"
 	      "      --format F          table (aligned columns) or csv; default\n"
 	      "                          table on a terminal, csv into a pipe\n"
 	      "      --delimiter D, --decimal-comma   as for assay\n"
@@ -71,7 +75,7 @@ enum {
 	OPT_BUDGET = CLI_OPT, OPT_RECORD, OPT_ANALYST, OPT_MAX_RSD, OPT_MIN_N,
 	OPT_VALID_DAYS, OPT_BALANCE, OPT_BURETTE, OPT_TEMP, OPT_K,
 	OPT_DELIMITER, OPT_DECIMAL_COMMA, OPT_REPEATABILITY, OPT_FORMAT,
-	OPT_COLUMN, OPT_DECIMALS, OPT_COLUMNS
+	OPT_COLUMN, OPT_DECIMALS, OPT_COLUMNS, OPT_STORE, OPT_RERUN
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -79,16 +83,17 @@ static const char *const options[] = {
 	"budget", "record", "analyst", "max-rsd", "min-n", "valid-days",
 	"balance-linearity-g", "burette-tol-ml", "temp-range-c", "k",
 	"delimiter", "decimal-comma!", "repeatability-rsd", "format",
-	"column", "decimals", "columns", "register=o",
+	"column", "decimals", "columns", "store", "rerun", "register=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_COLUMNS - CLI_OPT + 2,
+		       OPT_RERUN - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 #define MAX_COLUMNS 16
 
 struct args {
 	const char *reg, *budget, *record, *analyst, *columns_file;
+	const char *stored_path, *rerun; /* --store, --rerun */
 	al_column_alias columns[MAX_COLUMNS]; /* --column NAME=HEADER */
 	size_t n_columns;
 	int table; /* the lots as aligned columns (a terminal), not CSV */
@@ -147,6 +152,8 @@ other_option(struct args *a, int c)
 		{OPT_RECORD, &a->record},
 		{OPT_ANALYST, &a->analyst},
 		{OPT_COLUMNS, &a->columns_file},
+		{OPT_STORE, &a->stored_path},
+		{OPT_RERUN, &a->rerun},
 	};
 
 	if (cli_text_option(t, sizeof t / sizeof t[0], c, optarg))
@@ -239,7 +246,7 @@ listed(run_record *rec, const char *role, const char *path,
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((4 + (size_t)argc) * sizeof *f);
+	cli_file *f = al_malloc((5 + (size_t)argc) * sizeof *f);
 	size_t n = 0;
 	char record[4096];
 	int ok;
@@ -251,6 +258,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	f[n++] = (cli_file){"-o", a->reg, 1};
 	f[n++] = (cli_file){"--budget", a->budget, 1};
 	f[n++] = (cli_file){"--columns", a->columns_file, 0};
+	f[n++] = (cli_file){"--store", a->stored_path, 1};
 	if (a->record || a->reg) {
 		snprintf(record, sizeof record, "%s.record.json", a->reg);
 		f[n++] = (cli_file){a->record ? "--record" : "the record",
@@ -362,8 +370,8 @@ load_register(const char *path, al_status *st, int *existed)
  * record. 0; 1 when a file could not be read or had errors (said, or in
  * run's diagnostics); -1 when memory ran out (said). */
 static int
-read_inputs(al_std_run *run, run_record *rec, int argc, char **argv,
-	    const al_csv_options *csv)
+read_inputs(al_std_run *run, run_record *rec, stored_run *stored, int argc,
+	    char **argv, const al_csv_options *csv)
 {
 	int bad = 0;
 	al_status st;
@@ -391,7 +399,8 @@ read_inputs(al_std_run *run, run_record *rec, int argc, char **argv,
 			bad = 1;
 		hashing_reader_hex(&h, hex);
 		if (record_input(rec, "standardisation", argv[i], h.bytes, -1,
-				 hex) != 0) {
+				 hex) != 0 ||
+		    stored_run_input(stored, argv[i], hex) != 0) {
 			cli_error("%s", al_strerror(AL_ENOMEM));
 			return -1;
 		}
@@ -408,6 +417,7 @@ struct job {
 	al_std_run *run;
 	al_register *reg;
 	cli_column_map columns; /* --column, --columns */
+	stored_run stored;	/* --store */
 	al_outfile *reg_out, *budget_out, *rec_out;
 	int any_rejected;
 };
@@ -443,7 +453,7 @@ read_lots(struct job *j, int argc, char **argv)
 						     j->a.columns_file, -1)))
 		return -1;
 	al_std_set_columns(j->run, j->columns.all, j->columns.n);
-	bad = read_inputs(j->run, &j->rec, argc, argv, &j->a.csv);
+	bad = read_inputs(j->run, &j->rec, &j->stored, argc, argv, &j->a.csv);
 	if (bad < 0) /* out of memory, said */
 		return -1;
 	d = al_std_diags(j->run);
@@ -626,6 +636,32 @@ write_record(struct job *j)
 	return 0;
 }
 
+/* The lots into the store (--store), committed before the register and
+ * the budget are put in place: 0, or -1 after a message. */
+static int
+store_lots(struct job *j, int argc, char **argv)
+{
+	if (j->stored.path == NULL)
+		return 0;
+	/* the run's id, as the record has it (sealed there when written) */
+	if (j->rec.id[0] == '\0' && record_seal(&j->rec) != 0) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	if (stored_run_begin(&j->stored) != 0)
+		return -1;
+	for (size_t i = 0; i < al_std_lot_count(j->run); i++) {
+		const al_std_lot *l = al_std_lot_at(j->run, i);
+
+		if (store_add_titrant(j->stored.store, j->rec.id, (long)i, l,
+				      j->a.p.k,
+				      al_date_add_days(l->date,
+						       j->a.p.valid_days)) != 0)
+			return -1;
+	}
+	return stored_run_commit(&j->stored, &j->rec, j->a.analyst, argc, argv);
+}
+
 int
 cmd_standardize(int argc, char **argv)
 {
@@ -638,10 +674,12 @@ cmd_standardize(int argc, char **argv)
 	al_std_params_default(&j.a.p);
 	if ((done = cli_options_done(parse_args(argc, argv, &j.a))) >= 0)
 		return done;
+	j.stored.path = j.a.stored_path;
+	j.stored.rerun = j.a.rerun;
 	if (outputs_safe(&j.a, argc, argv) && read_lots(&j, argc, argv) == 0 &&
 	    open_register(&j) == 0 && cli_put_table(j.a.table, lots_csv, &j) == 0 &&
 	    write_outputs(&j) == 0 && write_record(&j) == 0 &&
-	    cli_commit_all(all, 3) == 0) {
+	    store_lots(&j, argc, argv) == 0 && cli_commit_all(all, 3) == 0) {
 		n = (int)al_std_lot_count(j.run);
 		rc = j.any_rejected ? EXIT_NOT_PASS : EXIT_ALL_PASS;
 		fprintf(stderr, PROG ": %d titrant lot%s standardised%s\n", n,
@@ -650,6 +688,7 @@ cmd_standardize(int argc, char **argv)
 	}
 	for (size_t i = 0; i < 3; i++)
 		al_outfile_abort(*all[i]);
+	stored_run_close(&j.stored);
 	al_register_free(j.reg);
 	al_std_free(j.run);
 	cli_column_map_free(&j.columns);

@@ -47,7 +47,13 @@ static const char schema[] =
 	" file TEXT, line INTEGER, product TEXT, lot TEXT, sample TEXT,"
 	" replicate TEXT, meq REAL, value REAL, unit TEXT, flags TEXT,"
 	" curve TEXT, endpoint_mode TEXT);"
-	"CREATE INDEX replicates_run ON replicates(run_id);";
+	"CREATE INDEX replicates_run ON replicates(run_id);"
+	"CREATE TABLE titrants(run_id TEXT NOT NULL, pos INTEGER NOT NULL,"
+	" titrant_lot TEXT NOT NULL, standard TEXT, n INTEGER NOT NULL,"
+	" concentration_mol_l REAL, sd_mol_l REAL, rsd_pct REAL,"
+	" u_mol_l REAL, expanded_u_mol_l REAL, k REAL, standardised_on TEXT,"
+	" valid_until TEXT, status TEXT NOT NULL, reason TEXT);"
+	"CREATE INDEX titrants_run ON titrants(run_id);";
 
 /* The tables a run's hash covers, in the hash's order, each with the
  * query verify and the append both read it back by. */
@@ -55,6 +61,7 @@ static const char *const covered[][2] = {
 	{"run_inputs", "SELECT * FROM run_inputs WHERE run_id = ?1 ORDER BY pos"},
 	{"results", "SELECT * FROM results WHERE run_id = ?1 ORDER BY pos"},
 	{"replicates", "SELECT * FROM replicates WHERE run_id = ?1 ORDER BY pos"},
+	{"titrants", "SELECT * FROM titrants WHERE run_id = ?1 ORDER BY pos"},
 };
 
 /* The run's own fields as hashed: the runs row but seq and hash. */
@@ -70,6 +77,15 @@ fail(store *s, const char *what)
 	return -1;
 }
 
+/* A statement prepared, or -1 after a message. */
+static int
+prepare(store *s, const char *sql, sqlite3_stmt **st)
+{
+	return sqlite3_prepare_v2(s->db, sql, -1, st, NULL) == SQLITE_OK
+		       ? 0
+		       : fail(s, "prepare");
+}
+
 static int
 exec(store *s, const char *sql)
 {
@@ -83,7 +99,7 @@ static int
 create_schema(store *s)
 {
 	static const char *const tables[] = {"runs", "run_inputs", "results",
-					     "replicates"};
+					     "replicates", "titrants"};
 	sqlite3_stmt *st;
 	int version = -1;
 	char sql[256];
@@ -98,7 +114,7 @@ create_schema(store *s)
 	if (version == 0) {
 		if (exec(s, schema) != 0)
 			return exec(s, "ROLLBACK"), -1;
-		for (size_t i = 0; i < 4; i++)
+		for (size_t i = 0; i < 5; i++)
 			for (int del = 0; del < 2; del++) {
 				snprintf(sql, sizeof sql,
 					 "CREATE TRIGGER %s_no_%s BEFORE %s ON %s "
@@ -168,12 +184,10 @@ store_begin(store *s)
 	s->pos = 0;
 	if (exec(s, "BEGIN IMMEDIATE") != 0)
 		return -1;
-	if (sqlite3_prepare_v2(s->db,
-			       "INSERT INTO replicates VALUES (?1, ?2, ?3, ?4, "
-			       "?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14)",
-			       -1, &s->rep, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
-	return 0;
+	return prepare(s,
+		       "INSERT INTO replicates VALUES (?1, ?2, ?3, ?4, ?5, ?6, "
+		       "?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14)",
+		       &s->rep);
 }
 
 int
@@ -182,11 +196,9 @@ store_input_seen(store *s, const char *sha256, char *run_id, size_t cap)
 	sqlite3_stmt *st;
 	int rc;
 
-	if (sqlite3_prepare_v2(s->db,
-			       "SELECT run_id FROM run_inputs WHERE sha256 = ?1 "
-			       "LIMIT 1",
-			       -1, &st, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+	if (prepare(s, "SELECT run_id FROM run_inputs WHERE sha256 = ?1 "
+			       "LIMIT 1", &st) != 0)
+		return -1;
 	sqlite3_bind_text(st, 1, sha256, -1, SQLITE_STATIC);
 	rc = sqlite3_step(st);
 	if (rc == SQLITE_ROW)
@@ -258,13 +270,11 @@ store_add_results(store *s, const char *run_id, const al_assay *run,
 	sqlite3_stmt *st;
 	int bad = 0;
 
-	if (sqlite3_prepare_v2(s->db,
-			       "INSERT INTO results VALUES (?1, ?2, ?3, ?4, ?5, "
+	if (prepare(s, "INSERT INTO results VALUES (?1, ?2, ?3, ?4, ?5, "
 			       "?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, "
 			       "?16, ?17, ?18, ?19, ?20, ?21, ?22, ?23, ?24, "
-			       "?25, ?26, ?27, ?28, ?29, ?30, ?31, ?32, ?33)",
-			       -1, &st, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+			       "?25, ?26, ?27, ?28, ?29, ?30, ?31, ?32, ?33)", &st) != 0)
+		return -1;
 	for (size_t i = 0; !bad && i < al_assay_group_count(run); i++) {
 		const al_group_result *r = al_assay_result(run, i);
 		const al_spec *sp = r->spec;
@@ -309,6 +319,39 @@ store_add_results(store *s, const char *run_id, const al_assay *run,
 		sqlite3_bind_null(st, 33); /* date: not kept yet */
 		bad = step_done(s, st, "insert a result") != 0;
 	}
+	sqlite3_finalize(st);
+	return bad ? -1 : 0;
+}
+
+int
+store_add_titrant(store *s, const char *run_id, long pos,
+		  const al_std_lot *l, double k, long valid_until)
+{
+	sqlite3_stmt *st;
+	char on[11], until[11];
+	int bad;
+
+	if (prepare(s, "INSERT INTO titrants VALUES (?1, ?2, ?3, ?4, ?5, "
+			       "?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)", &st) != 0)
+		return -1;
+	al_date_format(l->date, on);
+	al_date_format(valid_until, until);
+	bind_text(st, 1, run_id);
+	sqlite3_bind_int64(st, 2, pos);
+	bind_text(st, 3, l->lot);
+	bind_text(st, 4, l->standard->name);
+	sqlite3_bind_int64(st, 5, (sqlite3_int64)l->n);
+	sqlite3_bind_double(st, 6, l->mean);
+	bind_real(st, 7, l->has_sd, l->sd);
+	bind_real(st, 8, l->has_sd, l->rsd_pct);
+	sqlite3_bind_double(st, 9, l->budget.u);
+	sqlite3_bind_double(st, 10, l->U);
+	sqlite3_bind_double(st, 11, k);
+	bind_text(st, 12, on);
+	bind_text(st, 13, until);
+	bind_text(st, 14, l->valid ? "accepted" : "rejected");
+	bind_text(st, 15, l->valid ? NULL : l->why);
+	bad = step_done(s, st, "insert a titrant lot") != 0;
 	sqlite3_finalize(st);
 	return bad ? -1 : 0;
 }
@@ -377,9 +420,8 @@ run_hash(store *s, sqlite3_stmt *run, const char *run_id, char hex[65])
 		sha256_update(&h, strlen(covered[t][0]),
 			      (const uint8_t *)covered[t][0]);
 		sha256_update(&h, 1, (const uint8_t *)"\n");
-		if (sqlite3_prepare_v2(s->db, covered[t][1], -1, &st, NULL) !=
-		    SQLITE_OK)
-			return fail(s, "prepare");
+		if (prepare(s, covered[t][1], &st) != 0)
+			return -1;
 		sqlite3_bind_text(st, 1, run_id, -1, SQLITE_STATIC);
 		bad = hash_rows(&h, st) != 0;
 		sqlite3_finalize(st);
@@ -401,10 +443,8 @@ last_hash(store *s, char hex[65])
 
 	memset(hex, '0', 64);
 	hex[64] = '\0';
-	if (sqlite3_prepare_v2(s->db,
-			       "SELECT hash FROM runs ORDER BY seq DESC LIMIT 1",
-			       -1, &st, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+	if (prepare(s, "SELECT hash FROM runs ORDER BY seq DESC LIMIT 1", &st) != 0)
+		return -1;
 	rc = sqlite3_step(st);
 	if (rc == SQLITE_ROW)
 		snprintf(hex, 65, "%s", sqlite3_column_text(st, 0));
@@ -421,10 +461,8 @@ add_inputs(store *s, const store_run *r, char *text, size_t cap)
 	int bad = 0;
 
 	text[0] = '\0';
-	if (sqlite3_prepare_v2(s->db,
-			       "INSERT INTO run_inputs VALUES (?1, ?2, ?3, ?4)",
-			       -1, &st, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+	if (prepare(s, "INSERT INTO run_inputs VALUES (?1, ?2, ?3, ?4)", &st) != 0)
+		return -1;
 	for (size_t i = 0; !bad && i < r->n_inputs; i++) {
 		if (len < cap)
 			len += (size_t)snprintf(text + len, cap - len,
@@ -457,21 +495,19 @@ store_add_run(store *s, const store_run *r)
 	v[6] = inputs, v[7] = r->reason, v[8] = prev;
 	/* the run's fields hashed as a query of them yields them, the
 	 * same way verify reads them back from the table */
-	if (sqlite3_prepare_v2(s->db,
-			       "SELECT ?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9", -1,
-			       &own, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+	if (prepare(s, "SELECT ?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9", &own) != 0)
+		return -1;
 	for (int i = 0; i < 9; i++)
 		bind_text(own, i + 1, v[i]);
 	bad = run_hash(s, own, r->run_id, hash) != 0;
 	sqlite3_finalize(own);
 	if (bad)
 		return -1;
-	if (sqlite3_prepare_v2(s->db,
-			       "INSERT INTO runs (" RUN_FIELDS ", hash) VALUES "
-			       "(?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10)",
-			       -1, &ins, NULL) != SQLITE_OK)
-		return fail(s, "prepare");
+	if (prepare(s,
+		    "INSERT INTO runs (" RUN_FIELDS ", hash) VALUES (?1, ?2, "
+		    "?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10)",
+		    &ins) != 0)
+		return -1;
 	for (int i = 0; i < 9; i++)
 		bind_text(ins, i + 1, v[i]);
 	bind_text(ins, 10, hash);

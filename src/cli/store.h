@@ -37,6 +37,10 @@ int store_input_seen(store *s, const char *sha256, char *run_id, size_t cap);
 int store_add_replicate(store *s, const char *run_id, const al_replicate *rep);
 int store_add_results(store *s, const char *run_id, const al_assay *run,
 		      const char *report_id_prefix);
+/* A standardised titrant lot (standardize), its valid_until a day
+ * number. */
+int store_add_titrant(store *s, const char *run_id, long pos,
+		      const al_std_lot *l, double k, long valid_until);
 int store_add_run(store *s, const store_run *r);
 /* The transaction committed (0) or, after any failure, rolled back. */
 int store_commit(store *s);

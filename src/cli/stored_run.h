@@ -1,0 +1,37 @@
+/* acidlot command line: a command's run into the results store (--store,
+ * --rerun): its inputs noted as they are read, one transaction begun
+ * before the first row goes in, and the run row and the commit before
+ * the run's other outputs are put in place.
+ * SPDX-License-Identifier: GPL-3.0-or-later */
+#ifndef ACIDLOT_CLI_STORED_RUN_H
+#define ACIDLOT_CLI_STORED_RUN_H
+
+#include "record.h"
+#include "store.h"
+
+typedef struct stored_run {
+	const char *path;  /* --store, NULL: none */
+	const char *rerun; /* --rerun REASON */
+	struct stored_input {
+		const char *name;
+		char sha256[65];
+	} *inputs;
+	size_t n_inputs;
+	store *store; /* open from stored_run_begin */
+	int in_transaction;
+} stored_run;
+
+/* An input file read (its SHA-256 in hex): 0, or -1 when memory runs
+ * out. Nothing without --store. */
+int stored_run_input(stored_run *r, const char *name, const char *hex);
+/* The store opened and the transaction begun; an input stored by an
+ * earlier run refused unless --rerun. 0, or -1 after a message. */
+int stored_run_begin(stored_run *r);
+/* The run's row (its id and time from the record) and the commit: 0, or
+ * -1 after a message. */
+int stored_run_commit(stored_run *r, run_record *rec, const char *analyst,
+		      int argc, char **argv);
+/* Rolls back what was not committed, closes the store. */
+void stored_run_close(stored_run *r);
+
+#endif
