@@ -27,6 +27,7 @@
 #include "acidlot/status.h"
 #include "acidlot/ta.h"
 #include "acidlot/table.h"
+#include "acidlot/trend.h"
 #include "acidlot/units.h"
 
 #endif

@@ -41,19 +41,19 @@ static const char schema[] =
 	" horrat REAL, u REAL, expanded_u REAL, k REAL, brix REAL,"
 	" brix_corrected REAL, brix_acid_ratio REAL, water_pct REAL,"
 	" basis TEXT, date TEXT);"
-	"CREATE INDEX results_run ON results(run_id);"
+	"CREATE INDEX results_run ON results(run_id, pos);"
 	"CREATE INDEX results_product ON results(product);"
 	"CREATE TABLE replicates(run_id TEXT NOT NULL, pos INTEGER NOT NULL,"
 	" file TEXT, line INTEGER, product TEXT, lot TEXT, sample TEXT,"
 	" replicate TEXT, meq REAL, value REAL, unit TEXT, flags TEXT,"
 	" curve TEXT, endpoint_mode TEXT);"
-	"CREATE INDEX replicates_run ON replicates(run_id);"
+	"CREATE INDEX replicates_run ON replicates(run_id, pos);"
 	"CREATE TABLE titrants(run_id TEXT NOT NULL, pos INTEGER NOT NULL,"
 	" titrant_lot TEXT NOT NULL, standard TEXT, n INTEGER NOT NULL,"
 	" concentration_mol_l REAL, sd_mol_l REAL, rsd_pct REAL,"
 	" u_mol_l REAL, expanded_u_mol_l REAL, k REAL, standardised_on TEXT,"
 	" valid_until TEXT, status TEXT NOT NULL, reason TEXT);"
-	"CREATE INDEX titrants_run ON titrants(run_id);";
+	"CREATE INDEX titrants_run ON titrants(run_id, pos);";
 
 /* The tables a run's hash covers, in the hash's order, each with the
  * query verify and the append both read it back by. */
