@@ -7,6 +7,16 @@
 
 #include "acidlot/trend.h"
 
+/* The defaults with a target and sigma given (a check standard). */
+static void
+given(al_trend_params *p, double target, double sigma)
+{
+	al_trend_params_default(p);
+	p->has_target = 1;
+	p->target = target;
+	p->sigma = sigma;
+}
+
 /* NIST/SEMATECH e-Handbook of Statistical Methods, 6.3.2.4, "Example of
  * calculation of parameters for an EWMA control chart": 20 values,
  * target 50, s = 2.0539, lambda 0.3; its table of EWMA values (two
@@ -27,10 +37,7 @@ nist_ewma(void **state)
 	al_trend_point pt[20];
 
 	(void)state;
-	al_trend_params_default(&p);
-	p.has_target = 1;
-	p.target = 50;
-	p.sigma = 2.0539;
+	given(&p, 50, 2.0539);
 	p.lambda = 0.3;
 	assert_int_equal(al_trend_chart(x, 20, &p, &l, pt), AL_OK);
 	for (int i = 0; i < 20; i++)
@@ -72,10 +79,7 @@ montgomery_cusum(void **state)
 	al_trend_point pt[30];
 
 	(void)state;
-	al_trend_params_default(&p);
-	p.has_target = 1;
-	p.target = 10;
-	p.sigma = 1;
+	given(&p, 10, 1);
 	assert_int_equal(al_trend_chart(x, 30, &p, &l, pt), AL_OK);
 	for (int i = 0; i < 30; i++) {
 		assert_true(fabs(pt[i].cusum_hi - hi[i]) <= 0.005 + 1e-9);
@@ -114,10 +118,7 @@ nelson_rules(void **state)
 	al_trend_point pt[16];
 
 	(void)state;
-	al_trend_params_default(&p);
-	p.has_target = 1;
-	p.target = 0;
-	p.sigma = 1;
+	given(&p, 0, 1);
 	p.cusum_h = 1e9; /* the run rules alone */
 	p.width = 1e9;
 	for (size_t k = 0; k < sizeof t / sizeof t[0]; k++) {
