@@ -299,7 +299,7 @@ add_extras(al_assay *run, al_group *g, const al_row *r)
 
 	if (r->t.blank_ml == 0 && r->t.made_up_ml == 0 &&
 	    r->t.aliquot_ml == 0 && r->conc_u < 0 && !r->has_brix &&
-	    !r->has_water && !r->has_density &&
+	    !r->has_water && !r->has_density && !r->has_date &&
 	    !(r->flags & AL_FLAG_ENDPOINT_LOW))
 		return AL_OK;
 	x = al_groups_extra(&run->groups, g);
@@ -326,6 +326,8 @@ add_extras(al_assay *run, al_group *g, const al_row *r)
 	}
 	if ((r->flags & AL_FLAG_ENDPOINT_LOW) && r->endpoint < x->min_endpoint)
 		x->min_endpoint = r->endpoint;
+	if (r->has_date && (x->n_dates++ == 0 || r->date > x->latest_date))
+		x->latest_date = r->date;
 	return AL_OK;
 }
 

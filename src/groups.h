@@ -76,7 +76,8 @@ typedef struct al_group {
 typedef struct al_group_extra {
 	double sum_blank, sum_made_up, sum_aliquot, sum_conc_u;
 	double sum_brix, sum_water, sum_density, min_endpoint;
-	uint32_t n_conc_u, n_brix, n_water, n_density;
+	uint32_t n_conc_u, n_brix, n_water, n_density, n_dates;
+	long latest_date; /* of the rows with a date (n_dates) */
 } al_group_extra;
 
 /* A result's key as a row gives it: its product, lot and sample. */

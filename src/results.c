@@ -154,6 +154,8 @@ evaluate(const al_assay *run, struct al_assay_reader *rd, size_t i)
 		w->flags = r->flags;
 		w->bits |= AL_G_JUDGED;
 	}
+	r->has_date = x && x->n_dates > 0;
+	r->date = r->has_date ? x->latest_date : 0;
 	if ((g->flags & AL_FLAG_ENDPOINT_LOW) && x) {
 		r->endpoint_ph = x->min_endpoint;
 		if (al_endpoint_ph_needed(r->acid->pka, r->acid->n_pka,

@@ -305,6 +305,16 @@ row_date(al_rows *rs, const al_csv_row *row, unsigned long line,
 	return 0;
 }
 
+/* 1 when the row has a date cell that is not empty. */
+static int
+row_has_date(const al_rows *rs, const al_csv_row *row)
+{
+	size_t dl;
+
+	(void)al_cell(row, rs->col[AL_C_DATE], &dl);
+	return dl > 0;
+}
+
 /* The register entry of a row's titrant lot, checked for validity on the
  * row's date; NULL when the row names no lot (or after an error). */
 static const al_titrant *
@@ -530,14 +540,17 @@ read_titrant(al_rows *rs, const al_csv_row *row, al_row *r)
 	const al_assay_options *o = rs->opt;
 	const al_titrant *reg;
 	long date;
-	int got;
+	int got, dated;
 
 	if (number_or_default(rs, row, AL_C_BLANK, o->has_blank, o->blank_ml,
 			      &r->t.blank_ml) == 0)
 		r->t.blank_ml = 0;
 	got = number_or_default(rs, row, AL_C_CONC, o->has_titrant,
 				o->titrant_mol_l, &r->t.titrant_mol_l);
-	if (row_date(rs, row, r->line, &date) != 0)
+	dated = row_date(rs, row, r->line, &date) == 0;
+	r->has_date = dated && row_has_date(rs, row);
+	r->date = date;
+	if (!dated)
 		got = 1; /* the row is invalid: no lot looked up on no date */
 	else if (o->titrants && rs->col[AL_C_TITRANT_LOT] >= 0) {
 		reg = titrant_of(rs, row, r->line, date);

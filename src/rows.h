@@ -65,6 +65,8 @@ typedef struct al_row {
 	al_unit unit;        /* the spec's, else the options', else by basis */
 	int anhydrous;       /* the spec's basis, else the options' */
 	unsigned flags;      /* AL_FLAG_ bits of the row */
+	long date;	     /* the row's date, when has_date */
+	int has_date;
 	const char *curve, *mode; /* from a curve file (acidlot endpoint):
 				     the curve and the mode that gave the
 				     volume; "" for a volume read off */

@@ -193,6 +193,8 @@ typedef struct al_group_result {
 	double ratio;          /* Brix (corrected when it can be) / TA % w/w */
 	double water_pct;      /* mean water, % w/w */
 	int anhydrous;         /* the result is on the anhydrous basis */
+	int has_date;
+	long date;             /* its latest titration date (a day number) */
 } al_group_result;
 
 /* Cochran's test over the results of one product with the same n. */

@@ -316,7 +316,13 @@ store_add_results(store *s, const char *run_id, const al_assay *run,
 		bind_real(st, 30, r->has_ratio, r->ratio);
 		bind_real(st, 31, r->has_water, r->water_pct);
 		bind_text(st, 32, r->anhydrous ? "anhydrous" : "as-is");
-		sqlite3_bind_null(st, 33); /* date: not kept yet */
+		if (r->has_date) {
+			char day[11];
+
+			al_date_format(r->date, day);
+			bind_text(st, 33, day);
+		} else
+			sqlite3_bind_null(st, 33);
 		bad = step_done(s, st, "insert a result") != 0;
 	}
 	sqlite3_finalize(st);
