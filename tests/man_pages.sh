@@ -6,7 +6,7 @@ set -u
 dir=$1
 fail=0
 n=0
-for c in "" -assay -standardize -convert -recovery -verify -acids -template -endpoint; do
+for c in "" -assay -standardize -convert -recovery -verify -acids -template -endpoint -trend; do
 	page=$dir/acidlot$c.1
 	[ -s "$page" ] || { echo "missing $page"; fail=1; continue; }
 	n=$((n + 1))

@@ -22,6 +22,7 @@ int cmd_convert(int argc, char **argv);
 int cmd_standardize(int argc, char **argv);
 int cmd_verify(int argc, char **argv);
 int cmd_endpoint(int argc, char **argv);
+int cmd_trend(int argc, char **argv);
 int cmd_recovery(int argc, char **argv);
 int cmd_template(int argc, char **argv);
 

@@ -34,6 +34,7 @@ usage(FILE *out)
 	      "                  the assay reads and a line of units\n"
 	      "  endpoint FILE...  endpoint volumes from titration curves\n"
 	      "                  (pH readings), with SVG pictures\n"
+	      "  trend           a control chart of a product's stored results\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -111,6 +112,7 @@ dispatch(int argc, char **argv)
 		{"recovery", NULL, cmd_recovery},
 		{"template", NULL, cmd_template},
 		{"endpoint", NULL, cmd_endpoint},
+		{"trend", NULL, cmd_trend},
 	};
 	const char *names[sizeof commands / sizeof commands[0]], *near;
 	const char *cmd;

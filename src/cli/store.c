@@ -637,3 +637,73 @@ store_verify(store *s, unsigned long *runs, unsigned long *results,
 	first_bad[0] = '\0';
 	return 0;
 }
+
+/* Column i's text, "" for NULL. */
+static const char *
+text_at(sqlite3_stmt *st, int i)
+{
+	const unsigned char *t = sqlite3_column_text(st, i);
+
+	return t ? (const char *)t : "";
+}
+
+int
+store_points(store *s, const char *product, const char *quantity,
+	     const char *from, const char *to, store_point **out, size_t *n)
+{
+	static const char *const allowed[] = {"mean", "sd", "rsd_pct"};
+	char sql[1024];
+	sqlite3_stmt *st;
+	size_t cap = 0;
+	int rc;
+
+	*out = NULL;
+	*n = 0;
+	if (al_name_index(allowed, 3, quantity) < 0) {
+		cli_error("--quantity takes mean, sd or rsd_pct");
+		return -1;
+	}
+	/* the column's name from the list above, never from the input */
+	snprintf(sql, sizeof sql,
+		 "SELECT r.lot, r.sample, coalesce(r.date, "
+		 "substr(u.started_utc, 1, 10)), r.%s, r.spec_min, r.spec_max "
+		 "FROM results r JOIN runs u ON u.run_id = r.run_id "
+		 "WHERE r.product = ?1 AND r.%s IS NOT NULL "
+		 "AND (?2 IS NULL OR coalesce(r.date, substr(u.started_utc, 1, "
+		 "10)) >= ?2) AND (?3 IS NULL OR coalesce(r.date, "
+		 "substr(u.started_utc, 1, 10)) <= ?3) "
+		 "ORDER BY 3, u.started_utc, u.seq, r.pos",
+		 quantity, quantity);
+	if (prepare(s, sql, &st) != 0)
+		return -1;
+	bind_text(st, 1, product);
+	bind_text(st, 2, from);
+	bind_text(st, 3, to);
+	while ((rc = sqlite3_step(st)) == SQLITE_ROW) {
+		store_point *p;
+
+		if (*n == cap) {
+			store_point *grown;
+
+			cap = 2 * cap + 64;
+			grown = al_realloc(*out, cap * sizeof *grown);
+			if (grown == NULL) {
+				sqlite3_finalize(st);
+				cli_error("%s", al_strerror(AL_ENOMEM));
+				return -1;
+			}
+			*out = grown;
+		}
+		p = &(*out)[(*n)++];
+		snprintf(p->lot, sizeof p->lot, "%s", text_at(st, 0));
+		snprintf(p->sample, sizeof p->sample, "%s", text_at(st, 1));
+		snprintf(p->date, sizeof p->date, "%s", text_at(st, 2));
+		p->value = sqlite3_column_double(st, 3);
+		p->has_min = sqlite3_column_type(st, 4) != SQLITE_NULL;
+		p->spec_min = sqlite3_column_double(st, 4);
+		p->has_max = sqlite3_column_type(st, 5) != SQLITE_NULL;
+		p->spec_max = sqlite3_column_double(st, 5);
+	}
+	sqlite3_finalize(st);
+	return rc == SQLITE_DONE ? 0 : fail(s, "select");
+}

@@ -46,6 +46,22 @@ int store_add_run(store *s, const store_run *r);
 int store_commit(store *s);
 void store_rollback(store *s);
 
+/* One stored result of a product, for a trend. */
+typedef struct store_point {
+	char lot[96], sample[96], date[11]; /* date "" when none */
+	double value;
+	int has_min, has_max;
+	double spec_min, spec_max;
+} store_point;
+
+/* The results of product with a value of quantity (mean, sd or rsd_pct),
+ * dated from..to (each NULL for no bound; a result without a date is
+ * dated by its run's start), ordered by date, run start and report
+ * order: *n points in *out (al_free it). 0, or -1 after a message. */
+int store_points(store *s, const char *product, const char *quantity,
+		 const char *from, const char *to, store_point **out,
+		 size_t *n);
+
 /* Recomputes the chain: 0 intact (with the counts), 1 broken (the run
  * named in *first_bad, cap bytes, and why in *why), -1 after a
  * message. */
