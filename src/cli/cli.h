@@ -31,6 +31,9 @@ int cmd_template(int argc, char **argv);
  * alike); control characters from inputs are shown escaped (\r, \x1b),
  * here and in cli_usage_error and cli_print_diags. */
 void cli_error(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+/* s as XML text (an SVG's): the five markup characters as entities,
+ * control characters as '?'. */
+void cli_put_xml(FILE *out, const char *s);
 /* Writes s with its control characters escaped, as cli_error does. */
 void cli_put_escaped(FILE *out, const char *s);
 /* A usage error: the message, then "try 'acidlot CMD --help'"; returns 2. */

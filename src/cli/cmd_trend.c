@@ -9,6 +9,7 @@
 
 #include "cli.h"
 #include "store.h"
+#include "trend_plot.h"
 
 static void
 usage(FILE *out)
@@ -37,6 +38,7 @@ usage(FILE *out)
 	      "  -o, --output FILE      the points as CSV (default standard\n"
 	      "                         output: a table on a terminal)\n"
 	      "      --summary FILE     centre, sigmas, Cp, Cpk, Pp, Ppk (CSV)\n"
+	      "      --plot FILE        the chart as an SVG picture\n"
 	      "  -h, --help             this help\n"
 	      "\n"
 	      "Columns: seq, lot, sample, date, value, centre, lcl, ucl (of the\n"
@@ -52,22 +54,22 @@ usage(FILE *out)
 
 enum { OPT_STORE = CLI_OPT, OPT_PRODUCT, OPT_QUANTITY, OPT_FROM, OPT_TO,
        OPT_CHART, OPT_TARGET, OPT_SIGMA, OPT_BASELINE, OPT_LAMBDA, OPT_WIDTH,
-       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY };
+       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY, OPT_PLOT };
 
 static const char *const options[] = {
 	"store", "product", "quantity", "from", "to", "chart", "target",
 	"sigma", "baseline", "lambda", "width", "cusum-k", "cusum-h",
-	"summary", "output=o",
+	"summary", "plot", "output=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_SUMMARY - CLI_OPT + 2,
+		       OPT_PLOT - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 enum { CHART_IMR, CHART_EWMA, CHART_CUSUM };
 
 struct job {
 	const char *store, *product, *quantity, *from, *to, *output,
-		*summary;
+		*summary, *plot;
 	int chart, has_sigma;
 	double baseline;
 	al_trend_params p;
@@ -87,7 +89,7 @@ one_option(void *ctx, int c, char *text)
 		{OPT_STORE, &j->store},	    {OPT_PRODUCT, &j->product},
 		{OPT_QUANTITY, &j->quantity}, {OPT_FROM, &j->from},
 		{OPT_TO, &j->to},	    {'o', &j->output},
-		{OPT_SUMMARY, &j->summary},
+		{OPT_SUMMARY, &j->summary}, {OPT_PLOT, &j->plot},
 	};
 	const cli_range r[] = {
 		{OPT_TARGET, "--target", -HUGE_VAL, HUGE_VAL, 0,
@@ -117,6 +119,18 @@ one_option(void *ctx, int c, char *text)
 	       cli_range_option("trend", r, sizeof r / sizeof r[0], c, text);
 }
 
+/* The signals of point i that the chart shows: the run rules and its
+ * own. */
+static unsigned
+shown(const struct job *j, size_t i)
+{
+	static const unsigned own[] = {
+		0, AL_TREND_EWMA_HIGH | AL_TREND_EWMA_LOW,
+		AL_TREND_CUSUM_HIGH | AL_TREND_CUSUM_LOW};
+
+	return j->chart_points[i].signals & (0xffu | own[j->chart]);
+}
+
 /* The points as CSV into out (the rows of one chart). */
 static int
 put_points(void *ctx, FILE *out)
@@ -124,16 +138,13 @@ put_points(void *ctx, FILE *out)
 	struct job *j = ctx;
 	static const char *const tail[] = {"mr,mr_ucl", "ewma",
 					   "cusum_hi,cusum_lo"};
-	unsigned own[] = {0, AL_TREND_EWMA_HIGH | AL_TREND_EWMA_LOW,
-			  AL_TREND_CUSUM_HIGH | AL_TREND_CUSUM_LOW};
-
 	fprintf(out, "seq,lot,sample,date,value,centre,lcl,ucl,%s,signals\n",
 		tail[j->chart]);
 	j->signalled = 0;
 	for (size_t i = 0; i < j->n; i++) {
 		const al_trend_point *q = &j->chart_points[i];
 		const al_trend_limits *l = &j->lim;
-		unsigned sig = q->signals & (0xffu | own[j->chart]);
+		unsigned sig = shown(j, i);
 		double lo = l->lcl, hi = l->ucl;
 		char names[256], v[8][40];
 
@@ -264,14 +275,96 @@ load(struct job *j)
 	return 0;
 }
 
+/* The unit of the latest point (results of a product may change unit
+ * with its specification; the latest names the axis). */
+static const char *
+last_unit(const struct job *j)
+{
+	return j->points[j->n - 1].unit;
+}
+
+/* The picture: the chart's statistic above (and the moving range, or
+ * C-, below). 0, or -1. */
+static int
+put_plot(const struct job *j, FILE *out)
+{
+	static const char *const names[3][3] = {
+		{"centre", "UCL", "LCL"}, {"target", "UCL", "LCL"},
+		{"", "H", ""}};
+	static const char *const mr_names[2] = {"MR-bar", "UCL"};
+	const al_trend_limits *l = &j->lim;
+	const al_trend_point *last = &j->chart_points[j->n - 1];
+	double *top = al_calloc(2 * j->n, sizeof *top), *low = top + j->n;
+	unsigned *sig = al_calloc(j->n, sizeof *sig);
+	const char **lots = al_calloc(2 * j->n, sizeof *lots),
+		   **dates = lots + j->n;
+	double levels[3] = {l->centre, l->ucl, l->lcl};
+	double low_levels[2] = {l->mr_bar, l->mr_ucl};
+	char title[256], unit[32];
+	trend_plot_data d;
+	int rc;
+
+	if (top == NULL || sig == NULL || lots == NULL) {
+		AL_FREE_ALL(top, sig, lots);
+		return -1;
+	}
+	for (size_t i = 0; i < j->n; i++) {
+		const al_trend_point *q = &j->chart_points[i];
+
+		top[i] = j->chart == 0 ? q->value
+			 : j->chart == 1 ? q->ewma
+					 : q->cusum_hi;
+		low[i] = j->chart == 0 ? (q->has_mr ? q->mr : NAN) : q->cusum_lo;
+		sig[i] = shown(j, i);
+		lots[i] = j->points[i].lot;
+		dates[i] = j->points[i].date;
+	}
+	if (j->chart == 1) {
+		levels[1] = last->ewma_ucl;
+		levels[2] = last->ewma_lcl;
+	} else if (j->chart == 2) {
+		levels[0] = 0;
+		levels[1] = low_levels[1] = j->p.cusum_h * l->sigma;
+		low_levels[0] = 0;
+	}
+	snprintf(title, sizeof title, "%s: %s of each result", j->product,
+		 j->quantity);
+	snprintf(unit, sizeof unit, "%s", strcmp(j->quantity, "rsd_pct") == 0
+						  ? "%"
+						  : last_unit(j));
+	d = (trend_plot_data){
+		.title = title,
+		.unit = unit,
+		.top_title = j->chart == 0   ? "individuals"
+			     : j->chart == 1 ? "EWMA"
+					     : "CUSUM, upper (C+)",
+		.low_title = j->chart == 0 ? "moving range" : "CUSUM, lower (C-)",
+		.n = j->n,
+		.top = top,
+		.low = j->chart == 1 ? NULL : low,
+		.signals = sig,
+		.lots = lots,
+		.dates = dates,
+		.top_levels = levels,
+		.low_levels = low_levels,
+		.top_names = names[j->chart],
+		.low_names = j->chart == 0 ? mr_names : names[2],
+		.n_top_levels = j->chart == 2 ? 2 : 3,
+		.n_low_levels = 2,
+	};
+	rc = trend_plot_write(out, &d);
+	AL_FREE_ALL(top, sig, lots);
+	return rc;
+}
+
 /* The points and the summary into their files (or the points on
  * standard output), whole or not at all. */
 static int
 write_all(struct job *j)
 {
 	al_status st;
-	al_outfile *o = NULL, *s = NULL;
-	al_outfile **all[] = {&o, &s};
+	al_outfile *o = NULL, *s = NULL, *pic = NULL;
+	al_outfile **all[] = {&o, &s, &pic};
 	int bad = 0;
 
 	if (j->output == NULL)
@@ -285,11 +378,17 @@ write_all(struct job *j)
 	     put_summary(j, al_outfile_stream(s)) != 0 ||
 	     al_outfile_prepare(s) != AL_OK))
 		bad = 1;
+	if (!bad && j->plot &&
+	    ((pic = al_outfile_open(j->plot, &st)) == NULL ||
+	     put_plot(j, al_outfile_stream(pic)) != 0 ||
+	     al_outfile_prepare(pic) != AL_OK))
+		bad = 1;
 	if (bad)
 		cli_error("%s", cli_reason(AL_OK));
-	if (bad || cli_commit_all(all, 2) != 0) {
+	if (bad || cli_commit_all(all, 3) != 0) {
 		al_outfile_abort(o);
 		al_outfile_abort(s);
+		al_outfile_abort(pic);
 		return -1;
 	}
 	return 0;

@@ -15,6 +15,24 @@
 
 #include "cli.h"
 
+void
+cli_put_xml(FILE *out, const char *s)
+{
+	static const char markup[] = "&<>'\"";
+	static const char *const entity[] = {"&amp;", "&lt;", "&gt;", "&apos;",
+					     "&quot;"};
+
+	for (; *s; s++) {
+		unsigned char c = (unsigned char)*s;
+		const char *m = strchr(markup, c);
+
+		if (c && m)
+			fputs(entity[m - markup], out);
+		else
+			fputc(c < 0x20 || c == 0x7f ? '?' : c, out);
+	}
+}
+
 /* Writes s to stderr with every control character shown escaped (\r,
  * \n, \t, \x1b; C1 controls as their UTF-8 bytes \xc2\x9b), so that no
  * byte from an input can move the cursor or forge a line. */

@@ -46,29 +46,6 @@ absent_or_empty(const char *dir)
 	return empty;
 }
 
-/* s as XML text: the five markup characters as entities, control
- * characters as '?'. */
-static void
-put_xml(FILE *out, const char *s)
-{
-	for (; *s; s++) {
-		unsigned char ch = (unsigned char)*s;
-
-		if (ch == '&')
-			fputs("&amp;", out);
-		else if (ch == '<')
-			fputs("&lt;", out);
-		else if (ch == '>')
-			fputs("&gt;", out);
-		else if (ch == '\'')
-			fputs("&apos;", out);
-		else if (ch == '"')
-			fputs("&quot;", out);
-		else
-			fputc(ch < 0x20 || ch == 0x7f ? '?' : ch, out);
-	}
-}
-
 int
 plot_begin(plot_set *p, const char *dir, al_curve_mode mode)
 {
@@ -269,7 +246,7 @@ draw(FILE *out, const plot_set *p, const char *id, const al_curve *c,
 		     "fill='#fff'/>\n",
 		W, H, W, H, W, H);
 	fputs("<text x='64' y='28' font-size='15'>curve ", out);
-	put_xml(out, id);
+	cli_put_xml(out, id);
 	fprintf(out, " (%s)</text>\n", al_curve_mode_names[p->mode]);
 	axes(out, &f, p->mode == AL_CURVE_INFLECTION ? "slope, pH/mL"
 		      : p->mode == AL_CURVE_GRAN      ? "Gran function"

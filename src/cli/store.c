@@ -666,7 +666,8 @@ store_points(store *s, const char *product, const char *quantity,
 	/* the column's name from the list above, never from the input */
 	snprintf(sql, sizeof sql,
 		 "SELECT r.lot, r.sample, coalesce(r.date, "
-		 "substr(u.started_utc, 1, 10)), r.%s, r.spec_min, r.spec_max "
+		 "substr(u.started_utc, 1, 10)), r.%s, r.spec_min, r.spec_max, "
+		 "r.unit "
 		 "FROM results r JOIN runs u ON u.run_id = r.run_id "
 		 "WHERE r.product = ?1 AND r.%s IS NOT NULL "
 		 "AND (?2 IS NULL OR coalesce(r.date, substr(u.started_utc, 1, "
@@ -698,6 +699,7 @@ store_points(store *s, const char *product, const char *quantity,
 		snprintf(p->lot, sizeof p->lot, "%s", text_at(st, 0));
 		snprintf(p->sample, sizeof p->sample, "%s", text_at(st, 1));
 		snprintf(p->date, sizeof p->date, "%s", text_at(st, 2));
+		snprintf(p->unit, sizeof p->unit, "%s", text_at(st, 6));
 		p->value = sqlite3_column_double(st, 3);
 		p->has_min = sqlite3_column_type(st, 4) != SQLITE_NULL;
 		p->spec_min = sqlite3_column_double(st, 4);

@@ -49,6 +49,7 @@ void store_rollback(store *s);
 /* One stored result of a product, for a trend. */
 typedef struct store_point {
 	char lot[96], sample[96], date[11]; /* date "" when none */
+	char unit[16];
 	double value;
 	int has_min, has_max;
 	double spec_min, spec_max;
