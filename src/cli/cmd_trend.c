@@ -10,14 +10,17 @@
 #include "cli.h"
 #include "store.h"
 #include "trend_plot.h"
+#include "trend_reports.h"
 
 static void
 usage(FILE *out)
 {
 	fputs("Usage: " PROG " trend --store DB --product P [OPTION]...\n"
+	      "       " PROG " trend REPORT.csv... --product P [OPTION]...\n"
 	      "A control chart of a product's results in the lab's store, one\n"
 	      "point per result in date order (then run, then report order),\n"
-	      "with the Nelson run rules (Nelson 1984) on every point.\n"
+	      "or in earlier reports (file and row order), with the Nelson\n"
+	      "run rules (Nelson 1984) on every point.\n"
 	      "\n"
 	      "      --store DB         the results store (assay --store)\n"
 	      "      --product P        the product\n"
@@ -231,24 +234,30 @@ put_summary(const struct job *j, FILE *out)
 /* The product's points from the store and their chart; -1 after a
  * message. */
 static int
-load(struct job *j)
+load(struct job *j, int argc, char **argv)
 {
-	store *s = store_open(j->store, 0);
+	store *s;
 	double *x;
 	al_status st;
 	int rc;
 
-	if (s == NULL)
-		return -1;
-	rc = store_points(s, j->product, j->quantity, j->from, j->to,
-			  &j->points, &j->n);
-	store_close(s);
+	if (j->store) {
+		if ((s = store_open(j->store, 0)) == NULL)
+			return -1;
+		rc = store_points(s, j->product, j->quantity, j->from, j->to,
+				  &j->points, &j->n);
+		store_close(s);
+	} else
+		rc = trend_reports_read(argv + optind, argc - optind,
+					j->product, j->quantity, &j->points,
+					&j->n);
 	if (rc != 0)
 		return -1;
 	if (j->n < 2) {
-		cli_error("%s: %zu stored result%s of product '%s'%s: a chart "
-			  "needs 2 or more",
-			  j->store, j->n, j->n == 1 ? "" : "s", j->product,
+		cli_error("%s: %zu result%s of product '%s'%s: a chart needs 2 "
+			  "or more",
+			  j->store ? j->store : argv[optind], j->n,
+			  j->n == 1 ? "" : "s", j->product,
 			  j->from || j->to ? " in those dates" : "");
 		return -1;
 	}
@@ -408,14 +417,15 @@ cmd_trend(int argc, char **argv)
 					    usage, one_option, &j));
 	if (done >= 0)
 		return done;
-	if (optind < argc)
-		return cli_usage_error("trend", "unexpected argument '%s'",
-				       argv[optind]);
-	if (j.store == NULL || j.product == NULL)
-		return cli_usage_error("trend", "give --store DB and --product P");
+	if (j.product == NULL || (j.store == NULL) == (optind >= argc))
+		return cli_usage_error("trend", "give --product P and either "
+						"--store DB or report CSVs");
+	if (j.store == NULL && (j.from || j.to))
+		return cli_usage_error("trend", "--from and --to need --store (a "
+						"report has no dates)");
 	if (j.p.has_target != j.has_sigma)
 		return cli_usage_error("trend", "--target and --sigma go together");
-	if (load(&j) == 0 && write_all(&j) == 0) {
+	if (load(&j, argc, argv) == 0 && write_all(&j) == 0) {
 		rc = j.signalled ? EXIT_NOT_PASS : 0;
 		fprintf(stderr, PROG ": %zu points of %s, %lu with a signal\n", j.n,
 			j.product, j.signalled);
