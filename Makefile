@@ -115,6 +115,7 @@ bench: build
 	sh bench/startup.sh $(BUILD)/acidlot samples
 	sh bench/tables.sh $(BUILD)/acidlot
 	sh bench/curves.sh $(BUILD)/acidlot
+	sh bench/store.sh $(BUILD)/acidlot $(BUILD)/tests/bench_gen
 
 # the program, the static library, its headers and acidlot.pc under
 # PREFIX (default /usr/local); DESTDIR=... stages them elsewhere
