@@ -74,6 +74,16 @@ demo: build
 	@$(BUILD)/acidlot assay samples/curves.csv --spec samples/specs.csv \
 	  --rejects $(BUILD)/demo-curves-rejected.csv --format table; \
 	rc=$$?; echo "exit status $$rc (1: lot AP-0952 needs a retest)"; [ $$rc -le 1 ]
+	@echo
+	@echo "== 5. the lab's history: the week's assay into a store, its chain verified, the orange juice charted"
+	@rm -f $(BUILD)/demo-lab.db $(BUILD)/demo-lab.db-wal $(BUILD)/demo-lab.db-shm
+	@$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
+	  --titrants $(BUILD)/demo-register.csv --store $(BUILD)/demo-lab.db \
+	  --analyst "demo" >/dev/null 2>&1; [ $$? -le 1 ]
+	@$(BUILD)/acidlot verify --store $(BUILD)/demo-lab.db
+	@$(BUILD)/acidlot trend --store $(BUILD)/demo-lab.db --product ORJ-NFC \
+	  --format table --plot $(BUILD)/demo-trend.svg 2>/dev/null; \
+	rc=$$?; echo "chart: $(BUILD)/demo-trend.svg (exit status $$rc: 1 when a point signals)"; [ $$rc -le 1 ]
 
 test: build
 	cd $(BUILD) && ctest --output-on-failure -j$(JOBS)

@@ -42,6 +42,8 @@ usage(FILE *out)
 	      "                         output: a table on a terminal)\n"
 	      "      --summary FILE     centre, sigmas, Cp, Cpk, Pp, Ppk (CSV)\n"
 	      "      --plot FILE        the chart as an SVG picture\n"
+	      "      --format F         table (aligned columns) or csv; default\n"
+	      "                         table on a terminal, csv into a pipe\n"
 	      "  -h, --help             this help\n"
 	      "\n"
 	      "Columns: seq, lot, sample, date, value, centre, lcl, ucl (of the\n"
@@ -57,15 +59,15 @@ usage(FILE *out)
 
 enum { OPT_STORE = CLI_OPT, OPT_PRODUCT, OPT_QUANTITY, OPT_FROM, OPT_TO,
        OPT_CHART, OPT_TARGET, OPT_SIGMA, OPT_BASELINE, OPT_LAMBDA, OPT_WIDTH,
-       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY, OPT_PLOT };
+       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY, OPT_PLOT, OPT_FORMAT };
 
 static const char *const options[] = {
 	"store", "product", "quantity", "from", "to", "chart", "target",
 	"sigma", "baseline", "lambda", "width", "cusum-k", "cusum-h",
-	"summary", "plot", "output=o",
+	"summary", "plot", "format", "output=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_PLOT - CLI_OPT + 2,
+		       OPT_FORMAT - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 enum { CHART_IMR, CHART_EWMA, CHART_CUSUM };
@@ -74,6 +76,8 @@ struct job {
 	const char *store, *product, *quantity, *from, *to, *output,
 		*summary, *plot;
 	int chart, has_sigma;
+	int table; /* -1 until --format or the terminal says */
+	int shown_table; /* the points go to a person as a table */
 	double baseline;
 	al_trend_params p;
 	store_point *points;
@@ -114,6 +118,12 @@ one_option(void *ctx, int c, char *text)
 		 "--cusum-h must be above 0", &j->p.cusum_h, NULL},
 	};
 
+	if (c == OPT_FORMAT) {
+		int pick = cli_choice("trend", "--format", text, "table", "csv");
+
+		j->table = pick == 0;
+		return pick < 0 ? -1 : 1;
+	}
 	if (c == OPT_CHART) {
 		j->chart = cli_pick("trend", "--chart", text, charts, 3);
 		return j->chart < 0 ? -1 : 1;
@@ -139,6 +149,8 @@ static int
 put_points(void *ctx, FILE *out)
 {
 	struct job *j = ctx;
+	/* a table is read by a person: 5 significant digits; CSV keeps 10 */
+	int digits = j->shown_table ? 5 : 10;
 	static const char *const tail[] = {"mr,mr_ucl", "ewma",
 					   "cusum_hi,cusum_lo"};
 	fprintf(out, "seq,lot,sample,date,value,centre,lcl,ucl,%s,signals\n",
@@ -158,16 +170,16 @@ put_points(void *ctx, FILE *out)
 			lo = 0;
 			hi = j->p.cusum_h * l->sigma;
 		}
-		al_format_sig(q->value, 10, v[0], sizeof v[0]);
-		al_format_sig(l->centre, 10, v[1], sizeof v[1]);
-		al_format_sig(lo, 10, v[2], sizeof v[2]);
-		al_format_sig(hi, 10, v[3], sizeof v[3]);
+		al_format_sig(q->value, digits, v[0], sizeof v[0]);
+		al_format_sig(l->centre, digits, v[1], sizeof v[1]);
+		al_format_sig(lo, digits, v[2], sizeof v[2]);
+		al_format_sig(hi, digits, v[3], sizeof v[3]);
 		al_format_sig(j->chart == CHART_IMR ? q->mr
 			      : j->chart == CHART_EWMA ? q->ewma
 						       : q->cusum_hi,
-			      10, v[4], sizeof v[4]);
+			      digits, v[4], sizeof v[4]);
 		al_format_sig(j->chart == CHART_IMR ? l->mr_ucl : q->cusum_lo,
-			      10, v[5], sizeof v[5]);
+			      digits, v[5], sizeof v[5]);
 		al_trend_signals_format(sig, names, sizeof names);
 		j->signalled += sig != 0;
 		fprintf(out, "%zu,", i + 1);
@@ -376,8 +388,10 @@ write_all(struct job *j)
 	al_outfile **all[] = {&o, &s, &pic};
 	int bad = 0;
 
+	j->shown_table = j->output == NULL &&
+			 (j->table < 0 ? cli_is_terminal() : j->table);
 	if (j->output == NULL)
-		bad = cli_put_table(cli_is_terminal(), put_points, j) != 0;
+		bad = cli_put_table(j->shown_table, put_points, j) != 0;
 	else if ((o = al_outfile_open(j->output, &st)) == NULL ||
 		 put_points(j, al_outfile_stream(o)) != 0 ||
 		 al_outfile_prepare(o) != AL_OK)
@@ -411,6 +425,7 @@ cmd_trend(int argc, char **argv)
 
 	memset(&j, 0, sizeof j);
 	j.quantity = "mean";
+	j.table = -1;
 	al_trend_params_default(&j.p);
 	done = cli_options_done(cli_options("trend", argc, argv, options,
 					    sizeof options / sizeof options[0],

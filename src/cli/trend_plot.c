@@ -15,7 +15,7 @@
 
 #define W 900
 #define LEFT 70
-#define RIGHT 110
+#define RIGHT 140
 #define PANEL 250 /* a panel's height */
 #define GAP 70
 
