@@ -26,6 +26,7 @@
  * or more. It assumes activity coefficients of 1, pKw 14.0 (25 C), and
  * that the acid's anion adds no hydroxide of its own there. */
 #include "acidlot/curve.h"
+#include "acidlot/text.h"
 
 #include <gsl/gsl_fit.h>
 #include <gsl/gsl_sort.h>
@@ -296,6 +297,30 @@ static const char *const flag_names[] = {
 	"starts-above-endpoint", "too-few-readings", "gran-too-few-readings",
 	"gran-needs-volume", "gran-outside-readings",
 };
+
+unsigned
+al_curve_flags_parse(const char *s, size_t len, size_t *bad)
+{
+	unsigned flags = 0;
+	size_t at = 0;
+
+	*bad = len;
+	while (at < len) {
+		size_t n = 0, k = 0;
+
+		while (at + n < len && s[at + n] != ';')
+			n++;
+		while (k < sizeof flag_names / sizeof flag_names[0] &&
+		       !al_word_eq(s + at, n, flag_names[k]))
+			k++;
+		if (k < sizeof flag_names / sizeof flag_names[0])
+			flags |= 1u << k;
+		else if (n > 0 && *bad == len)
+			*bad = at;
+		at += n + 1;
+	}
+	return flags;
+}
 
 void
 al_curve_flags_format(unsigned flags, char *buf, size_t cap)

@@ -583,38 +583,25 @@ read_titrant(al_rows *rs, const al_csv_row *row, al_row *r)
 static void
 read_curve(al_rows *rs, const al_csv_row *row, al_row *r)
 {
-	static const struct {
-		const char *name;
-		unsigned flag; /* 0: the row has no volume, rejected for it */
-	} known[] = {
-		{"sparse-near-endpoint", AL_FLAG_CURVE_SPARSE},
-		{"ph-falls", AL_FLAG_CURVE_FALLS},
-		{"noisy", AL_FLAG_CURVE_NOISY},
-		{"endpoint-not-reached", 0}, {"starts-above-endpoint", 0},
-		{"too-few-readings", 0}, {"gran-too-few-readings", 0},
-		{"gran-needs-volume", 0}, {"gran-outside-readings", 0},
-	};
-	size_t len;
+	size_t len, bad;
 	const char *s = al_cell(row, rs->col[AL_C_CURVE_FLAGS], &len);
+	unsigned curve = al_curve_flags_parse(s, len, &bad);
 
 	r->curve = al_cell(row, rs->col[AL_C_CURVE], &r->curve_len);
 	r->mode = al_cell(row, rs->col[AL_C_MODE], &r->mode_len);
-	while (len > 0) {
-		size_t n = 0, k = 0;
+	if (bad < len) {
+		size_t n = 0;
 
-		while (n < len && s[n] != ';')
+		while (bad + n < len && s[bad + n] != ';')
 			n++;
-		while (k < sizeof known / sizeof known[0] &&
-		       !al_word_eq(s, n, known[k].name))
-			k++;
-		if (k < sizeof known / sizeof known[0])
-			r->flags |= known[k].flag;
-		else if (n > 0)
-			AL_ROW_ERR(rs, r->line, "curve_flags",
-				   "'%.*s' is not a curve flag", (int)n, s);
-		s += n + (n < len);
-		len -= n + (n < len);
+		AL_ROW_ERR(rs, r->line, "curve_flags",
+			   "'%.*s' is not a curve flag", (int)n, s + bad);
 	}
+	/* those that reach the result; the others come with no volume,
+	 * and the row is rejected for that */
+	r->flags |= (curve & AL_CURVE_SPARSE ? AL_FLAG_CURVE_SPARSE : 0) |
+		    (curve & AL_CURVE_PH_FALLS ? AL_FLAG_CURVE_FALLS : 0) |
+		    (curve & AL_CURVE_NOISY ? AL_FLAG_CURVE_NOISY : 0);
 }
 
 /* The dilution, density, endpoint, Brix and water, where given. */

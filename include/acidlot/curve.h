@@ -82,6 +82,9 @@ void al_curve_find(const al_curve *c, al_curve_mode mode, double *work,
 void al_curve_smooth(const al_curve *c, double *smooth, double *slope,
 		     double *leverage);
 
+/* The flags named in s[0..len), ';'-separated (as al_curve_flags_format
+ * writes them); *bad the offset of the first name that is none, or len. */
+unsigned al_curve_flags_parse(const char *s, size_t len, size_t *bad);
 /* The flags as ';'-separated names ("" when none). */
 void al_curve_flags_format(unsigned flags, char *buf, size_t cap);
 /* Each mode's name, in the enum's order. */
