@@ -16,7 +16,8 @@ FUZZ_SECONDS ?= 60
 BENCH_ROWS ?= 100000 1000000 10000000
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
-                  libjansson-dev nettle-dev libsqlite3-dev sqlite3 libutf8proc-dev time strace bsdutils groff-base
+                  libjansson-dev nettle-dev libsqlite3-dev sqlite3 libpq-dev postgresql \
+                  libutf8proc-dev time strace bsdutils groff-base bc
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 
 .PHONY: all deps build demo check test asan valgrind regen fuzz bench install clean

@@ -21,7 +21,7 @@ take_replicate(void *ud, const al_replicate *rep)
 	    al_replicates_row(j->reps.out, rep, j->reps.ropt) != AL_OK)
 		return AL_EIO;
 	if (j->stored.store &&
-	    store_add_replicate(j->stored.store, j->rec.id, rep) != 0)
+	    store_add_replicate(j->stored.store, rep) != 0)
 		return AL_EIO;
 	return AL_OK;
 }
@@ -557,7 +557,7 @@ write_results(struct job *j)
 /* The report (each result evaluated once, as it is written) and the
  * budget. */
 static int
-write_report(struct job *j)
+write_report(struct job *j, int argc, char **argv)
 {
 	struct args *a = &j->a;
 
@@ -565,7 +565,7 @@ write_report(struct job *j)
 	if (record_seal(&j->rec) != 0)
 		return failed(NULL, AL_ENOMEM);
 	/* the store's transaction before the replicates go into it */
-	if (stored_run_begin(&j->stored) != 0 ||
+	if (stored_run_begin(&j->stored, &j->rec, a->analyst, argc, argv) != 0 ||
 	    finish_status(j, al_assay_finish_lazy(j->run)) != 0)
 		return -1;
 	a->ropt.report_id = j->rec.id;
@@ -591,7 +591,7 @@ write_report(struct job *j)
 /* Every output checked, then all of them put in place at once: a
  * failure leaves none. */
 static int
-commit_outputs(struct job *j, int argc, char **argv)
+commit_outputs(struct job *j)
 {
 	const struct args *a = &j->a;
 	int want_record = a->record || (a->output && strcmp(a->output, "-"));
@@ -614,10 +614,8 @@ commit_outputs(struct job *j, int argc, char **argv)
 		return -1;
 	/* the store first: if it fails, no output is replaced */
 	if (j->stored.store &&
-	    (store_add_results(j->stored.store, j->rec.id, j->run,
-			       j->rec.id) != 0 ||
-	     stored_run_commit(&j->stored, &j->rec, a->analyst, argc, argv) !=
-		     0))
+	    (store_add_results(j->stored.store, j->run, j->rec.id) != 0 ||
+	     stored_run_commit(&j->stored) != 0))
 		return -1;
 	return cli_commit_all(all, 5);
 }
@@ -663,7 +661,7 @@ cmd_assay(int argc, char **argv)
 		if (outputs_safe(&j->a, argc, argv) &&
 		    set_up(j, argc, argv) == 0 && open_row_outputs(j) == 0 &&
 		    read_titrations(j, argc, argv) == 0 &&
-		    write_report(j) == 0 && commit_outputs(j, argc, argv) == 0)
+		    write_report(j, argc, argv) == 0 && commit_outputs(j) == 0)
 			rc = assay_conclude(j);
 		break;
 	}

@@ -648,18 +648,18 @@ store_lots(struct job *j, int argc, char **argv)
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		return -1;
 	}
-	if (stored_run_begin(&j->stored) != 0)
+	if (stored_run_begin(&j->stored, &j->rec, j->a.analyst, argc, argv) != 0)
 		return -1;
 	for (size_t i = 0; i < al_std_lot_count(j->run); i++) {
 		const al_std_lot *l = al_std_lot_at(j->run, i);
 
-		if (store_add_titrant(j->stored.store, j->rec.id, (long)i, l,
+		if (store_add_titrant(j->stored.store, (long)i, l,
 				      j->a.p.k,
 				      al_date_add_days(l->date,
 						       j->a.p.valid_days)) != 0)
 			return -1;
 	}
-	return stored_run_commit(&j->stored, &j->rec, j->a.analyst, argc, argv);
+	return stored_run_commit(&j->stored);
 }
 
 int

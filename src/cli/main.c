@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "db.h"
 #include "record.h"
 
 static void
@@ -91,7 +92,8 @@ main(int argc, char **argv)
 		al_alloc_fail_at(strtoul(fail_at, NULL, 10));
 	else
 		al_alloc_fail_at(0);
-	rc = dispatch(argc, argv);
+	rc = db_pg_handoff(argc, argv) != 0 ? EXIT_TROUBLE
+					    : dispatch(argc, argv);
 	if (getenv("ACIDLOT_COUNT_ALLOC"))
 		fprintf(stderr, PROG ": %lu allocations\n", al_alloc_count());
 	return rc;

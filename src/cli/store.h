@@ -1,5 +1,6 @@
-/* acidlot command line: the lab's results store, an append-only SQLite
- * database whose runs are chained by SHA-256 (docs/store.md).
+/* acidlot command line: the lab's results store, an append-only
+ * database (an SQLite file, or PostgreSQL through a postgresql:// URI)
+ * whose runs are chained by SHA-256 (docs/store.md).
  * SPDX-License-Identifier: GPL-3.0-or-later */
 #ifndef ACIDLOT_CLI_STORE_H
 #define ACIDLOT_CLI_STORE_H
@@ -9,11 +10,11 @@
 typedef struct store store;
 
 /* The schema's version (PRAGMA user_version). */
-#define STORE_VERSION 1
+#define STORE_VERSION 2
 
-/* Opens the store at path (creating it on first use when create is 1);
- * NULL after a message. Parallel runs wait for each other (busy
- * timeout). */
+/* Opens the store at path, an SQLite file (created on first use when
+ * create is 1) or a postgresql:// URI; the schema made on first use.
+ * NULL after a message. Parallel runs wait for each other. */
 store *store_open(const char *path, int create);
 void store_close(store *s);
 
@@ -26,23 +27,27 @@ typedef struct store_run {
 } store_run;
 
 /* Begins a run's transaction (holding the store's write lock until
- * store_commit or store_rollback); 0, or -1 after a message. */
+ * store_commit or store_rollback) and reads the chain's head; 0, or -1
+ * after a message. */
 int store_begin(store *s);
 /* With the transaction begun: the earlier run that stored an input of
  * this SHA-256, into run_id (cap bytes); 1 found, 0 none, -1 after a
  * message. */
 int store_input_seen(store *s, const char *sha256, char *run_id, size_t cap);
-/* One replicate, then (after all of them) the results, then the run:
- * each 0, or -1 after a message. */
-int store_add_replicate(store *s, const char *run_id, const al_replicate *rep);
-int store_add_results(store *s, const char *run_id, const al_assay *run,
+/* The run's own fields and its inputs, after the checks; r's texts
+ * stay valid until the commit. Then, in this order, the replicates
+ * (each as it is read), the results, or the titrant lots: each 0, or
+ * -1 after a message. */
+int store_start_run(store *s, const store_run *r);
+int store_add_replicate(store *s, const al_replicate *rep);
+int store_add_results(store *s, const al_assay *run,
 		      const char *report_id_prefix);
 /* A standardised titrant lot (standardize), its valid_until a day
  * number. */
-int store_add_titrant(store *s, const char *run_id, long pos,
-		      const al_std_lot *l, double k, long valid_until);
-int store_add_run(store *s, const store_run *r);
-/* The transaction committed (0) or, after any failure, rolled back. */
+int store_add_titrant(store *s, long pos, const al_std_lot *l, double k,
+		      long valid_until);
+/* The run's row (with its hash) and the chain's head written, and the
+ * transaction committed (0); after a failure it is rolled back. */
 int store_commit(store *s);
 void store_rollback(store *s);
 

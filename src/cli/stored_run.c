@@ -25,17 +25,29 @@ stored_run_input(stored_run *r, const char *name, const char *hex)
 	return 0;
 }
 
-int
-stored_run_begin(stored_run *r)
+/* Who runs the program: the login name the environment gives, else
+ * the user id, as the store's os_user (the analyst is what --analyst
+ * says). */
+static const char *
+os_user(char *buf, size_t cap)
+{
+	const char *u = getenv("LOGNAME");
+
+	if (u == NULL || *u == '\0')
+		u = getenv("USER");
+	if (u && *u)
+		return u;
+	snprintf(buf, cap, "uid %lu", (unsigned long)getuid());
+	return buf;
+}
+
+/* Refuses an input an earlier run stored, unless --rerun: 0, or -1
+ * after a message. */
+static int
+check_inputs(stored_run *r)
 {
 	char earlier[64];
 
-	if (r->path == NULL)
-		return 0;
-	if ((r->store = store_open(r->path, 1)) == NULL ||
-	    store_begin(r->store) != 0)
-		return -1;
-	r->in_transaction = 1;
 	for (size_t i = 0; i < r->n_inputs; i++)
 		switch (store_input_seen(r->store, r->inputs[i].sha256, earlier,
 					 sizeof earlier)) {
@@ -55,67 +67,58 @@ stored_run_begin(stored_run *r)
 	return 0;
 }
 
-/* Who runs the program: the login name the environment gives, else
- * the user id, as the store's os_user (the analyst is what --analyst
- * says). */
-static const char *
-os_user(char *buf, size_t cap)
-{
-	const char *u = getenv("LOGNAME");
-
-	if (u == NULL || *u == '\0')
-		u = getenv("USER");
-	if (u && *u)
-		return u;
-	snprintf(buf, cap, "uid %lu", (unsigned long)getuid());
-	return buf;
-}
-
 int
-stored_run_commit(stored_run *r, run_record *rec, const char *analyst,
-		  int argc, char **argv)
+stored_run_begin(stored_run *r, run_record *rec, const char *analyst,
+		 int argc, char **argv)
 {
-	const char **names, **hashes;
-	char command[4096], user[32];
-	size_t len = 0;
 	json_t *when = json_object_get(rec->root, "time_utc");
+	size_t len = 0;
 	store_run row;
-	int bad;
 
-	if (r->store == NULL)
+	if (r->path == NULL)
 		return 0;
-	names = al_calloc(r->n_inputs + 1, sizeof *names);
-	hashes = al_calloc(r->n_inputs + 1, sizeof *hashes);
-	if (names == NULL || hashes == NULL) {
-		AL_FREE_ALL(names, hashes);
+	r->names = al_calloc(r->n_inputs + 1, sizeof *r->names);
+	r->hashes = al_calloc(r->n_inputs + 1, sizeof *r->hashes);
+	if (r->names == NULL || r->hashes == NULL) {
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		return -1;
 	}
 	for (size_t i = 0; i < r->n_inputs; i++) {
-		names[i] = r->inputs[i].name;
-		hashes[i] = r->inputs[i].sha256;
+		r->names[i] = r->inputs[i].name;
+		r->hashes[i] = r->inputs[i].sha256;
 	}
-	command[0] = '\0';
-	for (int i = 0; i < argc && len < sizeof command; i++)
-		len += (size_t)snprintf(command + len, sizeof command - len,
+	for (int i = 0; i < argc && len < sizeof r->command; i++)
+		len += (size_t)snprintf(r->command + len, sizeof r->command - len,
 					"%s%s", i ? " " : PROG " ", argv[i]);
 	row = (store_run){
 		.run_id = rec->id,
 		.started_utc = json_string_value(when),
 		.analyst = analyst,
-		.os_user = os_user(user, sizeof user),
-		.command = command,
+		.os_user = os_user(r->user, sizeof r->user),
+		.command = r->command,
 		.version = ACIDLOT_VERSION,
 		.reason = r->rerun,
-		.input_names = names,
-		.input_sha256 = hashes,
+		.input_names = r->names,
+		.input_sha256 = r->hashes,
 		.n_inputs = r->n_inputs,
 	};
-	bad = store_add_run(r->store, &row) != 0 || store_commit(r->store) != 0;
-	AL_FREE_ALL(names, hashes);
-	if (!bad)
-		r->in_transaction = 0;
-	return bad ? -1 : 0;
+	if ((r->store = store_open(r->path, 1)) == NULL ||
+	    store_begin(r->store) != 0)
+		return -1;
+	r->in_transaction = 1;
+	return check_inputs(r) != 0 || store_start_run(r->store, &row) != 0
+		       ? -1
+		       : 0;
+}
+
+int
+stored_run_commit(stored_run *r)
+{
+	if (r->store == NULL)
+		return 0;
+	/* rolled back by the store when it fails */
+	r->in_transaction = 0;
+	return store_commit(r->store);
 }
 
 void
@@ -127,7 +130,8 @@ stored_run_close(stored_run *r)
 	if (r->in_transaction)
 		store_rollback(r->store);
 	store_close(r->store);
-	al_free(r->inputs);
+	AL_FREE_ALL(r->inputs, r->names, r->hashes);
 	r->store = NULL;
 	r->inputs = NULL;
+	r->names = r->hashes = NULL;
 }

@@ -19,18 +19,21 @@ typedef struct stored_run {
 	size_t n_inputs;
 	store *store; /* open from stored_run_begin */
 	int in_transaction;
+	/* what the run's row points at, until the commit */
+	const char **names, **hashes;
+	char command[4096], user[32];
 } stored_run;
 
 /* An input file read (its SHA-256 in hex): 0, or -1 when memory runs
  * out. Nothing without --store. */
 int stored_run_input(stored_run *r, const char *name, const char *hex);
-/* The store opened and the transaction begun; an input stored by an
- * earlier run refused unless --rerun. 0, or -1 after a message. */
-int stored_run_begin(stored_run *r);
-/* The run's row (its id and time from the record) and the commit: 0, or
- * -1 after a message. */
-int stored_run_commit(stored_run *r, run_record *rec, const char *analyst,
-		      int argc, char **argv);
+/* The store opened, the transaction begun and the run started (its id
+ * and time from the sealed record): an input stored by an earlier run
+ * is refused unless --rerun. 0, or -1 after a message. */
+int stored_run_begin(stored_run *r, run_record *rec, const char *analyst,
+		     int argc, char **argv);
+/* The run's row written and the commit: 0, or -1 after a message. */
+int stored_run_commit(stored_run *r);
 /* Rolls back what was not committed, closes the store. */
 void stored_run_close(stored_run *r);
 

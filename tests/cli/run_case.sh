@@ -18,7 +18,8 @@ case_dir=$1
 ACIDLOT=$(cd "$(dirname "$2")" && pwd)/$(basename "$2")
 SAMPLES=$3
 regen=${4:-}
-export ACIDLOT SAMPLES
+STORE_LIB=$(cd "$(dirname "$0")" && pwd)/store_lib.sh
+export ACIDLOT SAMPLES STORE_LIB
 # a fixed run time (2026-12-02T00:00:00Z), so records and report ids repeat
 SOURCE_DATE_EPOCH=1796169600
 export SOURCE_DATE_EPOCH

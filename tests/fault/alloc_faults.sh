@@ -66,6 +66,8 @@ scenario() {
 		return
 	fi
 	rm -f "$work"/*.csv "$work"/.acidlot-* "$work/problems"
+	# a scenario may put back what its counting run changed
+	if [ -n "${after_count:-}" ]; then eval "$after_count"; fi
 	# two runs at a time: the machine has two cores
 	n=1
 	while [ "$n" -le "$total" ]; do
@@ -107,15 +109,20 @@ scenario curves assay "$samples/curves.csv" --spec "$samples/specs.csv" \
 db=$work/../store-$$.db
 "$bin" assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
 	--titrants "$reg" --store "$db" >/dev/null 2>&1
+# the counting run stores its run (of the same id as every run after
+# it): the store is put back as it was before it
+cp "$db" "$db.before"
+after_count='cp "$db.before" "$db"; rm -f "$db-wal" "$db-shm"'
 scenario store assay "$samples/titrations.csv" --spec "$samples/specs.csv" \
 	--titrants "$reg" --store "$db" --rerun "fault test" -o out.csv \
 	-r reps.csv
-if [ "$("$bin" verify --store "$db" 2>/dev/null)" != "2 runs, 32 results, chain intact" ]; then
+after_count=
+if [ "$("$bin" verify --store "$db" 2>/dev/null)" != "1 run, 16 results, chain intact" ]; then
 	echo "store: a failed run changed the store"
 	"$bin" verify --store "$db"
 	fails=$((fails + 1))
 fi
-rm -f "$db" "$db-wal" "$db-shm"
+rm -f "$db" "$db-wal" "$db-shm" "$db.before"
 scenario acids acids
 scenario convert convert 7.5 g/L --acid tartaric --to-acid sulfuric
 scenario recovery recovery --ta 4.8 --unit g/100g --acid citric --start-kg 1000 \

@@ -1,0 +1,54 @@
+#!/bin/sh
+# The store's tests against PostgreSQL (issue 23): a throwaway server
+# (initdb and pg_ctl from Debian's postgresql package) on a Unix socket
+# in a temporary folder, no TCP; the CLI cases store_chain and
+# trend_charts and the kill -9 test run against it, with the same
+# expected output as against SQLite; the server is stopped and removed
+# at the end. initdb refuses to run as root: as root the server runs as
+# the package's postgres user (runuser).
+# usage: store_pg.sh ACIDLOT SAMPLES_DIR BENCH_GEN
+# Exit 77 (skipped, and says so) when the server binaries are missing.
+set -u
+abs() { echo "$(cd "$(dirname "$1")" && pwd)/$(basename "$1")"; }
+acidlot=$(abs "$1")
+samples=$(cd "$2" && pwd)
+gen=$(abs "$3")
+here=$(cd "$(dirname "$0")" && pwd)
+[ -n "${ACIDLOT_VALGRIND:-}" ] && { echo "skipped under valgrind"; exit 77; }
+bin=$(ls -d /usr/lib/postgresql/*/bin 2>/dev/null | sort -V | tail -n 1)
+if [ -z "$bin" ] || [ ! -x "$bin/initdb" ] || ! command -v psql >/dev/null; then
+	echo "SKIPPED: no PostgreSQL server here (Debian package postgresql):" \
+		"the PostgreSQL store tests did not run"
+	exit 77
+fi
+dir=$(mktemp -d /tmp/acidlot-pg.XXXXXX)
+as_server() {
+	if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+}
+[ "$(id -u)" = 0 ] && chown postgres "$dir"
+stop() {
+	as_server "$bin/pg_ctl" -D "$dir/data" -m immediate -w stop >/dev/null 2>&1
+	rm -rf "$dir"
+}
+trap stop EXIT
+if ! as_server "$bin/initdb" -D "$dir/data" -A trust -U postgres -E UTF8 \
+	--locale=C >"$dir/initdb.log" 2>&1 ||
+   ! as_server "$bin/pg_ctl" -D "$dir/data" -l "$dir/server.log" -w \
+	-o "-k $dir -h ''" start >/dev/null; then
+	echo "the PostgreSQL server did not start:"
+	cat "$dir/initdb.log" "$dir/server.log" 2>/dev/null | tail -20
+	exit 1
+fi
+echo "PostgreSQL $("$bin/postgres" --version | awk '{ print $3 }') on $dir"
+STORE_PG=$dir
+export STORE_PG
+fail=0
+for c in store_chain trend_charts; do
+	if sh "$here/cli/run_case.sh" "$here/cli/cases/$c" "$acidlot" "$samples"; then
+		echo "$c: passed against PostgreSQL"
+	else
+		fail=1
+	fi
+done
+sh "$here/store_kill.sh" "$acidlot" "$gen" || fail=1
+exit $fail
