@@ -51,4 +51,20 @@ for c in store_chain trend_charts; do
 	fi
 done
 sh "$here/store_kill.sh" "$acidlot" "$gen" || fail=1
+# four runs making the same new store at once: one makes the tables,
+# the others wait for it (an advisory lock), then all four are stored
+psql -X -q -d "postgresql:///postgres?host=$dir&user=postgres" \
+	-c "CREATE DATABASE first_use" || fail=1
+uri="postgresql:///first_use?host=$dir&user=postgres"
+for i in 1 2 3 4; do
+	"$acidlot" assay "$samples/titrations.csv" --titrant-mol-l 0.1 --store "$uri" \
+		--rerun "first use $i" -o "$dir/r$i.csv" >/dev/null 2>"$dir/e$i" &
+done
+wait
+said=$("$acidlot" verify --store "$uri" 2>&1)
+echo "four first uses at once: $said"
+if [ "$said" != "4 runs, 64 results, chain intact" ]; then
+	cat "$dir"/e[1-4]
+	fail=1
+fi
 exit $fail
