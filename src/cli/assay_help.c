@@ -44,8 +44,9 @@ assay_usage(FILE *out)
 	      "      --analyst NAME      who ran it, for the record\n"
 	      "      --store DB          append the run (results, replicates,\n"
 	      "                          inputs' SHA-256) to the lab's results\n"
-	      "                          store, an SQLite file made on first use;\n"
-	      "                          all or nothing with the other outputs\n"
+	      "                          store, an SQLite file made on first use\n"
+	      "                          or a postgresql:// URI; all or nothing\n"
+	      "                          with the other outputs\n"
 	      "      --rerun REASON      store a titration file stored before\n"
 	      "                          (refused otherwise), saying why\n"
 	      "\n",
