@@ -97,8 +97,7 @@ db_sqlite_open(const char *target, int create)
 	 * commit is on disk when it returns */
 	if (sqlite3_busy_timeout(s->db, 600000) != SQLITE_OK ||
 	    exec_plain(d, "PRAGMA journal_mode = WAL") != 0 ||
-	    exec_plain(d, "PRAGMA synchronous = FULL") != 0 ||
-	    exec_plain(d, "PRAGMA cache_size = -65536") != 0) {
+	    exec_plain(d, "PRAGMA synchronous = FULL") != 0) {
 		sq_close(d);
 		return NULL;
 	}
@@ -208,9 +207,13 @@ sq_create(db *d, const db_table *tables, size_t n, const char *advancing,
 static int
 sq_begin_write(db *d)
 {
-	/* IMMEDIATE: the write lock now, so that the chain's head read
-	 * next is still the head at the commit */
-	return exec_plain(d, "BEGIN IMMEDIATE");
+	/* a run's rows in 64 MiB of cache before they spill (a reader
+	 * keeps SQLite's 2 MiB: its pages are read once); IMMEDIATE: the
+	 * write lock now, so that the chain's head read next is still the
+	 * head at the commit */
+	return exec_plain(d, "PRAGMA cache_size = -65536") != 0
+		       ? -1
+		       : exec_plain(d, "BEGIN IMMEDIATE");
 }
 
 static int
