@@ -148,12 +148,13 @@ format_number(double v, int decimals, int decimal_comma, const char *point,
 	 * value's digits that no input had (and outgrow the buffer) */
 	if (!(fabs(v) < 1e15))
 		decimals = -1;
-	if (decimals < 0 && cap >= 32 && put_g10(v, decimal_comma, buf) > 0)
+	if (decimals == -1 && cap >= 32 && put_g10(v, decimal_comma, buf) > 0)
 		return;
 	if (decimals >= 0)
 		snprintf(buf, cap, "%.*f", decimals, v);
 	else
-		al_format_sig(v, 10, buf, cap);
+		al_format_sig(v, decimals == AL_DECIMALS_EXACT ? 17 : 10, buf,
+			      cap);
 	/* printf follows LC_NUMERIC; the report does not */
 	if (point == NULL)
 		point = localeconv()->decimal_point;
@@ -365,7 +366,7 @@ number(struct sink *k, char d, int defined, double v, int decimals,
 	if (!defined)
 		return;
 	/* the usual case straight into the sink */
-	if (decimals < 0 && k->cap - k->len >= 32 &&
+	if (decimals == -1 && k->cap - k->len >= 32 &&
 	    (n = put_g10(v, opt->decimal_comma, k->buf + k->len)) > 0) {
 		k->len += n;
 		return;
@@ -791,7 +792,7 @@ al_budget_write(FILE *out, const al_assay *run, al_report_options *opt)
 			       r->u > 0 ? 100 * t->contribution * t->contribution /
 						  (r->u * r->u)
 					: 0,
-			       opt->decimals >= 0 ? opt->decimals : 3, opt);
+			       opt->decimals != -1 ? opt->decimals : 3, opt);
 			sink_char(&k, '\n');
 		}
 	}

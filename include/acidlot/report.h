@@ -8,9 +8,13 @@
 
 #include "acidlot/assay.h"
 
+/* al_report_options.decimals: 17 significant digits, so that each
+ * number reads back as the very double (the workbook's source). */
+#define AL_DECIMALS_EXACT (-2)
+
 typedef struct al_report_options {
 	int decimals;      /* fixed decimals when >= 0; -1: 10 significant
-			      digits */
+			      digits; AL_DECIMALS_EXACT: 17 */
 	int round_u;       /* the figures in a result's unit (mean, sd,
 			      interval, median, range, critical range, u)
 			      to the decimal place of U to two significant

@@ -16,6 +16,7 @@ struct args {
 	const char *spec, *output, *replicates, *rejects, *acid, *unit;
 	const char *stored_path, *rerun; /* --store PATH, --rerun REASON */
 	const char *columns_file, *spec_columns_file, *titrants, *record, *analyst, *budget;
+	const char *xlsx; /* --xlsx WORKBOOK */
 	al_column_alias column_opts[MAX_COLUMN_OPTS];
 	size_t n_column_opts;
 	al_column_alias spec_columns[MAX_COLUMN_OPTS]; /* --spec-column */
@@ -46,7 +47,8 @@ struct job {
 	run_record rec;
 	al_assay *run;
 	struct sink reps, rejs;
-	al_outfile *report, *rep_out, *rej_out, *budget_out, *rec_out;
+	al_outfile *report, *rep_out, *rej_out, *budget_out, *rec_out, *book_out;
+	struct assay_book *book; /* --xlsx (assay_workbook.c) */
 	const char *out_name; /* the report's, for messages */
 	unsigned long long in_bytes; /* of the titration files */
 	long open_results;	     /* results no specification judged */
@@ -79,6 +81,17 @@ int assay_record_fill(run_record *rec, const al_assay *run, int guarded,
  * message). */
 void assay_start_hashes(struct job *j);
 int assay_write_record(struct job *j);
+
+/* assay_workbook.c: --xlsx. The replicates kept as they are read, then
+ * the workbook written (before the record, which lists it); each 0, or
+ * -1 after a message. */
+int assay_book_open(struct job *j);
+al_status assay_book_replicate(struct job *j, const al_replicate *rep);
+al_status assay_book_reject(struct job *j, const char *file,
+			    unsigned long line, const char *reason,
+			    const char *raw, size_t raw_len);
+int assay_book_write(struct job *j);
+void assay_book_free(struct job *j);
 
 /* assay_summary.c: the results no specification judged (each product
  * named once), or -1 when memory runs out; then the warnings and the

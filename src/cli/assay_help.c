@@ -49,6 +49,10 @@ assay_usage(FILE *out)
 	      "                          with the other outputs\n"
 	      "      --rerun REASON      store a titration file stored before\n"
 	      "                          (refused otherwise), saying why\n"
+	      "      --xlsx FILE         the run as one workbook: sheets report,\n"
+	      "                          replicates, rejects (when any), budget\n"
+	      "                          (with --budget) and run (the record);\n"
+	      "                          numbers as numbers, to the last digit\n"
 	      "\n",
 	      out);
 	usage_rest(out);

@@ -193,11 +193,11 @@ assay_start_hashes(struct job *j)
 	int file_report = a->output && strcmp(a->output, "-") != 0;
 	al_outfile *outs[FILE_HASHES_MAX] = {file_report ? j->report : NULL,
 					     j->rep_out, j->rej_out,
-					     j->budget_out};
+					     j->budget_out, j->book_out};
 	const char *roles[FILE_HASHES_MAX] = {"report", "replicates",
-					      "rejects", "budget"};
+					      "rejects", "budget", "workbook"};
 	const char *names[FILE_HASHES_MAX] = {a->output, a->replicates,
-					      a->rejects, a->budget};
+					      a->rejects, a->budget, a->xlsx};
 	file_hashes *h = &j->hashes;
 
 	for (int i = 0; i < FILE_HASHES_MAX; i++) {
@@ -212,7 +212,8 @@ assay_start_hashes(struct job *j)
 				al_outfile_path(outs[i]);
 			continue;
 		}
-		if (outs[i] != j->budget_out) /* prepared (closed) already */
+		/* the budget and the workbook: prepared (closed) already */
+		if (outs[i] != j->budget_out && outs[i] != j->book_out)
 			fflush(al_outfile_stream(outs[i]));
 		j->out_role[h->n] = roles[i];
 		j->out_path[h->n] = names[i];
@@ -245,12 +246,7 @@ assay_write_record(struct job *j)
 	for (size_t i = 0; !bad && i < j->n_in_place; i++)
 		bad = record_output_unhashed(&j->rec, j->in_place_role[i],
 					     j->in_place_path[i]) != 0;
-	if (bad ||
-	    assay_record_fill(&j->rec, j->run,
-			      a->aopt.qc.decision == AL_DECISION_GUARDED,
-			      a->aopt.qc.guard_r,
-			      a->aopt.qc.exclude_outliers) != 0 ||
-	    record_write(&j->rec, path, &j->rec_out) != 0) {
+	if (bad || record_write(&j->rec, path, &j->rec_out) != 0) {
 		cli_error("%s: cannot write the record of the run: %s", path,
 			  cli_reason(AL_OK));
 		return -1;

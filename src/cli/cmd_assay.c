@@ -23,6 +23,8 @@ take_replicate(void *ud, const al_replicate *rep)
 	if (j->stored.store &&
 	    store_add_replicate(j->stored.store, rep) != 0)
 		return AL_EIO;
+	if (j->book && assay_book_replicate(j, rep) != AL_OK)
+		return AL_ENOMEM;
 	return AL_OK;
 }
 
@@ -30,11 +32,14 @@ static al_status
 write_reject(void *ud, const char *file, unsigned long line,
 	     const char *reason, const char *raw, size_t raw_len)
 {
-	struct sink *sink = ud;
+	struct job *j = ud;
 
-	sink->count++;
-	return al_rejects_row(sink->out, file, line, reason, raw, raw_len,
-			      sink->ropt);
+	j->rejs.count++;
+	if (j->book && assay_book_reject(j, file, line, reason, raw,
+					 raw_len) != AL_OK)
+		return AL_ENOMEM;
+	return al_rejects_row(j->rejs.out, file, line, reason, raw, raw_len,
+			      j->rejs.ropt);
 }
 
 enum {
@@ -45,7 +50,7 @@ enum {
 	OPT_EXCLUDE, OPT_BUDGET, OPT_TITRANT_U, OPT_BURETTE, OPT_BALANCE, OPT_K,
 	OPT_BASIS, OPT_RESOLUTION, OPT_WATER_U, OPT_FORMAT, OPT_DATE_FORMAT,
 	OPT_SPEC_COLUMN, OPT_SPEC_COLUMNS, OPT_ROUND, OPT_ENDPOINT_MODE,
-	OPT_STORE, OPT_RERUN
+	OPT_STORE, OPT_RERUN, OPT_XLSX
 };
 
 /* The long options, in the order of the OPT_ values (cli_options). */
@@ -56,10 +61,10 @@ static const char *const options[] = {
 	"record", "analyst", "decision", "exclude-outliers!", "budget",
 	"titrant-u", "burette-tol-ml", "balance-linearity-g", "k", "basis",
 	"resolution-ml", "water-u-pct", "format", "date-format", "spec-column",
-	"spec-columns", "round", "endpoint-mode", "store", "rerun", "spec=s", "output=o", "replicates=r",
+	"spec-columns", "round", "endpoint-mode", "store", "rerun", "xlsx", "spec=s", "output=o", "replicates=r",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_RERUN - CLI_OPT + 4,
+		       OPT_XLSX - CLI_OPT + 4,
 	       "one name for each OPT_ value, then the three with a letter");
 
 /* The options with a number, their ranges and where they go. */
@@ -118,6 +123,7 @@ text_option(struct args *a, int c)
 		{OPT_BUDGET, &a->budget},
 		{OPT_SPEC_COLUMNS, &a->spec_columns_file},
 		{OPT_STORE, &a->stored_path},	{OPT_RERUN, &a->rerun},
+		{OPT_XLSX, &a->xlsx},
 	};
 
 	return cli_text_option(t, sizeof t / sizeof t[0], c, optarg);
@@ -273,7 +279,7 @@ parse_args(int argc, char **argv, struct args *a)
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((10 + (size_t)argc) * sizeof *f);
+	cli_file *f = al_malloc((11 + (size_t)argc) * sizeof *f);
 	size_t n = 0;
 	char record[4096];
 	int file_report = a->output && strcmp(a->output, "-") != 0, ok;
@@ -286,6 +292,7 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	f[n++] = (cli_file){"--replicates", a->replicates, 1};
 	f[n++] = (cli_file){"--rejects", a->rejects, 1};
 	f[n++] = (cli_file){"--budget", a->budget, 1};
+	f[n++] = (cli_file){"--xlsx", a->xlsx, 1};
 	if (a->record || file_report) {
 		snprintf(record, sizeof record, "%s.record.json", a->output);
 		f[n++] = (cli_file){a->record ? "--record" : "the record",
@@ -437,7 +444,7 @@ open_row_outputs(struct job *j)
 			return -1;
 		j->rejs.out = al_outfile_stream(j->rej_out);
 		a->aopt.on_reject = write_reject;
-		a->aopt.reject_ud = &j->rejs;
+		a->aopt.reject_ud = j;
 	}
 	return 0;
 }
@@ -462,8 +469,9 @@ read_one(struct job *j, const char *name)
 	hashing_reader_init(&h, in);
 	st = al_assay_read_source(j->run, hashing_read, &h,
 				  is_stdin ? "<stdin>" : name,
-				  j->rep_out || j->stored.path ? take_replicate
-							   : NULL,
+				  j->rep_out || j->stored.path || j->book
+					  ? take_replicate
+					  : NULL,
 				  j);
 	if (!is_stdin)
 		fclose(in);
@@ -596,8 +604,17 @@ commit_outputs(struct job *j)
 	const struct args *a = &j->a;
 	int want_record = a->record || (a->output && strcmp(a->output, "-"));
 	al_outfile **all[] = {&j->report, &j->rep_out, &j->rej_out,
-			      &j->budget_out, &j->rec_out};
+			      &j->budget_out, &j->rec_out, &j->book_out};
 
+	/* the record's content, which the workbook's run sheet shows too;
+	 * the workbook, before the record lists the outputs' hashes */
+	if ((want_record || j->book) &&
+	    assay_record_fill(&j->rec, j->run,
+			      a->aopt.qc.decision == AL_DECISION_GUARDED,
+			      a->aopt.qc.guard_r, a->aopt.qc.exclude_outliers) != 0)
+		return failed(NULL, AL_ENOMEM);
+	if (assay_book_write(j) != 0)
+		return -1;
 	if (want_record)
 		assay_start_hashes(j);
 	/* named before the outputs appear */
@@ -617,20 +634,21 @@ commit_outputs(struct job *j)
 	    (store_add_results(j->stored.store, j->run, j->rec.id) != 0 ||
 	     stored_run_commit(&j->stored) != 0))
 		return -1;
-	return cli_commit_all(all, 5);
+	return cli_commit_all(all, 6);
 }
 
 static void
 job_free(struct job *j)
 {
 	al_outfile *outs[] = {j->rep_out, j->rej_out, j->report, j->rec_out,
-			      j->budget_out};
+			      j->budget_out, j->book_out};
 
 	if (j->hashing) /* an error came first: the thread reads files */
 		(void)file_hashes_finish(&j->hashes);
 	for (size_t i = 0; i < sizeof outs / sizeof outs[0]; i++)
 		al_outfile_abort(outs[i]);
 	stored_run_close(&j->stored);
+	assay_book_free(j);
 	al_assay_free(j->run);
 	al_spec_table_free(j->specs);
 	al_diags_clear(&j->spec_diags);
@@ -660,6 +678,7 @@ cmd_assay(int argc, char **argv)
 		j->stored.rerun = j->a.rerun;
 		if (outputs_safe(&j->a, argc, argv) &&
 		    set_up(j, argc, argv) == 0 && open_row_outputs(j) == 0 &&
+		    assay_book_open(j) == 0 &&
 		    read_titrations(j, argc, argv) == 0 &&
 		    write_report(j, argc, argv) == 0 && commit_outputs(j) == 0)
 			rc = assay_conclude(j);

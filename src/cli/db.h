@@ -33,11 +33,6 @@ typedef struct db_table {
  * postgres://)? Otherwise it names an SQLite file. */
 int db_is_postgresql(const char *target);
 
-/* A run with a PostgreSQL store, given to the program that has the
- * backend (acidlot-pg) when this one lacks it: returns 0 (nothing to
- * hand), or -1 after a message when it cannot. */
-int db_pg_handoff(int argc, char **argv);
-
 /* Opens the database (an SQLite file created when create is 1); NULL
  * after a message naming target. */
 db *db_open(const char *target, int create);

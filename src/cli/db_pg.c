@@ -555,14 +555,6 @@ pg_query_close(db_query *query)
 	al_free(q);
 }
 
-int
-db_pg_handoff(int argc, char **argv)
-{
-	(void)argc;
-	(void)argv;
-	return 0; /* this is the program with the backend */
-}
-
 static const struct db_ops ops = {
 	.close = pg_close,
 	.errmsg = errmsg,

@@ -7,7 +7,7 @@
 #include <string.h>
 
 #include "cli.h"
-#include "db.h"
+#include "extras.h"
 #include "record.h"
 
 static void
@@ -92,7 +92,7 @@ main(int argc, char **argv)
 		al_alloc_fail_at(strtoul(fail_at, NULL, 10));
 	else
 		al_alloc_fail_at(0);
-	rc = db_pg_handoff(argc, argv) != 0 ? EXIT_TROUBLE
+	rc = extras_handoff(argc, argv) != 0 ? EXIT_TROUBLE
 					    : dispatch(argc, argv);
 	if (getenv("ACIDLOT_COUNT_ALLOC"))
 		fprintf(stderr, PROG ": %lu allocations\n", al_alloc_count());

@@ -28,7 +28,7 @@ int sha256_file(const char *path, char hex[65], unsigned long long *bytes);
  * thread of its own while the caller does other work (the outputs'
  * fsyncs); where no thread can be had, at once. Set path[] and n, then
  * start; finish (once, after start) gives 0 when every file was hashed. */
-#define FILE_HASHES_MAX 4
+#define FILE_HASHES_MAX 5
 typedef struct file_hashes {
 	const char *path[FILE_HASHES_MAX];
 	size_t n;

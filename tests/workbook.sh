@@ -1,0 +1,51 @@
+#!/bin/sh
+# assay --xlsx (issue 24): the workbook read back by openpyxl against the
+# run's CSV outputs and its store (tests/workbook_check.py says what is
+# checked); a product named =1+1 and a lot 0012 stay text; the workbook
+# is all or nothing with the run's other outputs.
+# usage: workbook.sh ACIDLOT SAMPLES_DIR
+# Exit 77 (skipped, and says so) without Debian's python3-openpyxl.
+set -u
+acidlot=$1
+samples=$2
+here=$(cd "$(dirname "$0")" && pwd)
+py=/usr/bin/python3
+if ! "$py" -c "import openpyxl" 2>/dev/null; then
+	echo "SKIPPED: no python3-openpyxl (Debian): the workbook was not read back"
+	exit 77
+fi
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+cd "$work" || exit 2
+"$acidlot" standardize "$samples/standardisation.csv" -o reg.csv >/dev/null 2>&1
+{
+	cat "$samples/titrations.csv"
+	echo "=1+1,0012,S1,1,10.010,,12.40,NaOH-0.1-2611,0.05,,,8.1,2026-11-28,,"
+	echo "=1+1,0012,S1,2,10.004,,12.37,NaOH-0.1-2611,0.05,,,8.1,2026-11-28,,"
+	echo "=1+1,0012,S1,3,10.021,,twelve,NaOH-0.1-2611,0.05,,,8.1,2026-11-28,,"
+} >t.csv
+"$acidlot" assay t.csv --spec "$samples/specs.csv" --titrants reg.csv \
+	-o r.csv -r reps.csv --rejects rej.csv --budget b.csv --store lab.db \
+	--xlsx book.xlsx >/dev/null 2>err.txt
+rc=$?
+[ "$rc" -le 1 ] || { echo "the assay failed (exit $rc):"; cat err.txt; exit 1; }
+fail=0
+"$py" "$here/workbook_check.py" book.xlsx lab.db report=r.csv \
+	replicates=reps.csv rejects=rej.csv budget=b.csv || fail=1
+grep -q '"role": "workbook"' r.csv.record.json ||
+	{ echo "the record does not list the workbook"; fail=1; }
+# all or nothing: a workbook that cannot be written leaves no output
+"$acidlot" assay t.csv --titrants reg.csv -o r2.csv --rejects rej2.csv \
+	--xlsx no/such/folder/book.xlsx >/dev/null 2>&1
+rc=$?
+if [ $rc -ne 2 ] || [ -e r2.csv ] || [ -e rej2.csv ]; then
+	echo "a workbook in a missing folder: exit $rc, outputs: $(ls)"
+	fail=1
+else
+	echo "a workbook in a missing folder: exit 2, no output written"
+fi
+"$acidlot" assay t.csv --titrants reg.csv --rejects rej3.csv --xlsx - \
+	>/dev/null 2>&1
+rc=$?
+[ $rc -eq 2 ] && echo "--xlsx -: refused (exit 2)" || { echo "--xlsx -: exit $rc"; fail=1; }
+exit $fail
