@@ -59,6 +59,13 @@ errmsg(db *d)
 	n = strlen(p->err);
 	while (n > 0 && (p->err[n - 1] == '\n' || p->err[n - 1] == ' '))
 		p->err[--n] = '\0';
+	/* its lines on one: "...failed: No such file; Is the server..."
+	 * (libpq starts a further line with a tab) */
+	for (char *at = p->err; *at; at++)
+		if (*at == '\n')
+			*at = ';';
+		else if (*at == '\t')
+			*at = ' ';
 	return p->err;
 }
 
