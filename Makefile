@@ -17,7 +17,7 @@ BENCH_ROWS ?= 100000 1000000 10000000
 JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
                   libjansson-dev nettle-dev libsqlite3-dev sqlite3 libpq-dev postgresql \
-                  libxlsxwriter-dev python3-openpyxl \
+                  libxlsxwriter-dev python3-openpyxl libreoffice-calc-nogui \
                   libutf8proc-dev time strace bsdutils groff-base bc
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 

@@ -30,10 +30,31 @@ cd "$work" || exit 2
 rc=$?
 [ "$rc" -le 1 ] || { echo "the assay failed (exit $rc):"; cat err.txt; exit 1; }
 fail=0
-"$py" "$here/workbook_check.py" book.xlsx lab.db report=r.csv \
+"$py" "$here/workbook_check.py" book.xlsx --assay lab.db report=r.csv \
 	replicates=reps.csv rejects=rej.csv budget=b.csv || fail=1
 grep -q '"role": "workbook"' r.csv.record.json ||
 	{ echo "the record does not list the workbook"; fail=1; }
+# a real spreadsheet opens it: LibreOffice Calc, headless, writes every
+# sheet back as CSV (in make check when Debian's libreoffice-calc-nogui
+# is installed; make deps installs it)
+if command -v soffice >/dev/null; then
+	mkdir calc
+	HOME=$work/calc soffice --headless --convert-to \
+		'csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,false,false,false,-1' \
+		--outdir calc book.xlsx >calc/log 2>&1
+	"$py" "$here/workbook_calc.py" book.xlsx calc || { cat calc/log; fail=1; }
+else
+	echo "SKIPPED the LibreOffice part: no soffice (Debian's libreoffice-calc-nogui)"
+fi
+# trend --xlsx: the points and the summary (a second run stores more
+# points of the orange juice)
+"$acidlot" assay t.csv --spec "$samples/specs.csv" --titrants reg.csv \
+	-o r3.csv --rejects rej3.csv --store lab.db --rerun "a second week" \
+	>/dev/null 2>&1
+"$acidlot" trend --store lab.db --product ORJ-NFC -o points.csv \
+	--summary summary.csv --xlsx trend.xlsx 2>/dev/null
+"$py" "$here/workbook_check.py" trend.xlsx points=points.csv \
+	summary=summary.csv || fail=1
 # all or nothing: a workbook that cannot be written leaves no output
 "$acidlot" assay t.csv --titrants reg.csv -o r2.csv --rejects rej2.csv \
 	--xlsx no/such/folder/book.xlsx >/dev/null 2>&1
@@ -44,7 +65,7 @@ if [ $rc -ne 2 ] || [ -e r2.csv ] || [ -e rej2.csv ]; then
 else
 	echo "a workbook in a missing folder: exit 2, no output written"
 fi
-"$acidlot" assay t.csv --titrants reg.csv --rejects rej3.csv --xlsx - \
+"$acidlot" assay t.csv --titrants reg.csv --rejects rej4.csv --xlsx - \
 	>/dev/null 2>&1
 rc=$?
 [ $rc -eq 2 ] && echo "--xlsx -: refused (exit 2)" || { echo "--xlsx -: exit $rc"; fail=1; }

@@ -2,7 +2,9 @@
 python3-openpyxl, a general-purpose reader, not ours) against the run's
 own CSV outputs and its results store.
 
-usage: workbook_check.py BOOK.xlsx STORE.db SHEET=CSV...
+usage: workbook_check.py BOOK.xlsx [--assay STORE.db] SHEET=CSV...
+(--assay: the workbook of assay --xlsx, with its run sheet, the store's
+doubles and the status fills; without: trend --xlsx)
 
 - every sheet has the CSV's rows and columns; its header is the CSV's
   column name, with the unit in brackets after it where there is one;
@@ -28,7 +30,9 @@ import openpyxl
 NUMERIC = set("""n mean sd rsd_pct ci95_low ci95_high spec_min spec_max
 median grubbs_g dixon_q range critical_range horrat u U k brix
 brix_corrected brix_acid_ratio water_pct line meq value
-standard_uncertainty sensitivity contribution share_pct""".split())
+standard_uncertainty sensitivity contribution share_pct seq centre lcl
+ucl mr mr_ucl ewma cusum_hi cusum_lo sigma_within sigma_overall cp cpk
+pp ppk points_signalled""".split())
 FORMULA_START = "=+-@\t\r"
 # the CSV writes these with fixed decimals (the budget's shares: 3)
 DECIMALS = {"share_pct": 3}
@@ -121,17 +125,7 @@ def check_form(path, book, problems):
         problems.append(f"status fills do not tell pass, fail, retest apart: {fills}")
 
 
-def main():
-    path, store, pairs = sys.argv[1], sys.argv[2], sys.argv[3:]
-    book = openpyxl.load_workbook(path)
-    problems = []
-    want = [p.split("=", 1)[0] for p in pairs] + ["run"]
-    if book.sheetnames != want:
-        problems.append(f"sheets {book.sheetnames}, expected {want}")
-    for pair in pairs:
-        sheet, csv_path = pair.split("=", 1)
-        n = check_sheet(book[sheet], csv_path, problems)
-        print(f"{sheet}: {book[sheet].max_row - 1} rows, {n} numbers as the CSV rounds them")
+def check_assay(path, book, store, problems):
     print(f"the store's doubles: {check_store(book, store, problems)} equal")
     check_form(path, book, problems)
     report = book["report"]
@@ -149,6 +143,25 @@ def main():
            for r in range(2, book["run"].max_row + 1)}
     print("run sheet:", ", ".join(f"{k} {run.get(k)!r}" for k in
                                   ("command", "decision_rule.name", "inputs[0].role")))
+
+
+def main():
+    args = sys.argv[1:]
+    path, store = args.pop(0), None
+    if args[0] == "--assay":
+        store = args[1]
+        args = args[2:]
+    book = openpyxl.load_workbook(path)
+    problems = []
+    want = [p.split("=", 1)[0] for p in args] + (["run"] if store else [])
+    if book.sheetnames != want:
+        problems.append(f"sheets {book.sheetnames}, expected {want}")
+    for pair in args:
+        sheet, csv_path = pair.split("=", 1)
+        n = check_sheet(book[sheet], csv_path, problems)
+        print(f"{sheet}: {book[sheet].max_row - 1} rows, {n} numbers as the CSV rounds them")
+    if store:
+        check_assay(path, book, store, problems)
     for p in problems[:20]:
         print("PROBLEM:", p)
     sys.exit(1 if problems else 0)

@@ -87,7 +87,7 @@ sheet_from(wbook *w, const char *sheet, struct job *j,
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		return -1;
 	}
-	bad = wbook_csv_sheet(w, sheet, text, len);
+	bad = wbook_csv_sheet(w, sheet, text, len, NULL);
 	free(text);
 	return bad;
 }
@@ -117,9 +117,11 @@ assay_book_write(struct job *j)
 	if (w == NULL)
 		return -1;
 	bad = sheet_from(w, "report", j, al_report_write) != 0 ||
-	      wbook_csv_sheet(w, "replicates", b->reps_text, b->reps_len) != 0 ||
+	      wbook_csv_sheet(w, "replicates", b->reps_text, b->reps_len,
+			      NULL) != 0 ||
 	      (j->rejs.count > 0 &&
-	       wbook_csv_sheet(w, "rejects", b->rejs_text, b->rejs_len) != 0) ||
+	       wbook_csv_sheet(w, "rejects", b->rejs_text, b->rejs_len,
+			       NULL) != 0) ||
 	      (j->a.budget && sheet_from(w, "budget", j, al_budget_write) != 0) ||
 	      wbook_json_sheet(w, "run", j->rec.root, not_in_run_sheet, 2) != 0;
 	if (wbook_close(w) != 0 || bad)

@@ -11,6 +11,7 @@
 #include "store.h"
 #include "trend_plot.h"
 #include "trend_reports.h"
+#include "workbook.h"
 
 static void
 usage(FILE *out)
@@ -41,6 +42,8 @@ usage(FILE *out)
 	      "  -o, --output FILE      the points as CSV (default standard\n"
 	      "                         output: a table on a terminal)\n"
 	      "      --summary FILE     centre, sigmas, Cp, Cpk, Pp, Ppk (CSV)\n"
+	      "      --xlsx FILE        the points and the summary as one\n"
+	      "                         workbook, numbers to the last digit\n"
 	      "      --plot FILE        the chart as an SVG picture\n"
 	      "      --format F         table (aligned columns) or csv; default\n"
 	      "                         table on a terminal, csv into a pipe\n"
@@ -59,23 +62,25 @@ usage(FILE *out)
 
 enum { OPT_STORE = CLI_OPT, OPT_PRODUCT, OPT_QUANTITY, OPT_FROM, OPT_TO,
        OPT_CHART, OPT_TARGET, OPT_SIGMA, OPT_BASELINE, OPT_LAMBDA, OPT_WIDTH,
-       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY, OPT_PLOT, OPT_FORMAT };
+       OPT_CUSUM_K, OPT_CUSUM_H, OPT_SUMMARY, OPT_PLOT, OPT_FORMAT,
+       OPT_XLSX };
 
 static const char *const options[] = {
 	"store", "product", "quantity", "from", "to", "chart", "target",
 	"sigma", "baseline", "lambda", "width", "cusum-k", "cusum-h",
-	"summary", "plot", "format", "output=o",
+	"summary", "plot", "format", "xlsx", "output=o",
 };
 _Static_assert(sizeof options / sizeof options[0] ==
-		       OPT_FORMAT - CLI_OPT + 2,
+		       OPT_XLSX - CLI_OPT + 2,
 	       "one name for each OPT_ value, then the one with a letter");
 
 enum { CHART_IMR, CHART_EWMA, CHART_CUSUM };
 
 struct job {
 	const char *store, *product, *quantity, *from, *to, *output,
-		*summary, *plot;
+		*summary, *plot, *xlsx;
 	int chart, has_sigma;
+	int digits; /* significant digits of the numbers written */
 	int table; /* -1 until --format or the terminal says */
 	int shown_table; /* the points go to a person as a table */
 	double baseline;
@@ -97,6 +102,7 @@ one_option(void *ctx, int c, char *text)
 		{OPT_QUANTITY, &j->quantity}, {OPT_FROM, &j->from},
 		{OPT_TO, &j->to},	    {'o', &j->output},
 		{OPT_SUMMARY, &j->summary}, {OPT_PLOT, &j->plot},
+		{OPT_XLSX, &j->xlsx},
 	};
 	const cli_range r[] = {
 		{OPT_TARGET, "--target", -HUGE_VAL, HUGE_VAL, 0,
@@ -149,8 +155,7 @@ static int
 put_points(void *ctx, FILE *out)
 {
 	struct job *j = ctx;
-	/* a table is read by a person: 5 significant digits; CSV keeps 10 */
-	int digits = j->shown_table ? 5 : 10;
+	int digits = j->digits;
 	static const char *const tail[] = {"mr,mr_ucl", "ewma",
 					   "cusum_hi,cusum_lo"};
 	fprintf(out, "seq,lot,sample,date,value,centre,lcl,ucl,%s,signals\n",
@@ -199,14 +204,13 @@ put_points(void *ctx, FILE *out)
 	return ferror(out) ? -1 : 0;
 }
 
-/* A number for the summary: 10 significant digits, "" when not a
- * number. */
+/* A number for the summary, "" when not a number. */
 static const char *
-num(double v, int has, char *buf, size_t cap)
+num(double v, int has, int digits, char *buf, size_t cap)
 {
 	if (!has || !isfinite(v))
 		return "";
-	al_format_sig(v, 10, buf, cap);
+	al_format_sig(v, digits, buf, cap);
 	return buf;
 }
 
@@ -218,6 +222,7 @@ put_summary(const struct job *j, FILE *out)
 	al_trend_capability c;
 	double *x = al_malloc(j->n * sizeof *x);
 	char b[9][40];
+	int d = j->digits;
 
 	if (x == NULL)
 		return -1;
@@ -232,13 +237,15 @@ put_summary(const struct job *j, FILE *out)
 	      out);
 	al_csv_put_field(out, j->product, ',');
 	fprintf(out, ",%s,%zu,%s,%s,%s,%s,%s,%s,%s,%s,%s,%lu\n", j->quantity,
-		j->n, num(j->lim.centre, 1, b[0], 40),
-		num(j->lim.sigma, 1, b[1], 40),
-		num(c.sigma_overall, 1, b[2], 40),
-		num(last->spec_min, last->has_min, b[3], 40),
-		num(last->spec_max, last->has_max, b[4], 40),
-		num(c.cp, c.has_cp, b[5], 40), num(c.cpk, c.has_cpk, b[6], 40),
-		num(c.pp, c.has_cp, b[7], 40), num(c.ppk, c.has_cpk, b[8], 40),
+		j->n, num(j->lim.centre, 1, d, b[0], 40),
+		num(j->lim.sigma, 1, d, b[1], 40),
+		num(c.sigma_overall, 1, d, b[2], 40),
+		num(last->spec_min, last->has_min, d, b[3], 40),
+		num(last->spec_max, last->has_max, d, b[4], 40),
+		num(c.cp, c.has_cp, d, b[5], 40),
+		num(c.cpk, c.has_cpk, d, b[6], 40),
+		num(c.pp, c.has_cp, d, b[7], 40),
+		num(c.ppk, c.has_cpk, d, b[8], 40),
 		j->signalled);
 	return ferror(out) ? -1 : 0;
 }
@@ -378,18 +385,57 @@ put_plot(const struct job *j, FILE *out)
 	return rc;
 }
 
+/* The points and the summary as one workbook, their numbers to the
+ * last digit (17 significant): 0, or -1 after a message. */
+static int
+put_book(struct job *j, al_outfile *f)
+{
+	char *text[2] = {NULL, NULL};
+	size_t len[2] = {0, 0};
+	int keep = j->digits, bad = 0;
+	const char *unit = strcmp(j->quantity, "rsd_pct") == 0 ? "%"
+			   : *last_unit(j)			     ? last_unit(j)
+								     : NULL;
+	wbook *w;
+
+	j->digits = 17;
+	for (int k = 0; k < 2 && !bad; k++) {
+		FILE *mem = open_memstream(&text[k], &len[k]);
+
+		bad = mem == NULL ||
+		      (k ? put_summary(j, mem) : put_points(j, mem)) != 0;
+		if (mem && fclose(mem) != 0)
+			bad = 1;
+	}
+	j->digits = keep;
+	if (bad)
+		cli_error("%s", al_strerror(AL_ENOMEM));
+	else {
+		w = wbook_new(al_outfile_written_path(f), j->xlsx);
+		bad = w == NULL ||
+		      wbook_csv_sheet(w, "points", text[0], len[0], unit) != 0 ||
+		      wbook_csv_sheet(w, "summary", text[1], len[1], unit) != 0;
+		bad |= wbook_close(w) != 0;
+	}
+	free(text[0]);
+	free(text[1]);
+	return bad || al_outfile_prepare(f) != AL_OK ? -1 : 0;
+}
+
 /* The points and the summary into their files (or the points on
  * standard output), whole or not at all. */
 static int
 write_all(struct job *j)
 {
 	al_status st;
-	al_outfile *o = NULL, *s = NULL, *pic = NULL;
-	al_outfile **all[] = {&o, &s, &pic};
+	al_outfile *o = NULL, *s = NULL, *pic = NULL, *book = NULL;
+	al_outfile **all[] = {&o, &s, &pic, &book};
 	int bad = 0;
 
 	j->shown_table = j->output == NULL &&
 			 (j->table < 0 ? cli_is_terminal() : j->table);
+	/* a table is read by a person: 5 significant digits; CSV keeps 10 */
+	j->digits = j->shown_table ? 5 : 10;
 	if (j->output == NULL)
 		bad = cli_put_table(j->shown_table, put_points, j) != 0;
 	else if ((o = al_outfile_open(j->output, &st)) == NULL ||
@@ -408,10 +454,17 @@ write_all(struct job *j)
 		bad = 1;
 	if (bad)
 		cli_error("%s", cli_reason(AL_OK));
-	if (bad || cli_commit_all(all, 3) != 0) {
+	if (!bad && j->xlsx && (book = al_outfile_open(j->xlsx, &st)) == NULL) {
+		cli_error("%s: %s", j->xlsx, cli_reason(st));
+		bad = 1;
+	}
+	if (!bad && book && put_book(j, book) != 0)
+		bad = 1;
+	if (bad || cli_commit_all(all, 4) != 0) {
 		al_outfile_abort(o);
 		al_outfile_abort(s);
 		al_outfile_abort(pic);
+		al_outfile_abort(book);
 		return -1;
 	}
 	return 0;

@@ -75,9 +75,10 @@ wbook_new(const char *path, const char *name)
 }
 
 int
-wbook_csv_sheet(wbook *w, const char *sheet, const char *csv, size_t len)
+wbook_csv_sheet(wbook *w, const char *sheet, const char *csv, size_t len,
+		const char *unit)
 {
-	(void)w, (void)sheet, (void)csv, (void)len;
+	(void)w, (void)sheet, (void)csv, (void)len, (void)unit;
 	return -1;
 }
 

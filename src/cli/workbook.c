@@ -37,12 +37,12 @@ static const struct column {
 	{"meq", "meq"},		  {"value", "unit"},
 	{"standard_uncertainty", "unit"}, {"sensitivity", NULL},
 	{"contribution", "result's unit"}, {"share_pct", "%"},
-	{"seq", NULL},		  {"centre", NULL},
-	{"lcl", NULL},		  {"ucl", NULL},
-	{"mr", NULL},		  {"mr_ucl", NULL},
-	{"ewma", NULL},		  {"cusum_hi", NULL},
-	{"cusum_lo", NULL},	  {"sigma_within", NULL},
-	{"sigma_overall", NULL},  {"cp", NULL},
+	{"seq", NULL},		  {"centre", "unit"},
+	{"lcl", "unit"},	  {"ucl", "unit"},
+	{"mr", "unit"},		  {"mr_ucl", "unit"},
+	{"ewma", "unit"},	  {"cusum_hi", "unit"},
+	{"cusum_lo", "unit"},	  {"sigma_within", "unit"},
+	{"sigma_overall", "unit"}, {"cp", NULL},
 	{"cpk", NULL},		  {"pp", NULL},
 	{"ppk", NULL},		  {"points_signalled", NULL},
 };
@@ -76,6 +76,7 @@ struct sheet {
 	lxw_col_t col, n_cols;
 	const struct column *cols[MAX_COLUMNS];
 	int is_status[MAX_COLUMNS], has_unit;
+	const char *unit; /* the sheet's one unit, or NULL */
 	double width[MAX_COLUMNS];
 	lxw_error err;
 	int too_big;
@@ -136,6 +137,25 @@ wbook_new(const char *path, const char *name)
 	return w;
 }
 
+/* Does the CSV's header (its first line) have a unit column? */
+static int
+has_unit_column(const char *csv, size_t len)
+{
+	const char *end = memchr(csv, '\n', len), *p = csv;
+
+	if (end == NULL)
+		end = csv + len;
+	while (p < end) {
+		const char *comma = memchr(p, ',', (size_t)(end - p));
+		const char *stop = comma ? comma : end;
+
+		if (stop - p == 4 && memcmp(p, "unit", 4) == 0)
+			return 1;
+		p = stop + 1;
+	}
+	return 0;
+}
+
 /* A text cell's format: the status fills, else none. */
 static lxw_format *
 text_format(const struct sheet *s, const char *text)
@@ -157,11 +177,11 @@ header_cell(struct sheet *s, const char *name)
 
 	s->cols[s->col] = c;
 	s->is_status[s->col] = strcmp(name, "status") == 0;
-	if (strcmp(name, "unit") == 0)
-		s->has_unit = 1;
 	if (c && c->unit && strcmp(c->unit, "unit") != 0)
 		snprintf(text, sizeof text, "%s (%s)", name, c->unit);
-	else if (c && c->unit)
+	else if (c && c->unit && s->unit)
+		snprintf(text, sizeof text, "%s (%s)", name, s->unit);
+	else if (c && c->unit && s->has_unit)
 		snprintf(text, sizeof text, "%s (in unit)", name);
 	else
 		snprintf(text, sizeof text, "%s", name);
@@ -208,9 +228,11 @@ on_row(int end, void *data)
 }
 
 int
-wbook_csv_sheet(wbook *w, const char *name, const char *csv, size_t len)
+wbook_csv_sheet(wbook *w, const char *name, const char *csv, size_t len,
+		const char *unit)
 {
-	struct sheet s = {.w = w};
+	struct sheet s = {.w = w, .has_unit = has_unit_column(csv, len),
+			  .unit = unit};
 	struct csv_parser p;
 	int bad;
 

@@ -20,9 +20,11 @@ wbook *wbook_new(const char *path, const char *name);
  * decimal point, a header row first; numbers with 17 significant
  * digits, so that each reads back as the very double). A column is
  * numeric by its name (workbook.c: the columns the program computes);
- * an empty cell stays empty. 0, or -1 after a message. */
+ * an empty cell stays empty. The header names the unit: unit when the
+ * whole sheet has one, else "in unit" where the rows have a unit
+ * column. 0, or -1 after a message. */
 int wbook_csv_sheet(wbook *w, const char *sheet, const char *csv,
-		       size_t len);
+		    size_t len, const char *unit);
 
 /* A sheet of the record's fields, one a row (field, value), every
  * member of root but those named in skip. */
