@@ -1,7 +1,7 @@
 #!/bin/sh
 # The store's tests against PostgreSQL (issue 23): a throwaway server
 # (initdb and pg_ctl from Debian's postgresql package) on a Unix socket
-# in a temporary folder, no TCP; the CLI cases store_chain and
+# in a temporary folder, no TCP; the CLI cases store_chain, sign_off and
 # trend_charts and the kill -9 test run against it, with the same
 # expected output as against SQLite; the server is stopped and removed
 # at the end. initdb refuses to run as root: as root the server runs as
@@ -43,7 +43,7 @@ echo "PostgreSQL $("$bin/postgres" --version | awk '{ print $3 }') on $dir"
 STORE_PG=$dir
 export STORE_PG
 fail=0
-for c in store_chain trend_charts; do
+for c in store_chain trend_charts sign_off; do
 	if sh "$here/cli/run_case.sh" "$here/cli/cases/$c" "$acidlot" "$samples"; then
 		echo "$c: passed against PostgreSQL"
 	else

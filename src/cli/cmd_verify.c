@@ -368,7 +368,7 @@ verify_store(const char *path)
 {
 	store *s = store_open(path, 0);
 	unsigned long runs = 0, results = 0;
-	char bad[128], why[256];
+	char bad[512], why[512]; /* each cap: sizeof why */
 	int rc;
 
 	if (s == NULL)
@@ -380,7 +380,7 @@ verify_store(const char *path)
 	if (rc > 0 && strcmp(bad, "the store") == 0)
 		printf("%s (the %lu runs' chain itself holds)\n", why, runs);
 	else if (rc > 0)
-		printf("run %s: %s (the %lu run%s before it check%s out)\n",
+		printf("%s: %s (the %lu run%s before it check%s out)\n",
 		       bad, why, runs, runs == 1 ? "" : "s",
 		       runs == 1 ? "s" : "");
 	if (rc > 0) {

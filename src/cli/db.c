@@ -20,6 +20,19 @@ db_open(const char *target, int create)
 					: db_sqlite_open(target, create);
 }
 
+int
+db_needs_schema(const db_table *tables, size_t n, int from, int want)
+{
+	int oldest = want;
+
+	for (size_t i = 0; i < n; i++)
+		if (tables[i].since < oldest)
+			oldest = tables[i].since;
+	/* none yet, or one this program can bring up to date (an older
+	 * one, from before the oldest table here, is left as it is) */
+	return from == 0 || (from >= oldest && from < want);
+}
+
 void
 db_close(db *d)
 {
@@ -36,7 +49,7 @@ db_fail(db *d, const char *what)
 
 int
 db_create(db *d, const db_table *tables, size_t n, const char *advancing,
-	  const char *const *extra, size_t n_extra, int want, int *version)
+	  const db_statement *extra, size_t n_extra, int want, int *version)
 {
 	return d->ops->create(d, tables, n, advancing, extra, n_extra, want,
 			      version);

@@ -24,10 +24,17 @@ typedef struct db_value {
 	size_t len;
 } db_value;
 
-/* A table of the schema: its name and its column definitions. */
+/* A table of the schema: its name, its column definitions and the
+ * schema version that brought it; a statement run when the schema is
+ * made, and its version. */
 typedef struct db_table {
 	const char *name, *columns;
+	int since;
 } db_table;
+typedef struct db_statement {
+	const char *sql;
+	int since;
+} db_statement;
 
 /* Is target a PostgreSQL connection URI (postgresql:// or
  * postgres://)? Otherwise it names an SQLite file. */
@@ -38,14 +45,16 @@ int db_is_postgresql(const char *target);
 db *db_open(const char *target, int create);
 void db_close(db *d);
 
-/* The schema made on first use, in one transaction: the tables, their
- * append-only triggers (<table>_no_update and _no_delete, except that
- * the table named advancing may be updated when its seq grows by one),
- * the statements in extra, and the version. *version is what the
- * database holds afterwards. 0, or -1 after a message. */
+/* The schema made on first use, or brought from an earlier version to
+ * want, in one transaction: the tables (those since the database's
+ * version), their append-only triggers (<table>_no_update and
+ * _no_delete, except that the table named advancing may be updated
+ * when its seq grows by one), the statements in extra, and the version.
+ * *version is what the database holds afterwards (a later version than
+ * want is left alone). 0, or -1 after a message. */
 int db_create(db *d, const db_table *tables, size_t n,
-	      const char *advancing, const char *const *extra, size_t n_extra,
-	      int want, int *version);
+	      const char *advancing, const db_statement *extra,
+	      size_t n_extra, int want, int *version);
 
 /* A statement with no rows: 0, or -1 after a message. */
 int db_exec(db *d, const char *sql, const db_value *params, int n);

@@ -10,7 +10,7 @@ struct db_ops {
 	void (*close)(db *d);
 	const char *(*errmsg)(db *d);
 	int (*create)(db *d, const db_table *tables, size_t n,
-		      const char *advancing, const char *const *extra,
+		      const char *advancing, const db_statement *extra,
 		      size_t n_extra, int want, int *version);
 	int (*exec)(db *d, const char *sql, const db_value *params, int n);
 	int (*begin_write)(db *d);
@@ -31,6 +31,9 @@ struct db {
 struct db_query {
 	db *d;
 };
+
+/* Is a schema to be made (from 0) or brought up to want? */
+int db_needs_schema(const db_table *tables, size_t n, int from, int want);
 
 db *db_sqlite_open(const char *target, int create);
 db *db_pg_open(const char *target, int create);

@@ -292,17 +292,21 @@ append_only(db *d, const char *table, int advancing)
 static int pg_commit(db *d);
 static void pg_rollback(db *d);
 
+/* The tables and statements since version from (0: all, with the
+ * trigger functions and the version table), then want noted. */
 static int
 make_schema(db *d, const db_table *tables, size_t n, const char *advancing,
-	    const char *const *extra, size_t n_extra, int want)
+	    const db_statement *extra, size_t n_extra, int from, int want)
 {
 	db_value v = {.type = DB_INT, .i = want};
 	char sql[2048];
 
-	for (size_t i = 0; i < 2; i++)
+	for (size_t i = 0; from == 0 && i < 2; i++)
 		if (pg_exec(d, functions[i], NULL, 0) != 0)
 			return -1;
 	for (size_t i = 0; i < n; i++) {
+		if (tables[i].since <= from)
+			continue;
 		snprintf(sql, sizeof sql, "CREATE TABLE %s (%s)",
 			 tables[i].name, tables[i].columns);
 		if (pg_exec(d, sql, NULL, 0) != 0 ||
@@ -311,18 +315,20 @@ make_schema(db *d, const db_table *tables, size_t n, const char *advancing,
 			return -1;
 	}
 	for (size_t i = 0; i < n_extra; i++)
-		if (pg_exec(d, extra[i], NULL, 0) != 0)
+		if (extra[i].since > from &&
+		    pg_exec(d, extra[i].sql, NULL, 0) != 0)
 			return -1;
-	if (pg_exec(d, "CREATE TABLE store_version (version BIGINT NOT NULL)",
-		    NULL, 0) != 0 ||
-	    append_only(d, "store_version", 0) != 0)
+	if (from == 0 &&
+	    (pg_exec(d, "CREATE TABLE store_version (version BIGINT NOT NULL)",
+		     NULL, 0) != 0 ||
+	     append_only(d, "store_version", 0) != 0))
 		return -1;
 	return pg_exec(d, "INSERT INTO store_version VALUES (?1)", &v, 1);
 }
 
 static int
 pg_create(db *d, const db_table *tables, size_t n, const char *advancing,
-	  const char *const *extra, size_t n_extra, int want, int *version)
+	  const db_statement *extra, size_t n_extra, int want, int *version)
 {
 	/* one first use at a time: the others wait, then find the store */
 	if (pg_exec(d, "BEGIN", NULL, 0) != 0 ||
@@ -334,9 +340,9 @@ pg_create(db *d, const db_table *tables, size_t n, const char *advancing,
 		cli_error("%s: holds no acidlot store", d->target);
 		return -1;
 	}
-	if (*version == 0) {
-		if (make_schema(d, tables, n, advancing, extra, n_extra, want) !=
-		    0)
+	if (db_needs_schema(tables, n, *version, want)) {
+		if (make_schema(d, tables, n, advancing, extra, n_extra,
+				*version, want) != 0)
 			return pg_rollback(d), -1;
 		*version = want;
 	}

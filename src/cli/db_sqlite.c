@@ -176,14 +176,19 @@ static int sq_commit(db *d);
 
 static int
 sq_create(db *d, const db_table *tables, size_t n, const char *advancing,
-	  const char *const *extra, size_t n_extra, int want, int *version)
+	  const db_statement *extra, size_t n_extra, int want, int *version)
 {
 	char sql[2048];
+	int from;
 
 	if (exec_plain(d, "BEGIN IMMEDIATE") != 0)
 		return -1;
-	*version = user_version(d);
-	for (size_t i = 0; *version == 0 && i < n; i++) {
+	from = *version = user_version(d);
+	if (!db_needs_schema(tables, n, from, want))
+		return sq_commit(d);
+	for (size_t i = 0; i < n; i++) {
+		if (tables[i].since <= from)
+			continue;
 		/* every table has a primary key, its rows kept in it */
 		snprintf(sql, sizeof sql, "CREATE TABLE %s (%s) WITHOUT ROWID",
 			 tables[i].name, tables[i].columns);
@@ -192,15 +197,13 @@ sq_create(db *d, const db_table *tables, size_t n, const char *advancing,
 				strcmp(tables[i].name, advancing) == 0) != 0)
 			return sq_rollback(d), -1;
 	}
-	for (size_t i = 0; *version == 0 && i < n_extra; i++)
-		if (exec_plain(d, extra[i]) != 0)
+	for (size_t i = 0; i < n_extra; i++)
+		if (extra[i].since > from && exec_plain(d, extra[i].sql) != 0)
 			return sq_rollback(d), -1;
-	if (*version == 0) {
-		snprintf(sql, sizeof sql, "PRAGMA user_version = %d", want);
-		if (exec_plain(d, sql) != 0)
-			return sq_rollback(d), -1;
-		*version = want;
-	}
+	snprintf(sql, sizeof sql, "PRAGMA user_version = %d", want);
+	if (exec_plain(d, sql) != 0)
+		return sq_rollback(d), -1;
+	*version = want;
 	return sq_commit(d);
 }
 

@@ -36,6 +36,10 @@ usage(FILE *out)
 	      "  endpoint FILE...  endpoint volumes from titration curves\n"
 	      "                  (pH readings), with SVG pictures\n"
 	      "  trend           a control chart of a product's stored results\n"
+	      "  runs            the runs in the results store, with their\n"
+	      "                  statuses and signatures\n"
+	      "  sign            a reviewer's or approver's signature on a\n"
+	      "                  stored run\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -115,6 +119,8 @@ dispatch(int argc, char **argv)
 		{"template", NULL, cmd_template},
 		{"endpoint", NULL, cmd_endpoint},
 		{"trend", NULL, cmd_trend},
+		{"runs", NULL, cmd_runs},
+		{"sign", NULL, cmd_sign},
 	};
 	const char *names[sizeof commands / sizeof commands[0]], *near;
 	const char *cmd;

@@ -143,6 +143,19 @@ run_time(time_t *now)
 }
 
 int
+record_now(char when[32])
+{
+	time_t now;
+	struct tm tm;
+
+	if (run_time(&now) != 0)
+		return -1;
+	gmtime_r(&now, &tm);
+	strftime(when, 32, "%Y-%m-%dT%H:%M:%SZ", &tm);
+	return 0;
+}
+
+int
 record_start(run_record *r, const char *command, int argc, char **argv,
 	     const char *analyst)
 {

@@ -56,6 +56,11 @@ typedef struct run_record {
  * NULL when memory runs out; json_pack's "o" takes it. */
 json_t *record_text(const char *s);
 
+/* Now in UTC as YYYY-MM-DDTHH:MM:SSZ (SOURCE_DATE_EPOCH when set, as
+ * for a record): 0, or -1 after saying why SOURCE_DATE_EPOCH is
+ * refused. */
+int record_now(char when[32]);
+
 /* Starts a record: program, version, command line, UTC time (or
  * SOURCE_DATE_EPOCH when set, for reproducible tests), analyst. 0 on
  * success, -1 out of memory, -2 when SOURCE_DATE_EPOCH is refused (said

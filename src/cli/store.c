@@ -9,15 +9,11 @@
  * hashes them the same way, so that a row changed, added or deleted
  * after the run breaks the chain at that run. */
 #define _XOPEN_SOURCE 700
-#include <math.h>
-#include <nettle/sha2.h>
 #include <stdint.h>
 #include <stdio.h>
-#include <string.h>
 
 #include "cli.h"
-#include "db.h"
-#include "store.h"
+#include "store_int.h"
 
 /* The covered tables, in the hash's order (the order a run writes
  * them in). */
@@ -25,21 +21,21 @@ enum { T_INPUTS, T_REPLICATES, T_RESULTS, T_TITRANTS, N_COVERED };
 
 static const db_table tables[] = {
 	{"head", "one BIGINT PRIMARY KEY, seq BIGINT NOT NULL,"
-		 " hash TEXT NOT NULL"},
+		 " hash TEXT NOT NULL", 2},
 	{"runs", "seq BIGINT PRIMARY KEY, run_id TEXT NOT NULL UNIQUE,"
 		 " started_utc TEXT NOT NULL, analyst TEXT, os_user TEXT,"
 		 " command TEXT NOT NULL, version TEXT NOT NULL,"
 		 " inputs TEXT NOT NULL, reason TEXT, prev_hash TEXT NOT NULL,"
-		 " hash TEXT NOT NULL"},
+		 " hash TEXT NOT NULL", 2},
 	{"run_inputs", "run_id TEXT NOT NULL, pos BIGINT NOT NULL,"
 		       " name TEXT NOT NULL, sha256 TEXT NOT NULL,"
-		       " PRIMARY KEY (run_id, pos)"},
+		       " PRIMARY KEY (run_id, pos)", 2},
 	{"replicates", "run_id TEXT NOT NULL, pos BIGINT NOT NULL, file TEXT,"
 		       " line BIGINT, product TEXT, lot TEXT, sample TEXT,"
 		       " replicate TEXT, meq DOUBLE PRECISION,"
 		       " value DOUBLE PRECISION, unit TEXT, flags TEXT,"
 		       " curve TEXT, endpoint_mode TEXT,"
-		       " PRIMARY KEY (run_id, pos)"},
+		       " PRIMARY KEY (run_id, pos)", 2},
 	{"results", "run_id TEXT NOT NULL, pos BIGINT NOT NULL,"
 		    " report_id TEXT NOT NULL, product TEXT, lot TEXT,"
 		    " sample TEXT, acid TEXT, unit TEXT, n BIGINT NOT NULL,"
@@ -56,7 +52,7 @@ static const db_table tables[] = {
 		    " brix_corrected DOUBLE PRECISION,"
 		    " brix_acid_ratio DOUBLE PRECISION,"
 		    " water_pct DOUBLE PRECISION, basis TEXT, date TEXT,"
-		    " PRIMARY KEY (run_id, pos)"},
+		    " PRIMARY KEY (run_id, pos)", 2},
 	{"titrants", "run_id TEXT NOT NULL, pos BIGINT NOT NULL,"
 		     " titrant_lot TEXT NOT NULL, standard TEXT, n BIGINT NOT NULL,"
 		     " concentration_mol_l DOUBLE PRECISION,"
@@ -65,14 +61,31 @@ static const db_table tables[] = {
 		     " expanded_u_mol_l DOUBLE PRECISION, k DOUBLE PRECISION,"
 		     " standardised_on TEXT, valid_until TEXT,"
 		     " status TEXT NOT NULL, reason TEXT,"
-		     " PRIMARY KEY (run_id, pos)"},
+		     " PRIMARY KEY (run_id, pos)", 2},
+	/* version 3: signatures and certificates, links of the chain */
+	{"signatures", "seq BIGINT PRIMARY KEY, run_id TEXT NOT NULL,"
+		       " name TEXT NOT NULL, role TEXT NOT NULL,"
+		       " meaning TEXT NOT NULL, reason TEXT NOT NULL,"
+		       " signed_utc TEXT NOT NULL, os_user TEXT,"
+		       " self_approval BIGINT NOT NULL, run_hash TEXT NOT NULL,"
+		       " prev_hash TEXT NOT NULL, hash TEXT NOT NULL", 3},
+	{"certificates", "seq BIGINT PRIMARY KEY,"
+			 " certificate_id TEXT NOT NULL UNIQUE,"
+			 " product TEXT, lot TEXT NOT NULL, run_id TEXT NOT NULL,"
+			 " signature_seq BIGINT, customer TEXT,"
+			 " issued_utc TEXT NOT NULL, draft BIGINT NOT NULL,"
+			 " replaces TEXT, content_sha256 TEXT NOT NULL,"
+			 " prev_hash TEXT NOT NULL, hash TEXT NOT NULL", 3},
 };
 
-static const char *const extra[] = {
-	"CREATE INDEX run_inputs_sha256 ON run_inputs (sha256)",
-	"CREATE INDEX results_product ON results (product)",
-	"INSERT INTO head VALUES (1, 0, "
-	"'0000000000000000000000000000000000000000000000000000000000000000')",
+static const db_statement extra[] = {
+	{"CREATE INDEX run_inputs_sha256 ON run_inputs (sha256)", 2},
+	{"CREATE INDEX results_product ON results (product)", 2},
+	{"INSERT INTO head VALUES (1, 0, "
+	 "'0000000000000000000000000000000000000000000000000000000000000000')",
+	 2},
+	{"CREATE INDEX signatures_run ON signatures (run_id)", 3},
+	{"CREATE INDEX certificates_lot ON certificates (lot)", 3},
 };
 
 /* Each covered table: its name and the query verify reads a run's rows
@@ -84,49 +97,11 @@ static const char *const covered[N_COVERED][2] = {
 	{"titrants", "SELECT * FROM titrants WHERE run_id = ?1 ORDER BY pos"},
 };
 
-/* The runs row: its fields, the last (hash) not hashed. */
-enum { RUN_HASHED = 10, RUN_COLUMNS = 11 };
-
-struct store {
-	db *db;
-	/* the run being appended */
-	struct sha256_ctx h;
-	int table;	  /* the covered table being hashed; -1 none yet */
-	long long seq;	  /* the run's number */
-	long replicates;  /* written */
-	db_value run[RUN_COLUMNS];
-	char prev[65], hash[65];
-	char *inputs; /* the runs.inputs text */
-};
-
-static db_value
-text_value(const char *s)
-{
-	if (s == NULL || *s == '\0')
-		return (db_value){.type = DB_NULL};
-	return (db_value){.type = DB_TEXT, .t = s, .len = strlen(s)};
-}
-
-static db_value
-int_value(long long i)
-{
-	return (db_value){.type = DB_INT, .i = i};
-}
-
-/* A number, NULL when it is undefined (has 0) or not finite. */
-static db_value
-real_value(int has, double r)
-{
-	if (!has || !isfinite(r))
-		return (db_value){.type = DB_NULL};
-	return (db_value){.type = DB_REAL, .r = r};
-}
-
 /* A row into the hash, each value tagged with its type: N; I<integer>;
  * R<16 hex digits of the IEEE 754 bits>; T<bytes>:<text>; the row ends
  * in '\n'. Written into a buffer, hashed in one piece. */
-static void
-hash_row(struct sha256_ctx *h, const db_value *v, int n)
+void
+store_hash_row(struct sha256_ctx *h, const db_value *v, int n)
 {
 	static const char hex[] = "0123456789abcdef";
 	char buf[1024];
@@ -179,8 +154,8 @@ hash_tables_to(struct sha256_ctx *h, int *at, int table)
 	}
 }
 
-static void
-hash_hex(struct sha256_ctx *h, char hex[65])
+void
+store_hash_hex(struct sha256_ctx *h, char hex[65])
 {
 	uint8_t digest[SHA256_DIGEST_SIZE];
 
@@ -195,7 +170,7 @@ hash_run_fields(struct sha256_ctx *h, const db_value *run)
 {
 	sha256_init(h);
 	sha256_update(h, 16, (const uint8_t *)"acidlot-store-2\n");
-	hash_row(h, run, RUN_HASHED);
+	store_hash_row(h, run, RUN_HASHED);
 }
 
 /* One row of the run into a covered table, hashed as it goes in. */
@@ -208,7 +183,7 @@ put_row(store *s, int table, const db_value *v, int n)
 		return -1;
 	}
 	hash_tables_to(&s->h, &s->table, table);
-	hash_row(&s->h, v, n);
+	store_hash_row(&s->h, v, n);
 	return db_insert(s->db, covered[table][0], v, n);
 }
 
@@ -250,8 +225,8 @@ store_close(store *s)
 
 /* The chain's head: the last run's number and hash (0 and 64 zeros
  * before the first run). 0, or -1 after a message. */
-static int
-read_head(db *d, long long *seq, char hash[65])
+int
+store_read_head(db *d, long long *seq, char hash[65])
 {
 	db_query *q = db_query_open(d, "SELECT seq, hash FROM head", NULL, 0);
 	const db_value *row;
@@ -278,7 +253,7 @@ store_begin(store *s)
 {
 	if (db_begin_write(s->db) != 0)
 		return -1;
-	if (read_head(s->db, &s->seq, s->prev) != 0) {
+	if (store_read_head(s->db, &s->seq, s->prev) != 0) {
 		db_rollback(s->db);
 		return -1;
 	}
@@ -467,18 +442,22 @@ store_add_titrant(store *s, long pos, const al_std_lot *l, double k,
 }
 
 int
+store_advance_head(db *d, long long seq, const char *hash)
+{
+	db_value head[2] = {int_value(seq), text_value(hash)};
+
+	return db_exec(d, "UPDATE head SET seq = ?1, hash = ?2 WHERE one = 1",
+		       head, 2);
+}
+
+int
 store_commit(store *s)
 {
-	db_value head[2];
-
 	hash_tables_to(&s->h, &s->table, N_COVERED - 1);
-	hash_hex(&s->h, s->hash);
+	store_hash_hex(&s->h, s->hash);
 	s->run[RUN_HASHED] = text_value(s->hash);
-	head[0] = s->run[0];
-	head[1] = s->run[RUN_HASHED];
 	if (db_insert(s->db, "runs", s->run, RUN_COLUMNS) != 0 ||
-	    db_exec(s->db, "UPDATE head SET seq = ?1, hash = ?2 WHERE one = 1",
-		    head, 2) != 0 ||
+	    store_advance_head(s->db, s->seq, s->hash) != 0 ||
 	    db_commit(s->db) != 0) {
 		db_rollback(s->db);
 		return -1;
@@ -493,8 +472,8 @@ store_rollback(store *s)
 }
 
 /* A count from a query of one number, or -1 after a message. */
-static long long
-count_of(db *d, const char *sql)
+long long
+store_count(db *d, const char *sql)
 {
 	db_query *q = db_query_open(d, sql, NULL, 0);
 	const db_value *row;
@@ -509,8 +488,8 @@ count_of(db *d, const char *sql)
 
 /* Recomputes one run's hash from its stored rows (run, the runs row as
  * read) into hex. 0, or -1 after a message. */
-static int
-rehash_run(db *d, const db_value *run, char hex[65])
+int
+store_rehash_run(db *d, const db_value *run, char hex[65])
 {
 	struct sha256_ctx h;
 	int at = -1;
@@ -525,235 +504,12 @@ rehash_run(db *d, const db_value *run, char hex[65])
 			return -1;
 		hash_tables_to(&h, &at, t);
 		while ((rc = db_next(q, &row, &n)) == 1)
-			hash_row(&h, row, n);
+			store_hash_row(&h, row, n);
 		db_query_close(q);
 		if (rc < 0)
 			return -1;
 	}
-	hash_hex(&h, hex);
+	store_hash_hex(&h, hex);
 	return 0;
 }
 
-/* The runs' numbers in order, into *seqs (al_free it). */
-static int
-run_numbers(db *d, long long **seqs, size_t *n)
-{
-	db_query *q = db_query_open(d, "SELECT seq FROM runs ORDER BY seq",
-				    NULL, 0);
-	const db_value *row;
-	size_t cap = 0;
-	int cols, rc;
-
-	*seqs = NULL;
-	*n = 0;
-	if (q == NULL)
-		return -1;
-	while ((rc = db_next(q, &row, &cols)) == 1) {
-		if (*n == cap) {
-			long long *grown;
-
-			cap = 2 * cap + 64;
-			if ((grown = al_realloc(*seqs, cap * sizeof *grown)) ==
-			    NULL) {
-				cli_error("%s", al_strerror(AL_ENOMEM));
-				rc = -1;
-				break;
-			}
-			*seqs = grown;
-		}
-		(*seqs)[(*n)++] = row[0].i;
-	}
-	db_query_close(q);
-	return rc < 0 ? -1 : 0;
-}
-
-/* One run checked against the hash before it (prev, then its own):
- * 0 intact, 1 broken (its id in first_bad, why in why), -1 after a
- * message. A copy of the runs row is kept, as the covered tables are
- * read with the run's query closed (one query at a time on a
- * connection). */
-static int
-check_run(db *d, long long seq, char prev[65], char *first_bad, char *why,
-	  size_t cap)
-{
-	db_value key = int_value(seq), run[RUN_COLUMNS];
-	db_query *q = db_query_open(d, "SELECT * FROM runs WHERE seq = ?1",
-				    &key, 1);
-	const db_value *row;
-	char *copy = NULL, hash[65];
-	size_t size = 0, at = 0;
-	int n, rc;
-
-	if (q == NULL)
-		return -1;
-	if ((rc = db_next(q, &row, &n)) == 1 && n == RUN_COLUMNS) {
-		for (int c = 0; c < n; c++)
-			size += row[c].type == DB_TEXT ? row[c].len + 1 : 0;
-		if ((copy = al_malloc(size + 1)) == NULL)
-			rc = -1, cli_error("%s", al_strerror(AL_ENOMEM));
-		for (int c = 0; copy && c < n; c++) {
-			run[c] = row[c];
-			if (row[c].type != DB_TEXT)
-				continue;
-			memcpy(copy + at, row[c].t, row[c].len);
-			copy[at + row[c].len] = '\0';
-			run[c].t = copy + at;
-			at += row[c].len + 1;
-		}
-	} else if (rc >= 0)
-		rc = -1, cli_error("store: run %lld cannot be read", seq);
-	db_query_close(q);
-	if (rc < 0 || rehash_run(d, run, hash) != 0)
-		return al_free(copy), -1;
-	snprintf(first_bad, cap, "%s", run[1].type == DB_TEXT ? run[1].t : "?");
-	rc = 1;
-	if (run[9].type != DB_TEXT || strcmp(run[9].t, prev) != 0)
-		snprintf(why, cap, "its prev_hash is not the hash of the run "
-				   "before it");
-	else if (run[10].type != DB_TEXT || strcmp(run[10].t, hash) != 0)
-		snprintf(why, cap, "its data no longer match its hash");
-	else
-		rc = 0, memcpy(prev, hash, 65);
-	al_free(copy);
-	return rc;
-}
-
-/* What is outside the runs: the head (the last run's number and hash:
- * a deleted last run shows here), rows of no run. */
-static int
-outside_chain(db *d, long long last, const char *hash, char *why,
-	      size_t cap)
-{
-	long long seq = 0, orphans = count_of(
-		d, "SELECT (SELECT count(*) FROM results WHERE run_id NOT IN "
-		   "(SELECT run_id FROM runs)) + (SELECT count(*) FROM "
-		   "replicates WHERE run_id NOT IN (SELECT run_id FROM runs)) "
-		   "+ (SELECT count(*) FROM run_inputs WHERE run_id NOT IN "
-		   "(SELECT run_id FROM runs)) + (SELECT count(*) FROM "
-		   "titrants WHERE run_id NOT IN (SELECT run_id FROM runs))");
-	char head[65];
-
-	if (orphans < 0 || read_head(d, &seq, head) != 0)
-		return -1;
-	if (seq != last || strcmp(head, hash) != 0) {
-		snprintf(why, cap, "the chain's head is run %lld but the last "
-				   "run is %lld: a run was deleted or added "
-				   "outside the chain",
-			 seq, last);
-		return 1;
-	}
-	if (orphans != 0) {
-		snprintf(why, cap, "%lld row%s of no run", orphans,
-			 orphans == 1 ? "" : "s");
-		return 1;
-	}
-	return 0;
-}
-
-int
-store_verify(store *s, unsigned long *runs, unsigned long *results,
-	     char *first_bad, char *why, size_t cap)
-{
-	long long *seqs, n_results;
-	char prev[65];
-	size_t n;
-	int rc = 0;
-
-	memset(prev, '0', 64);
-	prev[64] = '\0';
-	*runs = 0;
-	first_bad[0] = why[0] = '\0';
-	if (run_numbers(s->db, &seqs, &n) != 0)
-		return -1;
-	for (size_t i = 0; rc == 0 && i < n; i++)
-		if ((rc = check_run(s->db, seqs[i], prev, first_bad, why,
-				    cap)) == 0)
-			(*runs)++;
-	if (rc == 0 && (rc = outside_chain(s->db, n ? seqs[n - 1] : 0, prev,
-					   why, cap)) == 1)
-		snprintf(first_bad, cap, "the store");
-	al_free(seqs);
-	if (rc != 0)
-		return rc;
-	if ((n_results = count_of(s->db, "SELECT count(*) FROM results")) < 0)
-		return -1;
-	*results = (unsigned long)n_results;
-	first_bad[0] = '\0';
-	return 0;
-}
-
-/* Column c's text into buf, "" for NULL. */
-static void
-text_at(const db_value *row, int c, char *buf, size_t cap)
-{
-	snprintf(buf, cap, "%.*s", row[c].type == DB_TEXT ? (int)row[c].len : 0,
-		 row[c].type == DB_TEXT ? row[c].t : "");
-}
-
-/* One row of store_points' query into p. */
-static void
-to_point(const db_value *row, store_point *p)
-{
-	text_at(row, 0, p->lot, sizeof p->lot);
-	text_at(row, 1, p->sample, sizeof p->sample);
-	text_at(row, 2, p->date, sizeof p->date);
-	text_at(row, 6, p->unit, sizeof p->unit);
-	p->value = row[3].r;
-	p->has_min = row[4].type == DB_REAL;
-	p->spec_min = row[4].r;
-	p->has_max = row[5].type == DB_REAL;
-	p->spec_max = row[5].r;
-}
-
-int
-store_points(store *s, const char *product, const char *quantity,
-	     const char *from, const char *to, store_point **out, size_t *n)
-{
-	static const char *const allowed[] = {"mean", "sd", "rsd_pct"};
-	db_value params[3] = {text_value(product), text_value(from),
-			      text_value(to)};
-	const db_value *row;
-	char sql[1024];
-	db_query *q;
-	size_t cap = 0;
-	int cols, rc;
-
-	*out = NULL;
-	*n = 0;
-	if (al_name_index(allowed, 3, quantity) < 0) {
-		cli_error("--quantity takes mean, sd or rsd_pct");
-		return -1;
-	}
-	/* the column's name from the list above, never from the input */
-	snprintf(sql, sizeof sql,
-		 "SELECT r.lot, r.sample, coalesce(r.date, "
-		 "substr(u.started_utc, 1, 10)) AS day, r.%s, r.spec_min, "
-		 "r.spec_max, r.unit "
-		 "FROM results r JOIN runs u ON u.run_id = r.run_id "
-		 "WHERE r.product = ?1 AND r.%s IS NOT NULL "
-		 "AND (CAST(?2 AS TEXT) IS NULL OR coalesce(r.date, "
-		 "substr(u.started_utc, 1, 10)) >= CAST(?2 AS TEXT)) "
-		 "AND (CAST(?3 AS TEXT) IS NULL OR coalesce(r.date, "
-		 "substr(u.started_utc, 1, 10)) <= CAST(?3 AS TEXT)) "
-		 "ORDER BY day, u.started_utc, u.seq, r.pos",
-		 quantity, quantity);
-	if ((q = db_query_open(s->db, sql, params, 3)) == NULL)
-		return -1;
-	while ((rc = db_next(q, &row, &cols)) == 1) {
-		if (*n == cap) {
-			store_point *grown;
-
-			cap = 2 * cap + 64;
-			if ((grown = al_realloc(*out, cap * sizeof *grown)) ==
-			    NULL) {
-				cli_error("%s", al_strerror(AL_ENOMEM));
-				rc = -1;
-				break;
-			}
-			*out = grown;
-		}
-		to_point(row, &(*out)[(*n)++]);
-	}
-	db_query_close(q);
-	return rc < 0 ? -1 : 0;
-}

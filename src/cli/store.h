@@ -10,7 +10,7 @@
 typedef struct store store;
 
 /* The schema's version (PRAGMA user_version). */
-#define STORE_VERSION 2
+#define STORE_VERSION 3
 
 /* Opens the store at path, an SQLite file (created on first use when
  * create is 1) or a postgresql:// URI; the schema made on first use.
@@ -67,6 +67,34 @@ typedef struct store_point {
 int store_points(store *s, const char *product, const char *quantity,
 		 const char *from, const char *to, store_point **out,
 		 size_t *n);
+
+/* A signature (acidlot sign): who, in what role, meaning reviewed,
+ * approved or rejected, why. */
+typedef struct store_signature {
+	const char *run_id, *name, *role, *meaning, *reason, *os_user;
+	int allow_self; /* --allow-self-approval */
+} store_signature;
+
+/* The signature appended as the chain's next link, its time in when
+ * (UTC). Refused, after a message (-1): a run not in the store or no
+ * longer matching its hash; the same name and meaning on the run
+ * twice; an approval by the run's analyst unless allow_self (then
+ * stored with it). 0 signed. */
+int store_sign(store *s, const store_signature *g, char when[32]);
+
+/* A run as acidlot runs lists it. */
+typedef struct store_run_info {
+	long long seq;
+	char run_id[32], started_utc[32], analyst[128], command[32];
+	char statuses[256];   /* "6 pass; 5 fail; ..." */
+	char titrants[64];    /* "3 titrant lots" (standardize) */
+	char signatures[1024]; /* "approved by NAME (ROLE) TIME; ..." */
+} store_run_info;
+
+/* The runs with a result of lot and of product (each NULL: any), in
+ * order: *n of them in *out (al_free it). 0, or -1 after a message. */
+int store_list_runs(store *s, const char *lot, const char *product,
+		    store_run_info **out, size_t *n);
 
 /* Recomputes the chain: 0 intact (with the counts), 1 broken (the run
  * named in *first_bad, cap bytes, and why in *why), -1 after a
