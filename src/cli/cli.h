@@ -163,6 +163,11 @@ const char *cli_reason(al_status st);
 /* Renames every prepared output into place, in order, and sets each
  * pointer to NULL (NULL entries are skipped). 0, or -1 after a message. */
 int cli_commit_all(al_outfile **files[], size_t n);
+
+/* Who runs the program (a store's os_user; what --analyst or --name
+ * says is the person): the login name the environment gives, else the
+ * user id written into buf. */
+const char *cli_login(char *buf, size_t cap);
 /* A usage error unless --decimal-comma goes with a delimiter other than
  * ','; returns 0 when fine. */
 int cli_check_decimal_comma(const char *cmd, const al_csv_options *csv);

@@ -75,20 +75,6 @@ sign_option(void *ctx, int c, char *text)
 	return cli_text_option(t, sizeof t / sizeof t[0], c, text);
 }
 
-/* The login that signs (the store's os_user, as for a run). */
-static const char *
-login(char *buf, size_t cap)
-{
-	const char *u = getenv("LOGNAME");
-
-	if (u == NULL || *u == '\0')
-		u = getenv("USER");
-	if (u && *u)
-		return u;
-	snprintf(buf, cap, "uid %lu", (unsigned long)getuid());
-	return buf;
-}
-
 int
 cmd_sign(int argc, char **argv)
 {
@@ -110,7 +96,7 @@ cmd_sign(int argc, char **argv)
 		return cli_usage_error("sign", "give --store, --run, --name, "
 					       "--role, --meaning and --reason "
 					       "(none empty), and nothing else");
-	j.g.os_user = login(user, sizeof user);
+	j.g.os_user = cli_login(user, sizeof user);
 	if ((s = store_open(j.store, 0)) == NULL)
 		return EXIT_TROUBLE;
 	rc = store_sign(s, &j.g, when);

@@ -548,6 +548,19 @@ cli_reason(al_status st)
 	return strerror(errno);
 }
 
+const char *
+cli_login(char *buf, size_t cap)
+{
+	const char *u = getenv("LOGNAME");
+
+	if (u == NULL || *u == '\0')
+		u = getenv("USER");
+	if (u && *u)
+		return u;
+	snprintf(buf, cap, "uid %lu", (unsigned long)getuid());
+	return buf;
+}
+
 int
 cli_commit_all(al_outfile **files[], size_t n)
 {

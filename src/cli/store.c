@@ -473,14 +473,14 @@ store_rollback(store *s)
 
 /* A count from a query of one number, or -1 after a message. */
 long long
-store_count(db *d, const char *sql)
+store_count(db *d, const char *sql, const db_value *params, int n)
 {
-	db_query *q = db_query_open(d, sql, NULL, 0);
+	db_query *q = db_query_open(d, sql, params, n);
 	const db_value *row;
 	long long c = -1;
-	int n;
+	int cols;
 
-	if (q && db_next(q, &row, &n) == 1 && row[0].type == DB_INT)
+	if (q && db_next(q, &row, &cols) == 1 && row[0].type == DB_INT)
 		c = row[0].i;
 	db_query_close(q);
 	return c;

@@ -57,18 +57,15 @@ links(db *d, struct link **out, size_t *n)
 	if (q == NULL)
 		return -1;
 	while ((rc = db_next(q, &row, &cols)) == 1) {
-		if (*n == cap) {
-			struct link *grown;
+		struct link *grown = al_reserve(*out, &cap,
+						(*n + 1) * sizeof *grown);
 
-			cap = 2 * cap + 64;
-			if ((grown = al_realloc(*out, cap * sizeof *grown)) ==
-			    NULL) {
-				cli_error("%s", al_strerror(AL_ENOMEM));
-				rc = -1;
-				break;
-			}
-			*out = grown;
+		if (grown == NULL) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			rc = -1;
+			break;
 		}
+		*out = grown;
 		(*out)[*n].seq = row[0].i;
 		(*out)[(*n)++].kind = (int)row[1].i;
 	}
@@ -206,7 +203,8 @@ outside_chain(db *d, long long last, const char *hash, char *why,
 		   "(SELECT run_id FROM runs)) + (SELECT count(*) FROM "
 		   "titrants WHERE run_id NOT IN (SELECT run_id FROM runs)) "
 		   "+ (SELECT count(*) FROM signatures WHERE run_id NOT IN "
-		   "(SELECT run_id FROM runs))");
+		   "(SELECT run_id FROM runs))",
+		NULL, 0);
 	char head[65];
 
 	if (orphans < 0 || store_read_head(d, &seq, head) != 0)
@@ -252,7 +250,8 @@ store_verify(store *s, unsigned long *runs, unsigned long *results,
 	al_free(all);
 	if (rc != 0)
 		return rc;
-	if ((n_results = store_count(s->db, "SELECT count(*) FROM results")) < 0)
+	n_results = store_count(s->db, "SELECT count(*) FROM results", NULL, 0);
+	if (n_results < 0)
 		return -1;
 	*results = (unsigned long)n_results;
 	first_bad[0] = '\0';
@@ -317,18 +316,15 @@ store_points(store *s, const char *product, const char *quantity,
 	if ((q = db_query_open(s->db, sql, params, 3)) == NULL)
 		return -1;
 	while ((rc = db_next(q, &row, &cols)) == 1) {
-		if (*n == cap) {
-			store_point *grown;
+		store_point *grown = al_reserve(*out, &cap,
+						(*n + 1) * sizeof *grown);
 
-			cap = 2 * cap + 64;
-			if ((grown = al_realloc(*out, cap * sizeof *grown)) ==
-			    NULL) {
-				cli_error("%s", al_strerror(AL_ENOMEM));
-				rc = -1;
-				break;
-			}
-			*out = grown;
+		if (grown == NULL) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			rc = -1;
+			break;
 		}
+		*out = grown;
 		to_point(row, &(*out)[(*n)++]);
 	}
 	db_query_close(q);

@@ -63,7 +63,8 @@ int store_advance_head(db *d, long long seq, const char *hash);
  * read). 0, or -1 after a message. */
 int store_rehash_run(db *d, const db_value *run, char hex[65]);
 /* A count from a query of one number, or -1 after a message. */
-long long store_count(db *d, const char *sql);
+long long store_count(db *d, const char *sql, const db_value *params,
+		      int n);
 
 /* row's n values copied into out, their texts into *storage (al_free
  * it): 0, or -1 when memory runs out (said). */

@@ -37,21 +37,6 @@ store_certificate_hash(const db_value *row, char hex[65])
 	link_hash("certificates", row, CERTIFICATE_COLUMNS, hex);
 }
 
-/* A count from a query with parameters, or -1 after a message. */
-static long long
-count_with(db *d, const char *sql, const db_value *params, int n)
-{
-	db_query *q = db_query_open(d, sql, params, n);
-	const db_value *row;
-	long long c = -1;
-	int cols;
-
-	if (q && db_next(q, &row, &cols) == 1 && row[0].type == DB_INT)
-		c = row[0].i;
-	db_query_close(q);
-	return c;
-}
-
 /* The run signed: its row, copied into run (storage: al_free it), and
  * its data checked against its hash. 0, or -1 after a message. */
 static int
@@ -94,10 +79,10 @@ refusals(db *d, const store_signature *g, const db_value *run, int *self)
 {
 	db_value key[3] = {text_value(g->run_id), text_value(g->name),
 			   text_value(g->meaning)};
-	long long twice = count_with(d, "SELECT count(*) FROM signatures "
-					"WHERE run_id = ?1 AND name = ?2 AND "
-					"meaning = ?3",
-				     key, 3);
+	long long twice = store_count(d, "SELECT count(*) FROM signatures "
+					 "WHERE run_id = ?1 AND name = ?2 AND "
+					 "meaning = ?3",
+				      key, 3);
 
 	if (twice < 0)
 		return -1;
@@ -176,18 +161,15 @@ matching_runs(db *d, const char *lot, const char *product,
 	if (q == NULL)
 		return -1;
 	while ((rc = db_next(q, &row, &cols)) == 1) {
-		store_run_info *r;
+		store_run_info *r = al_reserve(*out, &cap, (*n + 1) * sizeof *r);
 		const char *cmd;
 
-		if (*n == cap) {
-			cap = 2 * cap + 16;
-			if ((r = al_realloc(*out, cap * sizeof *r)) == NULL) {
-				cli_error("%s", al_strerror(AL_ENOMEM));
-				rc = -1;
-				break;
-			}
-			*out = r;
+		if (r == NULL) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			rc = -1;
+			break;
 		}
+		*out = r;
 		r = &(*out)[(*n)++];
 		memset(r, 0, sizeof *r);
 		r->seq = row[0].i;

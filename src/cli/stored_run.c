@@ -25,22 +25,6 @@ stored_run_input(stored_run *r, const char *name, const char *hex)
 	return 0;
 }
 
-/* Who runs the program: the login name the environment gives, else
- * the user id, as the store's os_user (the analyst is what --analyst
- * says). */
-static const char *
-os_user(char *buf, size_t cap)
-{
-	const char *u = getenv("LOGNAME");
-
-	if (u == NULL || *u == '\0')
-		u = getenv("USER");
-	if (u && *u)
-		return u;
-	snprintf(buf, cap, "uid %lu", (unsigned long)getuid());
-	return buf;
-}
-
 /* Refuses an input an earlier run stored, unless --rerun: 0, or -1
  * after a message. */
 static int
@@ -94,7 +78,7 @@ stored_run_begin(stored_run *r, run_record *rec, const char *analyst,
 		.run_id = rec->id,
 		.started_utc = json_string_value(when),
 		.analyst = analyst,
-		.os_user = os_user(r->user, sizeof r->user),
+		.os_user = cli_login(r->user, sizeof r->user),
 		.command = r->command,
 		.version = ACIDLOT_VERSION,
 		.reason = r->rerun,
