@@ -18,6 +18,7 @@ JOBS       ?= 2
 DEBIAN_PACKAGES = cmake make gcc pkg-config libgsl-dev libcsv-dev libcmocka-dev \
                   libjansson-dev nettle-dev libsqlite3-dev sqlite3 libpq-dev postgresql \
                   libxlsxwriter-dev python3-openpyxl libreoffice-calc-nogui \
+                  chromium poppler-utils \
                   libutf8proc-dev time strace bsdutils groff-base bc
 SUDO := $(shell [ "$$(id -u)" = 0 ] || echo sudo)
 

@@ -16,26 +16,16 @@
 static json_t *
 decision_rule(int guarded, double guard_r, int exclude)
 {
+	const record_rule *r = record_rule_of(guarded);
+
 	return guarded ? json_pack("{s:s, s:s, s:f, s:b, s:s}", "name",
-				   "guarded acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
+				   r->name, "reference", r->reference,
 				   "guard_band_r", guard_r, "outliers_excluded",
-				   exclude,
-				   "statement",
-				   "w = r U: pass inside [min + w, max - w], fail "
-				   "outside [min - w, max + w], conditional-pass "
-				   "or conditional-fail in between; retest when "
-				   "n < min_n, RSD > max_rsd_pct or the range "
-				   "exceeds f(n) sr (ISO 5725-6)")
-		       : json_pack("{s:s, s:s, s:b, s:s}", "name",
-				   "simple acceptance", "reference",
-				   "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
+				   exclude, "statement", r->statement)
+		       : json_pack("{s:s, s:s, s:b, s:s}", "name", r->name,
+				   "reference", r->reference,
 				   "outliers_excluded", exclude, "statement",
-				   "pass when min <= mean <= max (limits "
-				   "inclusive, the unrounded mean, measurement "
-				   "uncertainty not subtracted); retest when n < "
-				   "min_n, RSD > max_rsd_pct or the range exceeds "
-				   "f(n) sr (ISO 5725-6)");
+				   r->statement);
 }
 
 /* Cochran's tests of the run, for the record; NULL when memory runs

@@ -25,6 +25,7 @@ int cmd_endpoint(int argc, char **argv);
 int cmd_trend(int argc, char **argv);
 int cmd_runs(int argc, char **argv);
 int cmd_sign(int argc, char **argv);
+int cmd_certificate(int argc, char **argv);
 int cmd_recovery(int argc, char **argv);
 int cmd_template(int argc, char **argv);
 

@@ -40,6 +40,8 @@ usage(FILE *out)
 	      "                  statuses and signatures\n"
 	      "  sign            a reviewer's or approver's signature on a\n"
 	      "                  stored run\n"
+	      "  certificate     a certificate of analysis of a lot, from its\n"
+	      "                  approved results (HTML)\n"
 	      "\n"
 	      "  " PROG " COMMAND --help   options of one command\n"
 	      "  " PROG " --version        version\n"
@@ -121,6 +123,7 @@ dispatch(int argc, char **argv)
 		{"trend", NULL, cmd_trend},
 		{"runs", NULL, cmd_runs},
 		{"sign", NULL, cmd_sign},
+		{"certificate", NULL, cmd_certificate},
 	};
 	const char *names[sizeof commands / sizeof commands[0]], *near;
 	const char *cmd;

@@ -142,6 +142,27 @@ run_time(time_t *now)
 	return 0;
 }
 
+const record_rule *
+record_rule_of(int guarded)
+{
+	static const record_rule rules[2] = {
+		{"simple acceptance",
+		 "ILAC G8:09/2019 4.2.1; ISO/IEC 17025:2017 7.8.6",
+		 "pass when min <= mean <= max (limits inclusive, the unrounded "
+		 "mean, measurement uncertainty not subtracted); retest when "
+		 "n < min_n, RSD > max_rsd_pct or the range exceeds f(n) sr "
+		 "(ISO 5725-6)"},
+		{"guarded acceptance",
+		 "ILAC G8:09/2019 4.2.2; ISO/IEC 17025:2017 7.8.6",
+		 "w = r U: pass inside [min + w, max - w], fail outside "
+		 "[min - w, max + w], conditional-pass or conditional-fail in "
+		 "between; retest when n < min_n, RSD > max_rsd_pct or the "
+		 "range exceeds f(n) sr (ISO 5725-6)"},
+	};
+
+	return &rules[guarded != 0];
+}
+
 int
 record_now(char when[32])
 {

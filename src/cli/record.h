@@ -56,6 +56,13 @@ typedef struct run_record {
  * NULL when memory runs out; json_pack's "o" takes it. */
 json_t *record_text(const char *s);
 
+/* A decision rule (ILAC G8:09/2019) as the record and the certificate
+ * state it: simple or guarded acceptance. */
+typedef struct record_rule {
+	const char *name, *reference, *statement;
+} record_rule;
+const record_rule *record_rule_of(int guarded);
+
 /* Now in UTC as YYYY-MM-DDTHH:MM:SSZ (SOURCE_DATE_EPOCH when set, as
  * for a record): 0, or -1 after saying why SOURCE_DATE_EPOCH is
  * refused. */

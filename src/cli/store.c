@@ -72,9 +72,9 @@ static const db_table tables[] = {
 	{"certificates", "seq BIGINT PRIMARY KEY,"
 			 " certificate_id TEXT NOT NULL UNIQUE,"
 			 " product TEXT, lot TEXT NOT NULL, run_id TEXT NOT NULL,"
-			 " signature_seq BIGINT, customer TEXT,"
-			 " issued_utc TEXT NOT NULL, draft BIGINT NOT NULL,"
-			 " replaces TEXT, content_sha256 TEXT NOT NULL,"
+			 " signature_seq BIGINT NOT NULL, customer TEXT,"
+			 " issued_utc TEXT NOT NULL, replaces TEXT,"
+			 " content_sha256 TEXT NOT NULL,"
 			 " prev_hash TEXT NOT NULL, hash TEXT NOT NULL", 3},
 };
 

@@ -96,6 +96,43 @@ typedef struct store_run_info {
 int store_list_runs(store *s, const char *lot, const char *product,
 		    store_run_info **out, size_t *n);
 
+/* A result of a lot as its certificate shows it. */
+typedef struct store_result {
+	char sample[96], acid[32], unit[16], status[24], flags[256];
+	char date[11], basis[16];
+	long n;
+	int has_mean, has_u, has_min, has_max;
+	double mean, U, k, spec_min, spec_max;
+} store_result;
+
+/* What a certificate of a lot is made from: lot and product (product
+ * "" when not given: the lot's one product), then what
+ * store_certificate_begin finds. */
+typedef struct store_lot {
+	char lot[96], product[96];
+	long long seq; /* the certificate's link */
+	char certificate_id[32], issued_utc[32];
+	char run_id[32], started_utc[32], analyst[128], command[4096];
+	int approved; /* 0 only for a draft of an unapproved run */
+	char approver[128], approver_role[128], approved_utc[32];
+	long long signature_seq;
+	char replaces[32], replaces_issued[32]; /* "" when none */
+	store_result *results; /* n of them (al_free it) */
+	size_t n;
+} store_lot;
+
+/* The store's write lock taken and the lot's latest approved run (for a
+ * draft: its latest run) and its results read into l; refused, after a
+ * message, when the lot has no approved run (and draft is 0), has
+ * results of several products and no product was given, or its run no
+ * longer matches its hash. 0, or -1 (then nothing is held). */
+int store_certificate_begin(store *s, store_lot *l, int draft);
+/* The certificate kept as the chain's next link (its file's SHA-256
+ * given) and committed: 0, or -1 after a message. A draft is not kept:
+ * store_rollback instead. */
+int store_certificate_commit(store *s, const store_lot *l,
+			     const char *customer, const char *content_sha256);
+
 /* Recomputes the chain: 0 intact (with the counts), 1 broken (the run
  * named in *first_bad, cap bytes, and why in *why), -1 after a
  * message. */

@@ -31,6 +31,35 @@ store_copy_row(const db_value *row, int n, db_value *out, char **storage)
 	return 0;
 }
 
+int
+store_rows(db *d, const char *sql, const db_value *params, int n,
+	   size_t size, void (*fill)(void *item, const db_value *row),
+	   void **items, size_t *count)
+{
+	db_query *q = db_query_open(d, sql, params, n);
+	const db_value *row;
+	size_t cap = 0;
+	int cols, rc;
+
+	*items = NULL;
+	*count = 0;
+	if (q == NULL)
+		return -1;
+	while ((rc = db_next(q, &row, &cols)) == 1) {
+		char *grown = al_reserve(*items, &cap, (*count + 1) * size);
+
+		if (grown == NULL) {
+			cli_error("%s", al_strerror(AL_ENOMEM));
+			rc = -1;
+			break;
+		}
+		*items = grown;
+		fill(grown + (*count)++ * size, row);
+	}
+	db_query_close(q);
+	return rc < 0 ? -1 : 0;
+}
+
 /* The chain's links in order: each one's number and kind. */
 enum { LINK_RUN, LINK_SIGNATURE, LINK_CERTIFICATE };
 static const char *const link_table[] = {"runs", "signatures",
@@ -40,37 +69,26 @@ struct link {
 	int kind;
 };
 
+static void
+fill_link(void *item, const db_value *row)
+{
+	struct link *l = item;
+
+	l->seq = row[0].i;
+	l->kind = (int)row[1].i;
+}
+
 static int
 links(db *d, struct link **out, size_t *n)
 {
-	db_query *q = db_query_open(
-		d, "SELECT seq, 0 FROM runs UNION ALL SELECT seq, 1 FROM "
-		   "signatures UNION ALL SELECT seq, 2 FROM certificates "
-		   "ORDER BY 1",
-		NULL, 0);
-	const db_value *row;
-	size_t cap = 0;
-	int cols, rc;
+	void *items;
+	int rc = store_rows(d, "SELECT seq, 0 FROM runs UNION ALL SELECT seq, "
+			       "1 FROM signatures UNION ALL SELECT seq, 2 FROM "
+			       "certificates ORDER BY 1",
+			    NULL, 0, sizeof **out, fill_link, &items, n);
 
-	*out = NULL;
-	*n = 0;
-	if (q == NULL)
-		return -1;
-	while ((rc = db_next(q, &row, &cols)) == 1) {
-		struct link *grown = al_reserve(*out, &cap,
-						(*n + 1) * sizeof *grown);
-
-		if (grown == NULL) {
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			rc = -1;
-			break;
-		}
-		*out = grown;
-		(*out)[*n].seq = row[0].i;
-		(*out)[(*n)++].kind = (int)row[1].i;
-	}
-	db_query_close(q);
-	return rc < 0 ? -1 : 0;
+	*out = items;
+	return rc;
 }
 
 /* A link's row (n columns), copied: the next queries need the
@@ -268,8 +286,10 @@ text_at(const db_value *row, int c, char *buf, size_t cap)
 
 /* One row of store_points' query into p. */
 static void
-to_point(const db_value *row, store_point *p)
+to_point(void *item, const db_value *row)
 {
+	store_point *p = item;
+
 	text_at(row, 0, p->lot, sizeof p->lot);
 	text_at(row, 1, p->sample, sizeof p->sample);
 	text_at(row, 2, p->date, sizeof p->date);
@@ -288,11 +308,9 @@ store_points(store *s, const char *product, const char *quantity,
 	static const char *const allowed[] = {"mean", "sd", "rsd_pct"};
 	db_value params[3] = {text_value(product), text_value(from),
 			      text_value(to)};
-	const db_value *row;
 	char sql[1024];
-	db_query *q;
-	size_t cap = 0;
-	int cols, rc;
+	void *items;
+	int rc;
 
 	*out = NULL;
 	*n = 0;
@@ -313,20 +331,8 @@ store_points(store *s, const char *product, const char *quantity,
 		 "substr(u.started_utc, 1, 10)) <= CAST(?3 AS TEXT)) "
 		 "ORDER BY day, u.started_utc, u.seq, r.pos",
 		 quantity, quantity);
-	if ((q = db_query_open(s->db, sql, params, 3)) == NULL)
-		return -1;
-	while ((rc = db_next(q, &row, &cols)) == 1) {
-		store_point *grown = al_reserve(*out, &cap,
-						(*n + 1) * sizeof *grown);
-
-		if (grown == NULL) {
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			rc = -1;
-			break;
-		}
-		*out = grown;
-		to_point(row, &(*out)[(*n)++]);
-	}
-	db_query_close(q);
-	return rc < 0 ? -1 : 0;
+	rc = store_rows(s->db, sql, params, 3, sizeof **out, to_point, &items,
+			n);
+	*out = items;
+	return rc;
 }

@@ -66,6 +66,13 @@ int store_rehash_run(db *d, const db_value *run, char hex[65]);
 long long store_count(db *d, const char *sql, const db_value *params,
 		      int n);
 
+/* Every row of a query into a growing array of items of size bytes,
+ * each filled from its row: *items (al_free it), *count. 0, or -1
+ * after a message. */
+int store_rows(db *d, const char *sql, const db_value *params, int n,
+	       size_t size, void (*fill)(void *item, const db_value *row),
+	       void **items, size_t *count);
+
 /* row's n values copied into out, their texts into *storage (al_free
  * it): 0, or -1 when memory runs out (said). */
 int store_copy_row(const db_value *row, int n, db_value *out,
@@ -73,7 +80,7 @@ int store_copy_row(const db_value *row, int n, db_value *out,
 
 /* The signatures and certificates tables' columns (store_sign.c):
  * the last two are prev_hash and hash; all but the hash are hashed. */
-enum { SIGNATURE_COLUMNS = 12, CERTIFICATE_COLUMNS = 13 };
+enum { SIGNATURE_COLUMNS = 12, CERTIFICATE_COLUMNS = 12 };
 /* A signature's or a certificate's link hash from its row. */
 void store_signature_hash(const db_value *row, char hex[65]);
 void store_certificate_hash(const db_value *row, char hex[65]);

@@ -140,6 +140,27 @@ store_sign(store *s, const store_signature *g, char when[32])
 	return bad ? -1 : 0;
 }
 
+/* A run's own fields, for the list. */
+static void
+fill_run_info(void *item, const db_value *row)
+{
+	store_run_info *r = item;
+	const char *cmd = memchr(row[4].t, ' ', row[4].len);
+
+	memset(r, 0, sizeof *r);
+	r->seq = row[0].i;
+	snprintf(r->run_id, sizeof r->run_id, "%.*s", (int)row[1].len,
+		 row[1].t);
+	snprintf(r->started_utc, sizeof r->started_utc, "%.*s",
+		 (int)row[2].len, row[2].t);
+	if (row[3].type == DB_TEXT)
+		snprintf(r->analyst, sizeof r->analyst, "%.*s", (int)row[3].len,
+			 row[3].t);
+	/* the command: the word after the program's name */
+	snprintf(r->command, sizeof r->command, "%.*s",
+		 cmd ? (int)strcspn(cmd + 1, " ") : 0, cmd ? cmd + 1 : "");
+}
+
 /* The runs matching lot and product (each NULL: any), in order, with
  * their own fields; statuses and signatures come after. */
 static int
@@ -147,46 +168,17 @@ matching_runs(db *d, const char *lot, const char *product,
 	      store_run_info **out, size_t *n)
 {
 	db_value params[2] = {text_value(lot), text_value(product)};
-	db_query *q = db_query_open(
+	void *items;
+	int rc = store_rows(
 		d, "SELECT seq, run_id, started_utc, analyst, command FROM runs "
 		   "WHERE (CAST(?1 AS TEXT) IS NULL OR run_id IN (SELECT run_id "
 		   "FROM results WHERE lot = CAST(?1 AS TEXT))) AND "
 		   "(CAST(?2 AS TEXT) IS NULL OR run_id IN (SELECT run_id FROM "
 		   "results WHERE product = CAST(?2 AS TEXT))) ORDER BY seq",
-		params, 2);
-	const db_value *row;
-	size_t cap = 0;
-	int cols, rc;
+		params, 2, sizeof **out, fill_run_info, &items, n);
 
-	if (q == NULL)
-		return -1;
-	while ((rc = db_next(q, &row, &cols)) == 1) {
-		store_run_info *r = al_reserve(*out, &cap, (*n + 1) * sizeof *r);
-		const char *cmd;
-
-		if (r == NULL) {
-			cli_error("%s", al_strerror(AL_ENOMEM));
-			rc = -1;
-			break;
-		}
-		*out = r;
-		r = &(*out)[(*n)++];
-		memset(r, 0, sizeof *r);
-		r->seq = row[0].i;
-		snprintf(r->run_id, sizeof r->run_id, "%.*s", (int)row[1].len,
-			 row[1].t);
-		snprintf(r->started_utc, sizeof r->started_utc, "%.*s",
-			 (int)row[2].len, row[2].t);
-		if (row[3].type == DB_TEXT)
-			snprintf(r->analyst, sizeof r->analyst, "%.*s",
-				 (int)row[3].len, row[3].t);
-		/* the command: the word after the program's name */
-		cmd = memchr(row[4].t, ' ', row[4].len);
-		snprintf(r->command, sizeof r->command, "%.*s",
-			 cmd ? (int)strcspn(cmd + 1, " ") : 0, cmd ? cmd + 1 : "");
-	}
-	db_query_close(q);
-	return rc < 0 ? -1 : 0;
+	*out = items;
+	return rc;
 }
 
 /* Lines of a query of one run joined into buf: each row's columns by
@@ -233,8 +225,6 @@ int
 store_list_runs(store *s, const char *lot, const char *product,
 		store_run_info **out, size_t *n)
 {
-	*out = NULL;
-	*n = 0;
 	if (matching_runs(s->db, lot, product, out, n) != 0)
 		return -1;
 	for (size_t i = 0; i < *n; i++) {
