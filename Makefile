@@ -82,11 +82,25 @@ demo: build
 	@rm -f $(BUILD)/demo-lab.db $(BUILD)/demo-lab.db-wal $(BUILD)/demo-lab.db-shm
 	@$(BUILD)/acidlot assay samples/titrations.csv --spec samples/specs.csv \
 	  --titrants $(BUILD)/demo-register.csv --store $(BUILD)/demo-lab.db \
-	  --analyst "demo" >/dev/null 2>&1; [ $$? -le 1 ]
+	  --analyst "I. Okafor" --xlsx $(BUILD)/demo-week.xlsx >/dev/null 2>&1; \
+	rc=$$?; echo "workbook: $(BUILD)/demo-week.xlsx"; [ $$rc -le 1 ]
 	@$(BUILD)/acidlot verify --store $(BUILD)/demo-lab.db
 	@$(BUILD)/acidlot trend --store $(BUILD)/demo-lab.db --product ORJ-NFC \
 	  --format table --plot $(BUILD)/demo-trend.svg 2>/dev/null; \
 	rc=$$?; echo "chart: $(BUILD)/demo-trend.svg (exit status $$rc: 1 when a point signals)"; [ $$rc -le 1 ]
+	@echo
+	@echo "== 6. reviewed, approved, certified: acidlot sign, then acidlot certificate --lot OJ-4471"
+	@run=$$($(BUILD)/acidlot runs --store $(BUILD)/demo-lab.db --format csv 2>/dev/null | sed -n 2p | cut -d, -f2); \
+	$(BUILD)/acidlot sign --store $(BUILD)/demo-lab.db --run $$run --name "T. Brandt" \
+	  --role "QC reviewer" --meaning reviewed --reason "calculations and flags checked" && \
+	$(BUILD)/acidlot sign --store $(BUILD)/demo-lab.db --run $$run --name "M. Sato" \
+	  --role "QC manager" --meaning approved --reason "week released"
+	@$(BUILD)/acidlot runs --store $(BUILD)/demo-lab.db --format table
+	@$(BUILD)/acidlot certificate --store $(BUILD)/demo-lab.db --lot OJ-4471 \
+	  --lab samples/lab.conf --customer "Blue Heron Juices Ltd" \
+	  -o $(BUILD)/demo-certificate-OJ-4471.html
+	@$(BUILD)/acidlot verify --store $(BUILD)/demo-lab.db
+	@echo "certificate: $(BUILD)/demo-certificate-OJ-4471.html (open it in a browser; print to A4 or Letter)"
 
 test: build
 	cd $(BUILD) && ctest --output-on-failure -j$(JOBS)
