@@ -3,7 +3,8 @@
 # (initdb and pg_ctl from Debian's postgresql package) on a Unix socket
 # in a temporary folder, no TCP; the CLI cases store_chain, sign_off and
 # trend_charts and the kill -9 test run against it, with the same
-# expected output as against SQLite; the server is stopped and removed
+# expected output as against SQLite, then four first uses of a new
+# store at once and a certificate issued from it; the server is stopped and removed
 # at the end. initdb refuses to run as root: as root the server runs as
 # the package's postgres user (runuser).
 # usage: store_pg.sh ACIDLOT SAMPLES_DIR BENCH_GEN
@@ -63,6 +64,24 @@ done
 wait
 said=$("$acidlot" verify --store "$uri" 2>&1)
 echo "four first uses at once: $said"
+# a certificate from PostgreSQL: refused before the approval, then
+# issued, then issued again naming the one it replaces; the chain holds
+run=$("$acidlot" runs --store "$uri" --format csv 2>/dev/null | sed -n 2p | cut -d, -f2)
+cert() {
+	"$acidlot" certificate --store "$uri" --lot OJ-4471 \
+		--lab "$samples/lab.conf" -o "$dir/$1.html" 2>&1
+}
+said=$(cert refused)
+case $said in *"has no approved run"*) ;; *) echo "not refused: $said"; fail=1 ;; esac
+"$acidlot" sign --store "$uri" --run "$run" --name "M. Sato" \
+	--role "QC manager" --meaning approved --reason "released" >/dev/null || fail=1
+first=$(cert first) || fail=1
+second=$(cert second) || fail=1
+echo "certificates from PostgreSQL: ${first#*: }; ${second#*: }"
+case $second in *"replaces COA-"*) ;; *) fail=1 ;; esac
+said=$("$acidlot" verify --store "$uri" 2>&1)
+echo "with the signature and certificates: $said"
+[ "$said" = "4 runs, 64 results, chain intact" ] || fail=1
 if [ "$said" != "4 runs, 64 results, chain intact" ]; then
 	cat "$dir"/e[1-4]
 	fail=1
