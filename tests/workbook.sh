@@ -24,14 +24,24 @@ cd "$work" || exit 2
 	echo "=1+1,0012,S1,2,10.004,,12.37,NaOH-0.1-2611,0.05,,,8.1,2026-11-28,,"
 	echo "=1+1,0012,S1,3,10.021,,twelve,NaOH-0.1-2611,0.05,,,8.1,2026-11-28,,"
 } >t.csv
+# the CSV files with every digit (--decimals full): each cell of the
+# workbook equals its CSV value to 1e-12 relative
 "$acidlot" assay t.csv --spec "$samples/specs.csv" --titrants reg.csv \
 	-o r.csv -r reps.csv --rejects rej.csv --budget b.csv --store lab.db \
-	--xlsx book.xlsx >/dev/null 2>err.txt
+	--decimals full --xlsx book.xlsx >/dev/null 2>err.txt
 rc=$?
 [ "$rc" -le 1 ] || { echo "the assay failed (exit $rc):"; cat err.txt; exit 1; }
 fail=0
-"$py" "$here/workbook_check.py" book.xlsx --assay lab.db report=r.csv \
+"$py" "$here/workbook_check.py" book.xlsx --full --assay lab.db report=r.csv \
 	replicates=reps.csv rejects=rej.csv budget=b.csv || fail=1
+# and the usual CSV files (10 significant digits) round the same cells
+"$acidlot" assay t.csv --spec "$samples/specs.csv" --titrants reg.csv \
+	-o r10.csv -r reps10.csv --rejects rej10.csv --budget b10.csv \
+	>/dev/null 2>&1
+"$py" "$here/workbook_check.py" book.xlsx --other-run --assay lab.db report=r10.csv \
+	replicates=reps10.csv rejects=rej10.csv budget=b10.csv >check10.txt ||
+	{ cat check10.txt; fail=1; }
+head -n 4 check10.txt
 grep -q '"role": "workbook"' r.csv.record.json ||
 	{ echo "the record does not list the workbook"; fail=1; }
 # a real spreadsheet opens it: LibreOffice Calc, headless, writes every

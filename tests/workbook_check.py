@@ -2,7 +2,13 @@
 python3-openpyxl, a general-purpose reader, not ours) against the run's
 own CSV outputs and its results store.
 
-usage: workbook_check.py BOOK.xlsx [--assay STORE.db] SHEET=CSV...
+usage: workbook_check.py BOOK.xlsx [--full | --other-run] [--assay STORE.db]
+       SHEET=CSV...
+(--full: the CSV files were written with --decimals full, every number
+with 17 significant digits: each cell then equals its CSV value to
+1e-12 relative; without it the CSV's 10 significant digits round it;
+--other-run: the CSV files come from a second run of the same data,
+whose report ids differ)
 (--assay: the workbook of assay --xlsx, with its run sheet, the store's
 doubles and the status fills; without: trend --xlsx)
 
@@ -48,7 +54,17 @@ def header_name(cell):
     return re.sub(r" \(.*\)$", "", cell)
 
 
-def check_sheet(ws, path, problems):
+def agrees(v, text, name, full):
+    """v, the workbook's number, against the CSV's text."""
+    if full:
+        c = float(text)
+        return abs(v - c) <= 1e-12 * abs(c)
+    if name in DECIMALS:
+        return round(v, DECIMALS[name]) == float(text)
+    return float(f"{v:.10g}") == float(text)
+
+
+def check_sheet(ws, path, problems, full, other_run=False):
     with open(path, newline="", encoding="utf-8-sig") as f:
         rows = list(csv.reader(f))
     if ws.max_row != len(rows):
@@ -71,11 +87,12 @@ def check_sheet(ws, path, problems):
                 if cell.data_type != "n" or isinstance(v, bool) or \
                         not isinstance(v, (int, float)):
                     problems.append(f"{where}: not a number: {v!r}")
-                elif (round(v, DECIMALS[names[k]]) if names[k] in DECIMALS
-                      else float(f"{v:.10g}")) != float(text):
-                    problems.append(f"{where}: {v!r} does not round to {text}")
+                elif not agrees(v, text, names[k], full):
+                    problems.append(f"{where}: {v!r} is not the CSV's {text}")
                 else:
                     numbers += 1
+            elif other_run and names[k] == "report_id":
+                continue
             elif cell.data_type != "s" or cell.value != unguard(text):
                 problems.append(f"{where}: {cell.value!r} ({cell.data_type}), "
                                 f"the CSV {text!r}")
@@ -148,6 +165,10 @@ def check_assay(path, book, store, problems):
 def main():
     args = sys.argv[1:]
     path, store = args.pop(0), None
+    full = args[0] == "--full"
+    other_run = args[0] == "--other-run"
+    if full or other_run:
+        args.pop(0)
     if args[0] == "--assay":
         store = args[1]
         args = args[2:]
@@ -158,8 +179,9 @@ def main():
         problems.append(f"sheets {book.sheetnames}, expected {want}")
     for pair in args:
         sheet, csv_path = pair.split("=", 1)
-        n = check_sheet(book[sheet], csv_path, problems)
-        print(f"{sheet}: {book[sheet].max_row - 1} rows, {n} numbers as the CSV rounds them")
+        n = check_sheet(book[sheet], csv_path, problems, full, other_run)
+        print(f"{sheet}: {book[sheet].max_row - 1} rows, {n} numbers "
+              + ("equal to the CSV's to 1e-12" if full else "as the CSV rounds them"))
     if store:
         check_assay(path, book, store, problems)
     for p in problems[:20]:

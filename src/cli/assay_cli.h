@@ -22,7 +22,7 @@ struct args {
 	al_column_alias spec_columns[MAX_COLUMN_OPTS]; /* --spec-column */
 	size_t n_spec_columns;
 	double decimals;
-	int has_decimals;
+	int has_decimals, decimals_full; /* --decimals N, --decimals full */
 	int format; /* FORMAT_: table or CSV; 0 until the options are read */
 	al_assay_options aopt;
 	al_report_options ropt;

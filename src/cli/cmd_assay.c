@@ -85,8 +85,8 @@ number_option(struct args *a, int c)
 		 "--endpoint-ph must be from 0 to 14", &o->endpoint_ph,
 		 &o->has_endpoint},
 		{OPT_DECIMALS, "--decimals", 0, 15, CLI_WHOLE,
-		 "--decimals takes a whole number from 0 to 15", &a->decimals,
-		 &a->has_decimals},
+		 "--decimals takes a whole number from 0 to 15, or full",
+		 &a->decimals, &a->has_decimals},
 		{OPT_TITRANT_U, "--titrant-u", 0, 1, CLI_BELOW,
 		 "--titrant-u is a standard uncertainty in mol/L, from 0 to 1",
 		 &o->qc.titrant_u, &o->qc.has_titrant_u},
@@ -235,6 +235,12 @@ one_option(void *ctx, int c, char *text)
 	struct args *a = ctx;
 	int got = text_option(a, c);
 
+	/* every digit of every number: 17 significant, each reading back
+	 * as the very double the run computed */
+	if (c == OPT_DECIMALS && strcmp(text, "full") == 0) {
+		a->decimals_full = 1;
+		return 1;
+	}
 	if (got == 0)
 		got = number_option(a, c);
 	if (got == 0)
@@ -262,6 +268,8 @@ parse_args(int argc, char **argv, struct args *a)
 		return got;
 	if (a->has_decimals)
 		a->ropt.decimals = (int)a->decimals;
+	if (a->decimals_full)
+		a->ropt.decimals = AL_DECIMALS_EXACT;
 	/* a person at a terminal reads a table; a file or pipe gets CSV */
 	if (a->format == FORMAT_AUTO)
 		a->format = (a->output == NULL || strcmp(a->output, "-") == 0) &&
