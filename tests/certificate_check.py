@@ -83,6 +83,7 @@ def main():
 
     need("a) title", t.get("h1", "").strip() == "Certificate of analysis")
     need("b) the lab's name and address", t.get("name") and t.get("lab", "").count("\n") >= 2)
+    need("c) where the work was done", t.get("location", "") and t.get("location") in t.get("lab", ""))
     cid = t.get("certificate-id", "")
     need("d) a unique id" + (" (DRAFT)" if draft else f" ({cid})"),
          cid == "DRAFT" if draft else cid.startswith("COA-"))
@@ -95,6 +96,7 @@ def main():
     need("i) the titration dates", len(t.get("titration-dates", "")) >= 10)
     need("j) the date of issue", len(t.get("issue-date", "")) == 10)
     need("l) the results relate only to the items tested", "only to the items tested" in t.get("items-tested", ""))
+    need("k) sampling: not the laboratory's", "did not take the samples" in t.get("items-tested", ""))
     need("7.8.6 the decision rule", "ILAC G8" in t.get("decision-rule", ""))
     need("m) coverage statement (U, k)", "coverage" in t.get("coverage", "") and "k" in t.get("coverage", ""))
     if draft:

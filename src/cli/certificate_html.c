@@ -140,7 +140,8 @@ date_span(const store_lot *l, char *buf, size_t cap)
 		snprintf(buf, cap, "%s to %s", first, last);
 }
 
-/* e (customer), f (method), g (the item), i (dates of the work). */
+/* c (where the work was done), e (customer), f (method), g (the item),
+ * i (dates of the work). */
 static void
 item(FILE *out, const cert_lab *lab, const store_lot *l, const char *customer)
 {
@@ -164,6 +165,7 @@ item(FILE *out, const cert_lab *lab, const store_lot *l, const char *customer)
 	fact(out, "quantity", "Measured", what);
 	fact(out, "method", "Method", lab->method);
 	fact(out, "titration-dates", "Titrated", dates);
+	fact(out, "location", "Tested at", lab->address[0]);
 	fact(out, "run", "Results of run", l->run_id);
 	fputs("</dl>\n", out);
 }
@@ -318,7 +320,8 @@ notes(FILE *out, const cert_lab *lab, const store_lot *l)
 	fputs("): ", out);
 	put(out, rule->statement);
 	fputs(".</p>\n<p class=\"items-tested\">The results relate only to "
-	      "the items tested, as received by the laboratory.</p>\n",
+	      "the items tested, as received by the laboratory; the "
+	      "laboratory did not take the samples.</p>\n",
 	      out);
 	if (l->replaces[0]) {
 		fputs("<p class=\"replaces\">This certificate replaces "
