@@ -197,6 +197,10 @@ typedef struct cli_file {
  * terminal both read and written is fine. Returns 0, or a usage error
  * (EXIT_TROUBLE) naming both. */
 int cli_check_files(const char *cmd, const cli_file *files, size_t n);
+/* cli_check_files of the named files and the command's input files
+ * (each role "input"); 0, or a usage error (-1, said). */
+int cli_check_with_inputs(const char *cmd, const cli_file *named, size_t n,
+			  char *const *inputs, int n_inputs);
 /* A usage error when two of the n input files are one (by device and
  * inode, however spelt, or '-' twice): its rows would count twice.
  * Returns 0 when they are distinct. */

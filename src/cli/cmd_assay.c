@@ -287,15 +287,11 @@ parse_args(int argc, char **argv, struct args *a)
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((11 + (size_t)argc) * sizeof *f);
-	size_t n = 0;
 	char record[4096];
-	int file_report = a->output && strcmp(a->output, "-") != 0, ok;
+	int file_report = a->output && strcmp(a->output, "-") != 0;
+	cli_file f[11];
+	size_t n = 0;
 
-	if (f == NULL) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return 0;
-	}
 	f[n++] = (cli_file){"-o", a->output, 1};
 	f[n++] = (cli_file){"--replicates", a->replicates, 1};
 	f[n++] = (cli_file){"--rejects", a->rejects, 1};
@@ -311,11 +307,8 @@ outputs_safe(const struct args *a, int argc, char **argv)
 	f[n++] = (cli_file){"--spec-columns", a->spec_columns_file, 0};
 	f[n++] = (cli_file){"--store", a->stored_path, 1};
 	f[n++] = (cli_file){"--titrants", a->titrants, 0};
-	for (int i = optind; i < argc; i++)
-		f[n++] = (cli_file){"input", argv[i], 0};
-	ok = cli_check_files("assay", f, n) == 0;
-	al_free(f);
-	return ok;
+	return cli_check_with_inputs("assay", f, n, argv + optind,
+				     argc - optind) == 0;
 }
 
 /* Opens an output and writes its header; NULL after a message. */

@@ -13,6 +13,7 @@
 
 #include "certificate_html.h"
 #include "cli.h"
+#include "db.h"
 
 static void
 usage(FILE *out)
@@ -202,15 +203,20 @@ issue(struct job *j, store *s)
 	char hex[65];
 	al_status st;
 
+	int bad;
+
 	if (store_certificate_begin(s, &j->l, j->draft) != 0)
 		return -1;
 	if ((f = al_outfile_open(j->output, &st)) == NULL)
 		cli_error("%s: %s", j->output, cli_reason(st));
-	if (f == NULL || make(j, f, hex) != 0 ||
-	    (j->draft ? (store_rollback(s), 0)
-		      : store_certificate_commit(s, &j->l, j->customer, hex)) !=
-		    0) {
+	bad = f == NULL || make(j, f, hex) != 0;
+	/* the certificate kept in the store before its file appears; a
+	 * draft is not kept */
+	if (bad || j->draft)
 		store_rollback(s);
+	else
+		bad = store_certificate_commit(s, &j->l, j->customer, hex) != 0;
+	if (bad) {
 		al_outfile_abort(f);
 		return -1;
 	}
@@ -242,7 +248,12 @@ cmd_certificate(int argc, char **argv)
 						    "and -o (and nothing else "
 						    "but --product, --customer, "
 						    "--draft)");
-	else if (read_lab(&j->lab, j->lab_path) == 0 &&
+	else if (cli_check_files("certificate",
+				 (const cli_file[]){{"-o", j->output, 1},
+						    {"--lab", j->lab_path, 0},
+						    {"--store", j->store, 0}},
+				 db_is_postgresql(j->store) ? 2 : 3) == 0 &&
+		 read_lab(&j->lab, j->lab_path) == 0 &&
 		 (s = store_open(j->store, 0)) != NULL) {
 		snprintf(j->l.lot, sizeof j->l.lot, "%s", j->lot);
 		snprintf(j->l.product, sizeof j->l.product, "%s",

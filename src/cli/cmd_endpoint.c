@@ -248,22 +248,12 @@ read_files(void *ctx, FILE *out)
 static int
 files_safe(const struct job *j)
 {
-	cli_file *f = al_malloc((1 + (size_t)j->argc) * sizeof *f);
-	size_t n = 0;
-	int ok;
+	const cli_file f[] = {{"-o", j->output, 1}};
 
-	if (f == NULL) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return 0;
-	}
-	f[n++] = (cli_file){"-o", j->output, 1};
-	for (int i = optind; i < j->argc; i++)
-		f[n++] = (cli_file){"input", j->argv[i], 0};
-	ok = cli_check_files("endpoint", f, n) == 0 &&
-	     cli_distinct_inputs("endpoint", j->argv + optind,
-				 j->argc - optind) == 0;
-	al_free(f);
-	return ok;
+	return cli_check_with_inputs("endpoint", f, 1, j->argv + optind,
+				     j->argc - optind) == 0 &&
+	       cli_distinct_inputs("endpoint", j->argv + optind,
+				   j->argc - optind) == 0;
 }
 
 /* A curve's picture, when --plots asks. */

@@ -246,29 +246,22 @@ listed(run_record *rec, const char *role, const char *path,
 static int
 outputs_safe(const struct args *a, int argc, char **argv)
 {
-	cli_file *f = al_malloc((5 + (size_t)argc) * sizeof *f);
-	size_t n = 0;
 	char record[4096];
-	int ok;
+	cli_file f[5] = {
+		{"-o", a->reg, 1},
+		{"--budget", a->budget, 1},
+		{"--columns", a->columns_file, 0},
+		{"--store", a->stored_path, 1},
+	};
+	size_t n = 4;
 
-	if (f == NULL) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return 0;
-	}
-	f[n++] = (cli_file){"-o", a->reg, 1};
-	f[n++] = (cli_file){"--budget", a->budget, 1};
-	f[n++] = (cli_file){"--columns", a->columns_file, 0};
-	f[n++] = (cli_file){"--store", a->stored_path, 1};
 	if (a->record || a->reg) {
 		snprintf(record, sizeof record, "%s.record.json", a->reg);
 		f[n++] = (cli_file){a->record ? "--record" : "the record",
 				    a->record ? a->record : record, 1};
 	}
-	for (int i = optind; i < argc; i++)
-		f[n++] = (cli_file){"input", argv[i], 0};
-	ok = cli_check_files("standardize", f, n) == 0;
-	al_free(f);
-	return ok;
+	return cli_check_with_inputs("standardize", f, n, argv + optind,
+				     argc - optind) == 0;
 }
 
 static void

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "db.h"
 #include "store.h"
 #include "trend_plot.h"
 #include "trend_reports.h"
@@ -470,6 +471,25 @@ write_all(struct job *j)
 	return 0;
 }
 
+/* Refuses an output that is the store, a report read or another
+ * output, before anything is read or written. */
+static int
+outputs_safe(const struct job *j, int argc, char **argv)
+{
+	const cli_file f[] = {
+		{"-o", j->output, 1},
+		{"--summary", j->summary, 1},
+		{"--plot", j->plot, 1},
+		{"--xlsx", j->xlsx, 1},
+		{"--store", j->store && !db_is_postgresql(j->store) ? j->store
+								   : NULL,
+		 0},
+	};
+
+	return cli_check_with_inputs("trend", f, sizeof f / sizeof f[0],
+				     argv + optind, argc - optind) == 0;
+}
+
 int
 cmd_trend(int argc, char **argv)
 {
@@ -493,7 +513,8 @@ cmd_trend(int argc, char **argv)
 						"report has no dates)");
 	if (j.p.has_target != j.has_sigma)
 		return cli_usage_error("trend", "--target and --sigma go together");
-	if (load(&j, argc, argv) == 0 && write_all(&j) == 0) {
+	if (outputs_safe(&j, argc, argv) && load(&j, argc, argv) == 0 &&
+	    write_all(&j) == 0) {
 		rc = j.signalled ? EXIT_NOT_PASS : 0;
 		fprintf(stderr, PROG ": %zu points of %s, %lu with a signal\n", j.n,
 			j.product, j.signalled);

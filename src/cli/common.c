@@ -523,6 +523,25 @@ cli_check_files(const char *cmd, const cli_file *files, size_t n)
 }
 
 int
+cli_check_with_inputs(const char *cmd, const cli_file *named, size_t n,
+		      char *const *inputs, int n_inputs)
+{
+	cli_file *f = al_malloc((n + (size_t)n_inputs) * sizeof *f);
+	int rc;
+
+	if (f == NULL) {
+		cli_error("%s", al_strerror(AL_ENOMEM));
+		return -1;
+	}
+	memcpy(f, named, n * sizeof *f);
+	for (int i = 0; i < n_inputs; i++)
+		f[n + (size_t)i] = (cli_file){"input", inputs[i], 0};
+	rc = cli_check_files(cmd, f, n + (size_t)n_inputs);
+	al_free(f);
+	return rc;
+}
+
+int
 cli_distinct_inputs(const char *cmd, char *const *files, int n)
 {
 	for (int i = 0; i < n; i++)
