@@ -75,6 +75,13 @@ sign_option(void *ctx, int c, char *text)
 	return cli_text_option(t, sizeof t / sizeof t[0], c, text);
 }
 
+/* Is s missing, or nothing but blanks? */
+static int
+blank(const char *s)
+{
+	return s == NULL || s[strspn(s, " \t\r\n")] == '\0';
+}
+
 int
 cmd_sign(int argc, char **argv)
 {
@@ -90,12 +97,11 @@ cmd_sign(int argc, char **argv)
 					    sign_usage, sign_option, &j));
 	if (done >= 0)
 		return done;
-	if (optind < argc || !j.store || !j.g.run_id || !j.g.name ||
-	    !j.g.role || !j.g.meaning || !j.g.reason || !*j.g.name ||
-	    !*j.g.role || !*j.g.reason)
+	if (optind < argc || !j.store || !j.g.run_id || !j.g.meaning ||
+	    blank(j.g.name) || blank(j.g.role) || blank(j.g.reason))
 		return cli_usage_error("sign", "give --store, --run, --name, "
 					       "--role, --meaning and --reason "
-					       "(none empty), and nothing else");
+					       "(none blank), and nothing else");
 	j.g.os_user = cli_login(user, sizeof user);
 	if ((s = store_open(j.store, 0)) == NULL)
 		return EXIT_TROUBLE;
