@@ -69,25 +69,37 @@ assay_book_reject(struct job *j, const char *file, unsigned long line,
 			      &j->book->ropt);
 }
 
+/* The report and the budget as the workbook takes them. */
+static int
+report_17(void *ctx, FILE *out)
+{
+	struct job *j = ctx;
+
+	return al_report_write(out, j->run, &j->book->ropt) == AL_OK ? 0 : -1;
+}
+
+static int
+budget_17(void *ctx, FILE *out)
+{
+	struct job *j = ctx;
+
+	return al_budget_write(out, j->run, &j->book->ropt) == AL_OK ? 0 : -1;
+}
+
 /* A sheet from what write puts into a stream: 0, or -1 after a
  * message. */
 static int
 sheet_from(wbook *w, const char *sheet, struct job *j,
-	   al_status (*write)(FILE *, const al_assay *, al_report_options *))
+	   int (*write)(void *ctx, FILE *out))
 {
 	char *text = NULL;
 	size_t len = 0;
-	FILE *mem = open_memstream(&text, &len);
-	int bad = mem == NULL || write(mem, j->run, &j->book->ropt) != AL_OK;
+	int bad = cli_capture(write, j, &text, &len);
 
-	if (mem && fclose(mem) != 0)
-		bad = 1;
-	if (bad) {
-		free(text);
+	if (bad)
 		cli_error("%s", al_strerror(AL_ENOMEM));
-		return -1;
-	}
-	bad = wbook_csv_sheet(w, sheet, text, len, NULL);
+	else
+		bad = wbook_csv_sheet(w, sheet, text, len, NULL);
 	free(text);
 	return bad;
 }
@@ -116,13 +128,13 @@ assay_book_write(struct job *j)
 	w = wbook_new(al_outfile_written_path(j->book_out), j->a.xlsx);
 	if (w == NULL)
 		return -1;
-	bad = sheet_from(w, "report", j, al_report_write) != 0 ||
+	bad = sheet_from(w, "report", j, report_17) != 0 ||
 	      wbook_csv_sheet(w, "replicates", b->reps_text, b->reps_len,
 			      NULL) != 0 ||
 	      (j->rejs.count > 0 &&
 	       wbook_csv_sheet(w, "rejects", b->rejs_text, b->rejs_len,
 			       NULL) != 0) ||
-	      (j->a.budget && sheet_from(w, "budget", j, al_budget_write) != 0) ||
+	      (j->a.budget && sheet_from(w, "budget", j, budget_17) != 0) ||
 	      wbook_json_sheet(w, "run", j->rec.root, not_in_run_sheet, 2) != 0;
 	if (wbook_close(w) != 0 || bad)
 		return -1;

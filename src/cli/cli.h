@@ -139,6 +139,11 @@ int cli_options(const char *cmd, int argc, char **argv,
  * two blanks apart, no blank at a line's end: the table a person reads
  * at a terminal. */
 void cli_aligned(FILE *out, const char *csv, size_t len);
+/* What write(ctx, out) writes, in memory: *text (free it) of *len
+ * bytes; 0, or -1 (write's, or after a message when memory ran out;
+ * *text is then NULL). */
+int cli_capture(int (*write)(void *ctx, FILE *out), void *ctx, char **text,
+		size_t *len);
 /* A command's lines on standard output: write(ctx, out) writes them as
  * CSV into memory; shown as they are, or for a table (table 1) aligned
  * by cli_aligned, only when write returned 0: a failed command prints

@@ -14,6 +14,7 @@
 #include "certificate_html.h"
 #include "cli.h"
 #include "db.h"
+#include "record.h"
 
 static void
 usage(FILE *out)
@@ -163,6 +164,14 @@ read_lab(cert_lab *lab, const char *path)
 	return bad ? -1 : 0;
 }
 
+static int
+write_html(void *ctx, FILE *out)
+{
+	const struct job *j = ctx;
+
+	return cert_write_html(out, &j->lab, &j->l, j->customer, j->draft);
+}
+
 /* The HTML made in memory, its SHA-256 taken, then written to its
  * output (not yet in place). */
 static int
@@ -170,21 +179,13 @@ make(struct job *j, al_outfile *f, char hex[65])
 {
 	char *text = NULL;
 	size_t len = 0;
-	FILE *mem = open_memstream(&text, &len);
 	struct sha256_ctx h;
-	uint8_t digest[SHA256_DIGEST_SIZE];
-	int bad = mem == NULL ||
-		  cert_write_html(mem, &j->lab, &j->l, j->customer, j->draft) !=
-			  0;
+	int bad = cli_capture(write_html, j, &text, &len) != 0;
 
-	if (mem && fclose(mem) != 0)
-		bad = 1;
 	if (!bad) {
 		sha256_init(&h);
 		sha256_update(&h, len, (const uint8_t *)text);
-		sha256_digest(&h, SHA256_DIGEST_SIZE, digest);
-		for (int i = 0; i < SHA256_DIGEST_SIZE; i++)
-			snprintf(hex + 2 * i, 3, "%02x", digest[i]);
+		sha256_ctx_hex(&h, hex);
 		bad = fwrite(text, 1, len, al_outfile_stream(f)) != len ||
 		      al_outfile_prepare(f) != AL_OK;
 	}

@@ -217,8 +217,9 @@ num(double v, int has, int digits, char *buf, size_t cap)
 
 /* The summary row: capability against the latest result's limits. */
 static int
-put_summary(const struct job *j, FILE *out)
+put_summary(void *ctx, FILE *out)
 {
+	const struct job *j = ctx;
 	const store_point *last = &j->points[j->n - 1];
 	al_trend_capability c;
 	double *x = al_malloc(j->n * sizeof *x);
@@ -393,25 +394,17 @@ put_book(struct job *j, al_outfile *f)
 {
 	char *text[2] = {NULL, NULL};
 	size_t len[2] = {0, 0};
-	int keep = j->digits, bad = 0;
+	int keep = j->digits, bad;
 	const char *unit = strcmp(j->quantity, "rsd_pct") == 0 ? "%"
 			   : *last_unit(j)			     ? last_unit(j)
 								     : NULL;
 	wbook *w;
 
 	j->digits = 17;
-	for (int k = 0; k < 2 && !bad; k++) {
-		FILE *mem = open_memstream(&text[k], &len[k]);
-
-		bad = mem == NULL ||
-		      (k ? put_summary(j, mem) : put_points(j, mem)) != 0;
-		if (mem && fclose(mem) != 0)
-			bad = 1;
-	}
+	bad = cli_capture(put_points, j, &text[0], &len[0]) != 0 ||
+	      cli_capture(put_summary, j, &text[1], &len[1]) != 0;
 	j->digits = keep;
-	if (bad)
-		cli_error("%s", al_strerror(AL_ENOMEM));
-	else {
+	if (!bad) {
 		w = wbook_new(al_outfile_written_path(f), j->xlsx);
 		bad = w == NULL ||
 		      wbook_csv_sheet(w, "points", text[0], len[0], unit) != 0 ||

@@ -672,11 +672,10 @@ cli_aligned(FILE *out, const char *csv, size_t len)
 }
 
 int
-cli_put_table(int table, int (*write)(void *ctx, FILE *out), void *ctx)
+cli_capture(int (*write)(void *ctx, FILE *out), void *ctx, char **text,
+	    size_t *len)
 {
-	char *text = NULL;
-	size_t len = 0;
-	FILE *out = open_memstream(&text, &len);
+	FILE *out = open_memstream(text, len);
 	int rc;
 
 	if (out == NULL)
@@ -686,6 +685,20 @@ cli_put_table(int table, int (*write)(void *ctx, FILE *out), void *ctx)
 		cli_error("%s", al_strerror(AL_ENOMEM));
 		rc = -1;
 	}
+	if (rc != 0) {
+		free(*text);
+		*text = NULL;
+	}
+	return rc;
+}
+
+int
+cli_put_table(int table, int (*write)(void *ctx, FILE *out), void *ctx)
+{
+	char *text = NULL;
+	size_t len = 0;
+	int rc = cli_capture(write, ctx, &text, &len);
+
 	if (rc == 0 && table)
 		cli_aligned(stdout, text, len);
 	else if (rc == 0)

@@ -59,12 +59,18 @@ to_hex(const uint8_t *digest, char hex[65])
 }
 
 void
-hashing_reader_hex(hashing_reader *h, char hex[65])
+sha256_ctx_hex(struct sha256_ctx *ctx, char hex[65])
 {
 	uint8_t digest[SHA256_DIGEST_SIZE];
 
-	sha256_digest(&h->ctx, SHA256_DIGEST_SIZE, digest);
+	sha256_digest(ctx, SHA256_DIGEST_SIZE, digest);
 	to_hex(digest, hex);
+}
+
+void
+hashing_reader_hex(hashing_reader *h, char hex[65])
+{
+	sha256_ctx_hex(&h->ctx, hex);
 }
 
 int

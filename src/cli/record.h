@@ -20,6 +20,9 @@ typedef struct hashing_reader {
 void hashing_reader_init(hashing_reader *h, FILE *in);
 size_t hashing_read(void *ctx, void *buf, size_t cap, int *failed);
 void hashing_reader_hex(hashing_reader *h, char hex[65]);
+/* The digest of ctx in lower-case hex (ctx is reset, as by
+ * sha256_digest). */
+void sha256_ctx_hex(struct sha256_ctx *ctx, char hex[65]);
 
 /* SHA-256 of a whole file; 0 on success. */
 int sha256_file(const char *path, char hex[65], unsigned long long *bytes);

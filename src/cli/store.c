@@ -88,14 +88,10 @@ static const db_statement extra[] = {
 	{"CREATE INDEX certificates_lot ON certificates (lot)", 3},
 };
 
-/* Each covered table: its name and the query verify reads a run's rows
- * back by. */
-static const char *const covered[N_COVERED][2] = {
-	{"run_inputs", "SELECT * FROM run_inputs WHERE run_id = ?1 ORDER BY pos"},
-	{"replicates", "SELECT * FROM replicates WHERE run_id = ?1 ORDER BY pos"},
-	{"results", "SELECT * FROM results WHERE run_id = ?1 ORDER BY pos"},
-	{"titrants", "SELECT * FROM titrants WHERE run_id = ?1 ORDER BY pos"},
-};
+/* The covered tables' names; verify reads a run's rows of each back
+ * in pos order. */
+static const char *const covered[N_COVERED] = {"run_inputs", "replicates",
+					       "results", "titrants"};
 
 /* A row into the hash, each value tagged with its type: N; I<integer>;
  * R<16 hex digits of the IEEE 754 bits>; T<bytes>:<text>; the row ends
@@ -147,21 +143,11 @@ static void
 hash_tables_to(struct sha256_ctx *h, int *at, int table)
 {
 	while (*at < table) {
-		const char *name = covered[++*at][0];
+		const char *name = covered[++*at];
 
 		sha256_update(h, strlen(name), (const uint8_t *)name);
 		sha256_update(h, 1, (const uint8_t *)"\n");
 	}
-}
-
-void
-store_hash_hex(struct sha256_ctx *h, char hex[65])
-{
-	uint8_t digest[SHA256_DIGEST_SIZE];
-
-	sha256_digest(h, SHA256_DIGEST_SIZE, digest);
-	for (int i = 0; i < SHA256_DIGEST_SIZE; i++)
-		snprintf(hex + 2 * i, 3, "%02x", digest[i]);
 }
 
 /* The start of a run's hash: the format's name, then its fields. */
@@ -178,13 +164,13 @@ static int
 put_row(store *s, int table, const db_value *v, int n)
 {
 	if (table < s->table) { /* the order the hash is defined by */
-		cli_error("store: %s written after %s", covered[table][0],
-			  covered[s->table][0]);
+		cli_error("store: %s written after %s", covered[table],
+			  covered[s->table]);
 		return -1;
 	}
 	hash_tables_to(&s->h, &s->table, table);
 	store_hash_row(&s->h, v, n);
-	return db_insert(s->db, covered[table][0], v, n);
+	return db_insert(s->db, covered[table], v, n);
 }
 
 store *
@@ -288,14 +274,14 @@ inputs_text(const store_run *r)
 	char *text;
 
 	for (size_t i = 0; i < r->n_inputs; i++)
-		cap += strlen(r->input_names[i]) + 64 + 16;
+		cap += strlen(r->inputs[i].name) + 64 + 16;
 	if ((text = al_malloc(cap)) == NULL)
 		return NULL;
 	text[0] = '\0';
 	for (size_t i = 0; i < r->n_inputs; i++)
 		len += (size_t)snprintf(text + len, cap - len, "%s%s sha256:%s",
-					i ? "; " : "", r->input_names[i],
-					r->input_sha256[i]);
+					i ? "; " : "", r->inputs[i].name,
+					r->inputs[i].sha256);
 	return text;
 }
 
@@ -319,8 +305,8 @@ store_start_run(store *s, const store_run *r)
 	s->replicates = 0;
 	for (size_t i = 0; i < r->n_inputs; i++) {
 		db_value v[4] = {s->run[1], int_value((long long)i),
-				 text_value(r->input_names[i]),
-				 text_value(r->input_sha256[i])};
+				 text_value(r->inputs[i].name),
+				 text_value(r->inputs[i].sha256)};
 
 		if (put_row(s, T_INPUTS, v, 4) != 0)
 			return -1;
@@ -454,7 +440,7 @@ int
 store_commit(store *s)
 {
 	hash_tables_to(&s->h, &s->table, N_COVERED - 1);
-	store_hash_hex(&s->h, s->hash);
+	sha256_ctx_hex(&s->h, s->hash);
 	s->run[RUN_HASHED] = text_value(s->hash);
 	if (db_insert(s->db, "runs", s->run, RUN_COLUMNS) != 0 ||
 	    store_advance_head(s->db, s->seq, s->hash) != 0 ||
@@ -496,11 +482,15 @@ store_rehash_run(db *d, const db_value *run, char hex[65])
 
 	hash_run_fields(&h, run);
 	for (int t = 0; t < N_COVERED; t++) {
-		db_query *q = db_query_open(d, covered[t][1], &run[1], 1);
 		const db_value *row;
+		char sql[96];
+		db_query *q;
 		int n, rc;
 
-		if (q == NULL)
+		snprintf(sql, sizeof sql, "SELECT * FROM %s WHERE run_id = ?1 "
+					  "ORDER BY pos",
+			 covered[t]);
+		if ((q = db_query_open(d, sql, &run[1], 1)) == NULL)
 			return -1;
 		hash_tables_to(&h, &at, t);
 		while ((rc = db_next(q, &row, &n)) == 1)
@@ -509,7 +499,7 @@ store_rehash_run(db *d, const db_value *run, char hex[65])
 		if (rc < 0)
 			return -1;
 	}
-	store_hash_hex(&h, hex);
+	sha256_ctx_hex(&h, hex);
 	return 0;
 }
 

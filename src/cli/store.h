@@ -18,11 +18,17 @@ typedef struct store store;
 store *store_open(const char *path, int create);
 void store_close(store *s);
 
+/* An input file of a run: its name and SHA-256 in hex. */
+typedef struct store_input {
+	const char *name;
+	char sha256[65];
+} store_input;
+
 /* A run's own fields (the runs table). */
 typedef struct store_run {
 	const char *run_id, *started_utc, *analyst, *os_user, *command;
 	const char *version, *reason; /* reason NULL unless a re-run */
-	const char *const *input_names, *const *input_sha256;
+	const store_input *inputs;
 	size_t n_inputs;
 } store_run;
 

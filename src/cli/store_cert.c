@@ -9,14 +9,6 @@
 #include "record.h"
 #include "store_int.h"
 
-/* Text of column c into buf ("" for NULL). */
-static void
-text_into(const db_value *row, int c, char *buf, size_t cap)
-{
-	snprintf(buf, cap, "%.*s", row[c].type == DB_TEXT ? (int)row[c].len : 0,
-		 row[c].type == DB_TEXT ? row[c].t : "");
-}
-
 /* The products the lot has results of: 1 one (into product when it was
  * not given), 0 none, -1 after a message (several, or an error). */
 static int
@@ -36,7 +28,7 @@ lot_product(db *d, const char *lot, char *product, size_t cap)
 		size_t len = strlen(names);
 
 		if (count++ == 0)
-			text_into(row, 0, product, cap);
+			store_text(row, 0, product, cap);
 		snprintf(names + len, sizeof names - len, "%s%.*s",
 			 len ? ", " : "", (int)row[0].len,
 			 row[0].type == DB_TEXT ? row[0].t : "");
@@ -71,9 +63,9 @@ approval(db *d, const char *run_id, store_lot *l)
 	if ((rc = db_next(q, &row, &n)) == 1 && row[0].len == 8 &&
 	    memcmp(row[0].t, "approved", 8) == 0) {
 		approved = 1;
-		text_into(row, 1, l->approver, sizeof l->approver);
-		text_into(row, 2, l->approver_role, sizeof l->approver_role);
-		text_into(row, 3, l->approved_utc, sizeof l->approved_utc);
+		store_text(row, 1, l->approver, sizeof l->approver);
+		store_text(row, 2, l->approver_role, sizeof l->approver_role);
+		store_text(row, 3, l->approved_utc, sizeof l->approved_utc);
 		l->signature_seq = row[4].i;
 	}
 	db_query_close(q);
@@ -83,7 +75,7 @@ approval(db *d, const char *run_id, store_lot *l)
 static void
 fill_id(void *item, const db_value *row)
 {
-	text_into(row, 0, item, 32);
+	store_text(row, 0, item, 32);
 }
 
 /* The runs with results of the lot and product, newest first. */
@@ -148,9 +140,9 @@ run_fields(db *d, store_lot *l)
 	db_query_close(q);
 	if (rc != 1 || store_rehash_run(d, run, hash) != 0)
 		return al_free(copy), -1;
-	text_into(run, 2, l->started_utc, sizeof l->started_utc);
-	text_into(run, 3, l->analyst, sizeof l->analyst);
-	text_into(run, 5, l->command, sizeof l->command);
+	store_text(run, 2, l->started_utc, sizeof l->started_utc);
+	store_text(run, 3, l->analyst, sizeof l->analyst);
+	store_text(run, 5, l->command, sizeof l->command);
 	rc = strcmp(run[RUN_HASHED].t, hash) == 0 ? 0 : -1;
 	if (rc != 0)
 		cli_error("run %s no longer matches its hash ('" PROG " verify "
@@ -167,9 +159,9 @@ to_result(void *item, const db_value *row)
 	store_result *r = item;
 
 	memset(r, 0, sizeof *r);
-	text_into(row, 0, r->sample, sizeof r->sample);
-	text_into(row, 1, r->acid, sizeof r->acid);
-	text_into(row, 2, r->unit, sizeof r->unit);
+	store_text(row, 0, r->sample, sizeof r->sample);
+	store_text(row, 1, r->acid, sizeof r->acid);
+	store_text(row, 2, r->unit, sizeof r->unit);
 	r->n = (long)row[3].i;
 	r->has_mean = row[4].type == DB_REAL;
 	r->mean = row[4].r;
@@ -180,10 +172,10 @@ to_result(void *item, const db_value *row)
 	r->spec_min = row[7].r;
 	r->has_max = row[8].type == DB_REAL;
 	r->spec_max = row[8].r;
-	text_into(row, 9, r->status, sizeof r->status);
-	text_into(row, 10, r->flags, sizeof r->flags);
-	text_into(row, 11, r->date, sizeof r->date);
-	text_into(row, 12, r->basis, sizeof r->basis);
+	store_text(row, 9, r->status, sizeof r->status);
+	store_text(row, 10, r->flags, sizeof r->flags);
+	store_text(row, 11, r->date, sizeof r->date);
+	store_text(row, 12, r->basis, sizeof r->basis);
 }
 
 static int
@@ -217,8 +209,8 @@ replaced(db *d, store_lot *l)
 	if (q == NULL)
 		return -1;
 	if ((rc = db_next(q, &row, &n)) == 1) {
-		text_into(row, 0, l->replaces, sizeof l->replaces);
-		text_into(row, 1, l->replaces_issued, sizeof l->replaces_issued);
+		store_text(row, 0, l->replaces, sizeof l->replaces);
+		store_text(row, 1, l->replaces_issued, sizeof l->replaces_issued);
 	}
 	db_query_close(q);
 	return rc < 0 ? -1 : 0;

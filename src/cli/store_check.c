@@ -276,9 +276,8 @@ store_verify(store *s, unsigned long *runs, unsigned long *results,
 	return 0;
 }
 
-/* Column c's text into buf, "" for NULL. */
-static void
-text_at(const db_value *row, int c, char *buf, size_t cap)
+void
+store_text(const db_value *row, int c, char *buf, size_t cap)
 {
 	snprintf(buf, cap, "%.*s", row[c].type == DB_TEXT ? (int)row[c].len : 0,
 		 row[c].type == DB_TEXT ? row[c].t : "");
@@ -290,10 +289,10 @@ to_point(void *item, const db_value *row)
 {
 	store_point *p = item;
 
-	text_at(row, 0, p->lot, sizeof p->lot);
-	text_at(row, 1, p->sample, sizeof p->sample);
-	text_at(row, 2, p->date, sizeof p->date);
-	text_at(row, 6, p->unit, sizeof p->unit);
+	store_text(row, 0, p->lot, sizeof p->lot);
+	store_text(row, 1, p->sample, sizeof p->sample);
+	store_text(row, 2, p->date, sizeof p->date);
+	store_text(row, 6, p->unit, sizeof p->unit);
 	p->value = row[3].r;
 	p->has_min = row[4].type == DB_REAL;
 	p->spec_min = row[4].r;

@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "db.h"
+#include "record.h"
 #include "store.h"
 
 /* The runs row: its fields, the last (hash) not hashed. */
@@ -51,9 +52,9 @@ real_value(int has, double r)
 }
 
 /* A row into a hash (docs/store.md: N; I<integer>; R<hex bits>;
- * T<bytes>:<text>; and '\n'), and the digest in hex. */
+ * T<bytes>:<text>; and '\n'); record.h's sha256_ctx_hex gives the
+ * digest. */
 void store_hash_row(struct sha256_ctx *h, const db_value *v, int n);
-void store_hash_hex(struct sha256_ctx *h, char hex[65]);
 /* The chain's head: the last link's number and hash (0 and 64 zeros
  * before the first). 0, or -1 after a message. */
 int store_read_head(db *d, long long *seq, char hash[65]);
@@ -72,6 +73,9 @@ long long store_count(db *d, const char *sql, const db_value *params,
 int store_rows(db *d, const char *sql, const db_value *params, int n,
 	       size_t size, void (*fill)(void *item, const db_value *row),
 	       void **items, size_t *count);
+
+/* Column c's text into buf ("" for NULL). */
+void store_text(const db_value *row, int c, char *buf, size_t cap);
 
 /* row's n values copied into out, their texts into *storage (al_free
  * it): 0, or -1 when memory runs out (said). */

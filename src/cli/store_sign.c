@@ -22,7 +22,7 @@ link_hash(const char *table, const db_value *row, int n, char hex[65])
 	sha256_update(&h, strlen(table), (const uint8_t *)table);
 	sha256_update(&h, 1, (const uint8_t *)"\n");
 	store_hash_row(&h, row, n - 1);
-	store_hash_hex(&h, hex);
+	sha256_ctx_hex(&h, hex);
 }
 
 void
@@ -149,13 +149,9 @@ fill_run_info(void *item, const db_value *row)
 
 	memset(r, 0, sizeof *r);
 	r->seq = row[0].i;
-	snprintf(r->run_id, sizeof r->run_id, "%.*s", (int)row[1].len,
-		 row[1].t);
-	snprintf(r->started_utc, sizeof r->started_utc, "%.*s",
-		 (int)row[2].len, row[2].t);
-	if (row[3].type == DB_TEXT)
-		snprintf(r->analyst, sizeof r->analyst, "%.*s", (int)row[3].len,
-			 row[3].t);
+	store_text(row, 1, r->run_id, sizeof r->run_id);
+	store_text(row, 2, r->started_utc, sizeof r->started_utc);
+	store_text(row, 3, r->analyst, sizeof r->analyst);
 	/* the command: the word after the program's name */
 	snprintf(r->command, sizeof r->command, "%.*s",
 		 cmd ? (int)strcspn(cmd + 1, " ") : 0, cmd ? cmd + 1 : "");

@@ -12,7 +12,7 @@
 int
 stored_run_input(stored_run *r, const char *name, const char *hex)
 {
-	struct stored_input *grown;
+	store_input *grown;
 
 	if (r->path == NULL)
 		return 0;
@@ -61,16 +61,6 @@ stored_run_begin(stored_run *r, run_record *rec, const char *analyst,
 
 	if (r->path == NULL)
 		return 0;
-	r->names = al_calloc(r->n_inputs + 1, sizeof *r->names);
-	r->hashes = al_calloc(r->n_inputs + 1, sizeof *r->hashes);
-	if (r->names == NULL || r->hashes == NULL) {
-		cli_error("%s", al_strerror(AL_ENOMEM));
-		return -1;
-	}
-	for (size_t i = 0; i < r->n_inputs; i++) {
-		r->names[i] = r->inputs[i].name;
-		r->hashes[i] = r->inputs[i].sha256;
-	}
 	for (int i = 0; i < argc && len < sizeof r->command; i++)
 		len += (size_t)snprintf(r->command + len, sizeof r->command - len,
 					"%s%s", i ? " " : PROG " ", argv[i]);
@@ -82,8 +72,7 @@ stored_run_begin(stored_run *r, run_record *rec, const char *analyst,
 		.command = r->command,
 		.version = ACIDLOT_VERSION,
 		.reason = r->rerun,
-		.input_names = r->names,
-		.input_sha256 = r->hashes,
+		.inputs = r->inputs,
 		.n_inputs = r->n_inputs,
 	};
 	if ((r->store = store_open(r->path, 1)) == NULL ||
@@ -114,8 +103,7 @@ stored_run_close(stored_run *r)
 	if (r->in_transaction)
 		store_rollback(r->store);
 	store_close(r->store);
-	AL_FREE_ALL(r->inputs, r->names, r->hashes);
+	al_free(r->inputs);
 	r->store = NULL;
 	r->inputs = NULL;
-	r->names = r->hashes = NULL;
 }

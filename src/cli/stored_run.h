@@ -12,15 +12,11 @@
 typedef struct stored_run {
 	const char *path;  /* --store, NULL: none */
 	const char *rerun; /* --rerun REASON */
-	struct stored_input {
-		const char *name;
-		char sha256[65];
-	} *inputs;
+	store_input *inputs;
 	size_t n_inputs;
 	store *store; /* open from stored_run_begin */
 	int in_transaction;
 	/* what the run's row points at, until the commit */
-	const char **names, **hashes;
 	char command[4096], user[32];
 } stored_run;
 
